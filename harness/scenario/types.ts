@@ -1,0 +1,55 @@
+// The resolved scenario: what the loader hands to the runner after validation, migration,
+// defaults and inlining of referenced files. Everything the plant needs is a PlantConfig.
+
+import type { GaitName } from '../builds/interface.js';
+import type { PlantConfig, Vec3 } from '../plant/types.js';
+
+export interface CommandStep {
+  at_s: number;
+  gait: GaitName;
+  velocity_mps: Vec3;
+  yawRate_radps: number;
+}
+
+export type FrictionSensing =
+  | { kind: 'truth' }
+  | { kind: 'constant'; value: number }
+  | { kind: 'scale'; factor: number };
+
+export interface Sensing {
+  frictionEstimate: FrictionSensing;
+  /** Standard deviation of Gaussian noise on each measured foot-force component. */
+  forceNoise_N: number;
+}
+
+export interface Acceptance {
+  mustNotFall: boolean;
+  minFrictionMargin: number | null;
+  maxSlipDistance_m: number | null;
+  maxCommandedViolations: number | null;
+  /** Fraction of the commanded travel achieved (null: not checked). */
+  minProgress: number | null;
+}
+
+export interface ControlParams {
+  rate_Hz: number;
+  loopBudget_us: number;
+}
+
+export interface ResolvedScenario {
+  id: string;
+  revision: number;
+  title: string;
+  /** Path of the source file, relative to the suite root (for messages and results). */
+  file: string;
+  /** sha256 of the canonical JSON of this object without `hash` and `file`. */
+  hash: string;
+  duration_s: number;
+  seed: number;
+  plant: PlantConfig;
+  control: ControlParams;
+  commands: CommandStep[];
+  sensing: Sensing;
+  acceptance: Acceptance;
+  tags: string[];
+}
