@@ -68,8 +68,11 @@ export interface ControllerSetup {
 export interface Controller {
   /** Names of the telemetry scalars this build writes; fixed for the run. */
   readonly telemetryNames: readonly string[];
-  /** Reads obs, writes every field of action. Must not allocate. */
-  tick(obs: Observation, action: Action): void;
+  /**
+   * Reads obs, writes every field of action. Must not allocate. In-process builds return
+   * nothing; process builds return a promise that settles when the build's answer arrived.
+   */
+  tick(obs: Observation, action: Action): void | Promise<void>;
   /**
    * Optional: one governor update alone, for the bench. Fed a recorded observation; advances the
    * governor's applied reference by one control period.

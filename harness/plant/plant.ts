@@ -1,0 +1,490 @@
+// The contact plant: a 6-DoF rigid trunk and N point-mass feet on massless leg actuators, on a
+// Hunt–Crossley / Stribeck ground. One step() allocates nothing: all state lives in Float64Arrays
+// made in the constructor, and the math is written out component by component.
+//
+// Integration (fixed step h, deterministic):
+// - translation of trunk and feet: leapfrog (kick–drift with half-step velocities; Verlet 1967).
+//   It is symplectic like semi-implicit Euler, so stiff contact springs stay stable for ω·h < 2,
+//   and with the half kick on the first step it is exact for constant forces (free fall, pulses).
+//   Velocities in the state are therefore the mid-step velocities v(t − h/2).
+// - trunk rotation: classical RK4 on Euler's equations and the quaternion kinematics with the
+//   step's external torque held constant, then renormalised: torque-free tumbling keeps energy and
+//   angular momentum to ~1e-12 over seconds at the default step.
+// - friction: the per-foot implicit stick/slide solve of contact.ts.
+
+import type { Action } from '../builds/interface.js';
+import { footFriction, huntCrossleyNormal_N } from './contact.js';
+import { PlantDivergedError } from './errors.js';
+import { FrictionField } from './frictionMap.js';
+import { gravityOnIncline } from './gravity.js';
+import { PushSchedule } from './pushes.js';
+import { invertSymmetric3, matrixFromQuaternion, quaternionFromRollPitchYaw } from './rotation.js';
+import type { PlantConfig, RobotParams } from './types.js';
+import { validatePlantConfig } from './validate.js';
+
+/** Regularisation speed of the trunk-on-ground friction (a fallen robot only; common practice). */
+const TRUNK_FRICTION_SPEED_mps = 0.05;
+
+export class Plant {
+  readonly robot: RobotParams;
+  readonly footCount: number;
+  readonly step_s: number;
+  readonly totalMass_kg: number;
+  readonly gravity_mps2 = new Float64Array(3);
+  readonly friction: FrictionField;
+
+  time_s = 0;
+  readonly trunkPosition_m = new Float64Array(3);
+  readonly trunkQuaternion = new Float64Array(4);
+  readonly trunkVelocity_mps = new Float64Array(3);
+  /** Body frame. */
+  readonly trunkAngularVelocity_radps = new Float64Array(3);
+  readonly footPosition_m: Float64Array;
+  readonly footVelocity_mps: Float64Array;
+
+  /** Ground force on each foot during the last step, world frame. */
+  readonly footGroundForce_N: Float64Array;
+  readonly footInContact: Uint8Array;
+  /** Material index under each foot (into friction.materials) and its static friction. */
+  readonly footMaterial: Int32Array;
+  readonly footStaticFriction: Float64Array;
+  /** Leg actuator + end-stop force on each foot during the last step, world frame. */
+  readonly legForce_N: Float64Array;
+  /** Normal force of the ground on the trunk's collision box during the last step. */
+  trunkGroundForce_N = 0;
+
+  // Held action (zero-order hold between control ticks).
+  private readonly heldGroundForce: Float64Array;
+  private readonly heldTarget: Float64Array;
+  private readonly heldTargetVelocity: Float64Array;
+  private readonly heldStiffness: Float64Array;
+  private readonly heldDamping: Float64Array;
+
+  // Constants.
+  private readonly hips: Float64Array;
+  private readonly trunkMass: number;
+  private readonly footMass: number;
+  private readonly inertia = new Float64Array(9);
+  private readonly inertiaInverse = new Float64Array(9);
+  private readonly halfExtents = new Float64Array(3);
+  private readonly boundingRadius: number;
+  private readonly pushes: PushSchedule;
+  private readonly contactStiffness: number;
+  private readonly contactExponent: number;
+  private readonly contactDamping: number;
+
+  // Scratch.
+  private readonly rotation = new Float64Array(9);
+  private readonly bodyTorque = new Float64Array(3);
+  private readonly stages = new Float64Array(28);
+  private readonly stageInput = new Float64Array(7);
+  private readonly friction2 = new Float64Array(2);
+  private readonly pushWrench = new Float64Array(6);
+  private readonly clock = new Float64Array(1);
+  private firstStep = true;
+
+  constructor(config: PlantConfig) {
+    validatePlantConfig(config);
+    const { robot, ground, physics, initial } = config;
+    this.robot = robot;
+    this.footCount = robot.hips_m.length;
+    const n = this.footCount;
+    this.step_s = physics.step_s;
+    this.trunkMass = robot.trunk.mass_kg;
+    this.footMass = robot.foot.mass_kg;
+    this.totalMass_kg = this.trunkMass + n * this.footMass;
+    gravityOnIncline(this.gravity_mps2, ground.incline_deg.pitch, ground.incline_deg.roll);
+    this.friction = new FrictionField(ground.friction);
+    this.pushes = new PushSchedule(config.pushes);
+    this.contactStiffness = ground.contact.stiffness_N_per_m;
+    this.contactExponent = ground.contact.exponent;
+    this.contactDamping = ground.contact.damping_s_per_m;
+
+    this.inertia.set(robot.trunk.inertia_kgm2.flat());
+    invertSymmetric3(this.inertiaInverse, this.inertia);
+    this.halfExtents.set(robot.trunk.halfExtents_m);
+    this.boundingRadius = Math.hypot(...robot.trunk.halfExtents_m);
+    this.hips = Float64Array.from(robot.hips_m.flat());
+
+    this.footPosition_m = new Float64Array(3 * n);
+    this.footVelocity_mps = new Float64Array(3 * n);
+    this.footGroundForce_N = new Float64Array(3 * n);
+    this.footInContact = new Uint8Array(n);
+    this.footMaterial = new Int32Array(n);
+    this.footStaticFriction = new Float64Array(n);
+    this.legForce_N = new Float64Array(3 * n);
+    this.heldGroundForce = new Float64Array(3 * n);
+    this.heldTarget = new Float64Array(3 * n);
+    this.heldTargetVelocity = new Float64Array(3 * n);
+    this.heldStiffness = new Float64Array(n);
+    this.heldDamping = new Float64Array(n);
+
+    this.trunkPosition_m.set(initial.position_m);
+    const deg = Math.PI / 180;
+    quaternionFromRollPitchYaw(this.trunkQuaternion, initial.rpy_deg[0] * deg, initial.rpy_deg[1] * deg, initial.rpy_deg[2] * deg);
+    this.trunkVelocity_mps.set(initial.velocity_mps);
+    this.trunkAngularVelocity_radps.set(initial.angularVelocity_radps);
+    this.placeFeet(initial.feet);
+    this.updateFootMaterials();
+  }
+
+  /** Holds the build's action until the next call. */
+  applyAction(action: Action): void {
+    this.heldGroundForce.set(action.groundForce_N);
+    this.heldTarget.set(action.footTarget_m);
+    this.heldTargetVelocity.set(action.footTargetVelocity_mps);
+    this.heldStiffness.set(action.stiffness_N_per_m);
+    this.heldDamping.set(action.damping_Ns_per_m);
+  }
+
+  /** Advances by one physics step. Throws PlantDivergedError on a non-finite state. */
+  step(): void {
+    const h = this.step_s;
+    const kick = this.firstStep ? 0.5 * h : h;
+    const R = matrixFromQuaternion(this.rotation, this.trunkQuaternion);
+    const p = this.trunkPosition_m;
+    const v = this.trunkVelocity_mps;
+    const w = this.trunkAngularVelocity_radps;
+    const g = this.gravity_mps2;
+    const gx = g[0];
+    const gy = g[1];
+    const gz = g[2];
+    const leg = this.robot.leg;
+    const maxForce = leg.maxForce_N;
+    const footMass = this.footMass;
+    const materials = this.friction.materials;
+
+    let trunkFx = this.trunkMass * gx;
+    let trunkFy = this.trunkMass * gy;
+    let trunkFz = this.trunkMass * gz;
+    let torqueX = 0;
+    let torqueY = 0;
+    let torqueZ = 0;
+
+    const fp = this.footPosition_m;
+    const fv = this.footVelocity_mps;
+    for (let i = 0; i < this.footCount; i++) {
+      const a = 3 * i;
+      // Hip in world: ph = p + R·r; hip velocity: v + R·(ω × r) (ω in body frame).
+      const rx = this.hips[a];
+      const ry = this.hips[a + 1];
+      const rz = this.hips[a + 2];
+      const rwx = R[0] * rx + R[1] * ry + R[2] * rz;
+      const rwy = R[3] * rx + R[4] * ry + R[5] * rz;
+      const rwz = R[6] * rx + R[7] * ry + R[8] * rz;
+      const cbx = w[1] * rz - w[2] * ry;
+      const cby = w[2] * rx - w[0] * rz;
+      const cbz = w[0] * ry - w[1] * rx;
+      const relX = fp[a] - (p[0] + rwx);
+      const relY = fp[a + 1] - (p[1] + rwy);
+      const relZ = fp[a + 2] - (p[2] + rwz);
+      const vrelX = fv[a] - (v[0] + R[0] * cbx + R[1] * cby + R[2] * cbz);
+      const vrelY = fv[a + 1] - (v[1] + R[3] * cbx + R[4] * cby + R[5] * cbz);
+      const vrelZ = fv[a + 2] - (v[2] + R[6] * cbx + R[7] * cby + R[8] * cbz);
+
+      // Impedance toward the target, in the trunk frame (Rᵀ·rel).
+      const kp = this.heldStiffness[i];
+      const kd = this.heldDamping[i];
+      let legX = -this.heldGroundForce[a];
+      let legY = -this.heldGroundForce[a + 1];
+      let legZ = -this.heldGroundForce[a + 2];
+      if (kp !== 0 || kd !== 0) {
+        const bx = kp * (this.heldTarget[a] - (R[0] * relX + R[3] * relY + R[6] * relZ)) +
+          kd * (this.heldTargetVelocity[a] - (R[0] * vrelX + R[3] * vrelY + R[6] * vrelZ));
+        const by = kp * (this.heldTarget[a + 1] - (R[1] * relX + R[4] * relY + R[7] * relZ)) +
+          kd * (this.heldTargetVelocity[a + 1] - (R[1] * vrelX + R[4] * vrelY + R[7] * vrelZ));
+        const bz = kp * (this.heldTarget[a + 2] - (R[2] * relX + R[5] * relY + R[8] * relZ)) +
+          kd * (this.heldTargetVelocity[a + 2] - (R[2] * vrelX + R[5] * vrelY + R[8] * vrelZ));
+        legX += R[0] * bx + R[1] * by + R[2] * bz;
+        legY += R[3] * bx + R[4] * by + R[5] * bz;
+        legZ += R[6] * bx + R[7] * by + R[8] * bz;
+      }
+      const legMagnitude = Math.sqrt(legX * legX + legY * legY + legZ * legZ);
+      if (legMagnitude > maxForce) {
+        const s = maxForce / legMagnitude;
+        legX *= s;
+        legY *= s;
+        legZ *= s;
+      }
+      // Mechanical end-stop along the leg, one-sided (it pushes back, never pulls).
+      const length = Math.sqrt(relX * relX + relY * relY + relZ * relZ);
+      if (length > 1e-9 && (length > leg.maxLength_m || length < leg.minLength_m)) {
+        const ux = relX / length;
+        const uy = relY / length;
+        const uz = relZ / length;
+        const lengthRate = ux * vrelX + uy * vrelY + uz * vrelZ;
+        let along = 0;
+        if (length > leg.maxLength_m) {
+          along = -(leg.endStopStiffness_N_per_m * (length - leg.maxLength_m) + leg.endStopDamping_Ns_per_m * lengthRate);
+          if (along > 0) along = 0;
+        } else {
+          along = leg.endStopStiffness_N_per_m * (leg.minLength_m - length) - leg.endStopDamping_Ns_per_m * lengthRate;
+          if (along < 0) along = 0;
+        }
+        legX += along * ux;
+        legY += along * uy;
+        legZ += along * uz;
+      }
+      this.legForce_N[a] = legX;
+      this.legForce_N[a + 1] = legY;
+      this.legForce_N[a + 2] = legZ;
+
+      // The leg pushes the trunk back at the hip.
+      trunkFx -= legX;
+      trunkFy -= legY;
+      trunkFz -= legZ;
+      torqueX -= rwy * legZ - rwz * legY;
+      torqueY -= rwz * legX - rwx * legZ;
+      torqueZ -= rwx * legY - rwy * legX;
+
+      // Ground.
+      const normal = huntCrossleyNormal_N(this.contactStiffness, this.contactExponent, this.contactDamping, -fp[a + 2], -fv[a + 2]);
+      let groundX = 0;
+      let groundY = 0;
+      if (normal > 0) {
+        const m = this.footMaterial[i];
+        this.footInContact[i] = 1;
+        footFriction(
+          this.friction2,
+          footMass,
+          kick,
+          fv[a],
+          fv[a + 1],
+          legX + footMass * gx,
+          legY + footMass * gy,
+          normal,
+          materials.staticFriction[m],
+          materials.kineticFriction[m],
+          materials.stribeckVelocity_mps[m],
+          materials.stribeckExponent[m],
+          materials.viscous_Ns_per_m[m],
+        );
+        groundX = this.friction2[0];
+        groundY = this.friction2[1];
+      } else {
+        this.footInContact[i] = 0;
+      }
+      this.footGroundForce_N[a] = groundX;
+      this.footGroundForce_N[a + 1] = groundY;
+      this.footGroundForce_N[a + 2] = normal;
+
+      const kickPerMass = kick / footMass;
+      fv[a] += kickPerMass * (legX + footMass * gx + groundX);
+      fv[a + 1] += kickPerMass * (legY + footMass * gy + groundY);
+      fv[a + 2] += kickPerMass * (legZ + footMass * gz + normal);
+      fp[a] += h * fv[a];
+      fp[a + 1] += h * fv[a + 1];
+      fp[a + 2] += h * fv[a + 2];
+    }
+
+    // Pushes at points fixed in the trunk frame.
+    if (this.pushes.size > 0) {
+      const wrench = this.pushWrench;
+      this.clock[0] = this.time_s;
+      this.pushes.wrenchAt(wrench, this.clock, R);
+      trunkFx += wrench[0];
+      trunkFy += wrench[1];
+      trunkFz += wrench[2];
+      torqueX += wrench[3];
+      torqueY += wrench[4];
+      torqueZ += wrench[5];
+    }
+
+    // Trunk box on the ground (a fall): corners only, and only when the trunk is low enough.
+    this.trunkGroundForce_N = 0;
+    if (p[2] < this.boundingRadius) {
+      const he = this.halfExtents;
+      for (let c = 0; c < 8; c++) {
+        const bx = c & 1 ? he[0] : -he[0];
+        const by = c & 2 ? he[1] : -he[1];
+        const bz = c & 4 ? he[2] : -he[2];
+        const ax = R[0] * bx + R[1] * by + R[2] * bz;
+        const ay = R[3] * bx + R[4] * by + R[5] * bz;
+        const az = R[6] * bx + R[7] * by + R[8] * bz;
+        const z = p[2] + az;
+        if (z >= 0) continue;
+        const wbx = w[1] * bz - w[2] * by;
+        const wby = w[2] * bx - w[0] * bz;
+        const wbz = w[0] * by - w[1] * bx;
+        const cvx = v[0] + R[0] * wbx + R[1] * wby + R[2] * wbz;
+        const cvy = v[1] + R[3] * wbx + R[4] * wby + R[5] * wbz;
+        const cvz = v[2] + R[6] * wbx + R[7] * wby + R[8] * wbz;
+        const normal = huntCrossleyNormal_N(this.contactStiffness, this.contactExponent, this.contactDamping, -z, -cvz);
+        if (normal <= 0) continue;
+        const m = this.friction.lookup(p[0] + ax, p[1] + ay);
+        const speed = Math.sqrt(cvx * cvx + cvy * cvy + TRUNK_FRICTION_SPEED_mps * TRUNK_FRICTION_SPEED_mps);
+        const scale = (-materials.kineticFriction[m] * normal) / speed;
+        const fx = scale * cvx;
+        const fy = scale * cvy;
+        trunkFx += fx;
+        trunkFy += fy;
+        trunkFz += normal;
+        torqueX += ay * normal - az * fy;
+        torqueY += az * fx - ax * normal;
+        torqueZ += ax * fy - ay * fx;
+        this.trunkGroundForce_N += normal;
+      }
+    }
+
+    // Trunk translation (leapfrog).
+    const kickPerTrunkMass = kick / this.trunkMass;
+    v[0] += kickPerTrunkMass * trunkFx;
+    v[1] += kickPerTrunkMass * trunkFy;
+    v[2] += kickPerTrunkMass * trunkFz;
+    p[0] += h * v[0];
+    p[1] += h * v[1];
+    p[2] += h * v[2];
+
+    // Trunk rotation (RK4 with the torque in the body frame held over the step).
+    const tb = this.bodyTorque;
+    tb[0] = R[0] * torqueX + R[3] * torqueY + R[6] * torqueZ;
+    tb[1] = R[1] * torqueX + R[4] * torqueY + R[7] * torqueZ;
+    tb[2] = R[2] * torqueX + R[5] * torqueY + R[8] * torqueZ;
+    this.integrateRotation();
+
+    this.time_s += h;
+    this.firstStep = false;
+    this.updateFootMaterials();
+    this.checkFinite();
+  }
+
+  /** Copies the plant's truth into an observation (the run layer adds noise and estimates). */
+  fillObservation(obs: {
+    time_s: number;
+    trunkPosition_m: Float64Array;
+    trunkQuaternion: Float64Array;
+    trunkVelocity_mps: Float64Array;
+    trunkAngularVelocity_radps: Float64Array;
+    footPosition_m: Float64Array;
+    footVelocity_mps: Float64Array;
+    footForce_N: Float64Array;
+    footContact: Uint8Array;
+  }): void {
+    obs.time_s = this.time_s;
+    obs.trunkPosition_m.set(this.trunkPosition_m);
+    obs.trunkQuaternion.set(this.trunkQuaternion);
+    obs.trunkVelocity_mps.set(this.trunkVelocity_mps);
+    obs.trunkAngularVelocity_radps.set(this.trunkAngularVelocity_radps);
+    obs.footPosition_m.set(this.footPosition_m);
+    obs.footVelocity_mps.set(this.footVelocity_mps);
+    obs.footForce_N.set(this.footGroundForce_N);
+    obs.footContact.set(this.footInContact);
+  }
+
+  /**
+   * RK4 over one step. Stage inputs go through the scratch array `stageInput` rather than as
+   * arguments: doubles passed to a call V8 does not inline are boxed, which would allocate.
+   */
+  private integrateRotation(): void {
+    const h = this.step_s;
+    const q = this.trunkQuaternion;
+    const w = this.trunkAngularVelocity_radps;
+    const k = this.stages;
+    const x = this.stageInput;
+    for (let j = 0; j < 4; j++) x[j] = q[j];
+    for (let j = 0; j < 3; j++) x[4 + j] = w[j];
+    this.rotationDerivative(0);
+    for (let j = 0; j < 4; j++) x[j] = q[j] + 0.5 * h * k[j];
+    for (let j = 0; j < 3; j++) x[4 + j] = w[j] + 0.5 * h * k[4 + j];
+    this.rotationDerivative(7);
+    for (let j = 0; j < 4; j++) x[j] = q[j] + 0.5 * h * k[7 + j];
+    for (let j = 0; j < 3; j++) x[4 + j] = w[j] + 0.5 * h * k[11 + j];
+    this.rotationDerivative(14);
+    for (let j = 0; j < 4; j++) x[j] = q[j] + h * k[14 + j];
+    for (let j = 0; j < 3; j++) x[4 + j] = w[j] + h * k[18 + j];
+    this.rotationDerivative(21);
+    const sixth = h / 6;
+    for (let j = 0; j < 4; j++) q[j] += sixth * (k[j] + 2 * k[7 + j] + 2 * k[14 + j] + k[21 + j]);
+    for (let j = 0; j < 3; j++) w[j] += sixth * (k[4 + j] + 2 * k[11 + j] + 2 * k[18 + j] + k[25 + j]);
+    const norm = Math.sqrt(q[0] * q[0] + q[1] * q[1] + q[2] * q[2] + q[3] * q[3]);
+    q[0] /= norm;
+    q[1] /= norm;
+    q[2] /= norm;
+    q[3] /= norm;
+  }
+
+  /** Euler's equations I·ω̇ = τ − ω × Iω and q̇ = ½·q ⊗ (0, ω) at stageInput, into stages[at..at+6]. */
+  private rotationDerivative(at: number): void {
+    const I = this.inertia;
+    const Ii = this.inertiaInverse;
+    const tb = this.bodyTorque;
+    const k = this.stages;
+    const x = this.stageInput;
+    const qw = x[0], qx = x[1], qy = x[2], qz = x[3], wx = x[4], wy = x[5], wz = x[6];
+    const lx = I[0] * wx + I[1] * wy + I[2] * wz;
+    const ly = I[3] * wx + I[4] * wy + I[5] * wz;
+    const lz = I[6] * wx + I[7] * wy + I[8] * wz;
+    const ex = tb[0] - (wy * lz - wz * ly);
+    const ey = tb[1] - (wz * lx - wx * lz);
+    const ez = tb[2] - (wx * ly - wy * lx);
+    k[at] = -0.5 * (qx * wx + qy * wy + qz * wz);
+    k[at + 1] = 0.5 * (qw * wx + qy * wz - qz * wy);
+    k[at + 2] = 0.5 * (qw * wy + qz * wx - qx * wz);
+    k[at + 3] = 0.5 * (qw * wz + qx * wy - qy * wx);
+    k[at + 4] = Ii[0] * ex + Ii[1] * ey + Ii[2] * ez;
+    k[at + 5] = Ii[3] * ex + Ii[4] * ey + Ii[5] * ez;
+    k[at + 6] = Ii[6] * ex + Ii[7] * ey + Ii[8] * ez;
+  }
+
+  private placeFeet(feet: PlantConfig['initial']['feet']): void {
+    const R = matrixFromQuaternion(this.rotation, this.trunkQuaternion);
+    const p = this.trunkPosition_m;
+    const v = this.trunkVelocity_mps;
+    const w = this.trunkAngularVelocity_radps;
+    for (let i = 0; i < this.footCount; i++) {
+      const a = 3 * i;
+      const rx = this.hips[a];
+      const ry = this.hips[a + 1];
+      const rz = this.hips[a + 2];
+      if (feet === 'standing') {
+        this.footPosition_m[a] = p[0] + R[0] * rx + R[1] * ry + R[2] * rz;
+        this.footPosition_m[a + 1] = p[1] + R[3] * rx + R[4] * ry + R[5] * rz;
+        this.footPosition_m[a + 2] = 0;
+      } else {
+        this.footPosition_m.set(feet[i], a);
+      }
+      const cbx = w[1] * rz - w[2] * ry;
+      const cby = w[2] * rx - w[0] * rz;
+      const cbz = w[0] * ry - w[1] * rx;
+      this.footVelocity_mps[a] = v[0] + R[0] * cbx + R[1] * cby + R[2] * cbz;
+      this.footVelocity_mps[a + 1] = v[1] + R[3] * cbx + R[4] * cby + R[5] * cbz;
+      this.footVelocity_mps[a + 2] = v[2] + R[6] * cbx + R[7] * cby + R[8] * cbz;
+    }
+  }
+
+  private updateFootMaterials(): void {
+    const mus = this.friction.materials.staticFriction;
+    for (let i = 0; i < this.footCount; i++) {
+      const m = this.friction.lookup(this.footPosition_m[3 * i], this.footPosition_m[3 * i + 1]);
+      this.footMaterial[i] = m;
+      this.footStaticFriction[i] = mus[m];
+    }
+  }
+
+  private checkFinite(): void {
+    const p = this.trunkPosition_m;
+    const v = this.trunkVelocity_mps;
+    const w = this.trunkAngularVelocity_radps;
+    const q = this.trunkQuaternion;
+    let sum = p[0] + p[1] + p[2] + v[0] + v[1] + v[2] + w[0] + w[1] + w[2] + q[0] + q[1] + q[2] + q[3];
+    for (let j = 0; j < this.footPosition_m.length; j++) sum += this.footPosition_m[j] + this.footVelocity_mps[j];
+    if (Number.isFinite(sum)) return;
+    throw new PlantDivergedError(this.time_s, this.firstNonFinite());
+  }
+
+  private firstNonFinite(): string {
+    const named: [string, Float64Array][] = [
+      ['trunk position', this.trunkPosition_m],
+      ['trunk orientation', this.trunkQuaternion],
+      ['trunk velocity', this.trunkVelocity_mps],
+      ['trunk angular velocity', this.trunkAngularVelocity_radps],
+      ['foot position', this.footPosition_m],
+      ['foot velocity', this.footVelocity_mps],
+    ];
+    for (const [name, values] of named) {
+      const j = values.findIndex((x) => !Number.isFinite(x));
+      if (j >= 0) return values.length > 4 ? `${name} of foot ${Math.floor(j / 3)} (component ${'xyz'[j % 3]})` : `${name} (component ${j})`;
+    }
+    return 'state';
+  }
+}
