@@ -82,6 +82,7 @@ export class Plant {
   private readonly pushWrench = new Float64Array(6);
   private readonly clock = new Float64Array(1);
   private firstStep = true;
+  private stepCount = 0;
 
   constructor(config: PlantConfig) {
     validatePlantConfig(config);
@@ -342,7 +343,9 @@ export class Plant {
     tb[2] = R[2] * torqueX + R[5] * torqueY + R[8] * torqueZ;
     this.integrateRotation();
 
-    this.time_s += h;
+    // Time from the step count, so that long runs do not accumulate rounding (8 s, not 7.99999…).
+    this.stepCount++;
+    this.time_s = this.stepCount * h;
     this.firstStep = false;
     this.updateFootMaterials();
     this.checkFinite();

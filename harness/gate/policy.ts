@@ -1,0 +1,143 @@
+// Loading a gate policy file (YAML): parse, validate against policy.schema.json, fill defaults.
+// Errors name the file, line, column, path, the value and what is expected, with a did-you-mean
+// for misspelt keys.
+
+import { readFileSync } from 'node:fs';
+import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
+import { closest, distance } from 'fastest-levenshtein';
+import { LineCounter, parseDocument } from 'yaml';
+import { DEFAULT_GATE_RULES, GATE_RULE_NAMES, type GatePolicy, type GateRules } from './defaults.js';
+import { locate } from './yamlLocation.js';
+
+export const POLICY_SCHEMA_URL = new URL('./policy.schema.json', import.meta.url);
+
+export interface PolicyIssue {
+  file: string;
+  line?: number;
+  col?: number;
+  /** Dotted path, e.g. overrides.ice-walk.frictionMarginMinLoss. */
+  path: string;
+  message: string;
+}
+
+export class PolicyError extends Error {
+  constructor(readonly issues: PolicyIssue[]) {
+    super(issues.map(formatPolicyIssue).join('\n'));
+    this.name = 'PolicyError';
+  }
+}
+
+export function formatPolicyIssue(issue: PolicyIssue): string {
+  const where = issue.line === undefined ? issue.file : `${issue.file}:${issue.line}:${issue.col}`;
+  return `${where}: ${issue.path === '' ? '(top level)' : issue.path}: ${issue.message}`;
+}
+
+let compiled: ValidateFunction | undefined;
+function validator(): ValidateFunction {
+  if (compiled === undefined) {
+    const ajv = new Ajv2020({ allErrors: true, strict: true, strictTypes: false });
+    compiled = ajv.compile(JSON.parse(readFileSync(POLICY_SCHEMA_URL, 'utf8')));
+  }
+  return compiled;
+}
+
+const TOP_LEVEL_KEYS: readonly string[] = [...GATE_RULE_NAMES, 'version', 'overrides'];
+
+function didYouMean(key: string, allowed: readonly string[]): string {
+  const guess = closest(key, allowed as string[]);
+  return distance(key, guess) <= Math.max(2, Math.floor(guess.length / 3)) ? `; did you mean "${guess}"?` : '';
+}
+
+function show(value: unknown): string {
+  return typeof value === 'string' ? JSON.stringify(value) : JSON.stringify(value) ?? String(value);
+}
+
+function valueAt(root: unknown, segments: readonly string[]): unknown {
+  let value = root;
+  for (const s of segments) value = value !== null && typeof value === 'object' ? (value as Record<string, unknown>)[s] : undefined;
+  return value;
+}
+
+function expectation(error: ErrorObject): string {
+  const p = error.params as Record<string, unknown>;
+  switch (error.keyword) {
+    case 'type':
+      if (p.type === 'boolean') return 'expected true or false';
+      if (p.type === 'object') return 'expected a mapping (key: value lines)';
+      return `expected a ${p.type}`;
+    case 'minimum':
+      return `expected a number ≥ ${p.limit}`;
+    case 'maximum':
+      return `expected a number ≤ ${p.limit}`;
+    case 'const':
+      return `expected ${show(p.allowedValue)}`;
+    default:
+      return error.message ?? error.keyword;
+  }
+}
+
+function decodePointer(pointer: string): string[] {
+  return pointer === '' ? [] : pointer.slice(1).split('/').map((s) => s.replace(/~1/g, '/').replace(/~0/g, '~'));
+}
+
+function dedupeAndSort(issues: PolicyIssue[]): PolicyIssue[] {
+  const seen = new Set<string>();
+  const unique = issues.filter((issue) => {
+    const text = formatPolicyIssue(issue);
+    if (seen.has(text)) return false;
+    seen.add(text);
+    return true;
+  });
+  return unique.sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.col ?? 0) - (b.col ?? 0));
+}
+
+/** Parses policy YAML text; `file` is used in messages. An empty document is the default policy. */
+export function parsePolicy(text: string, file: string): GatePolicy {
+  const lineCounter = new LineCounter();
+  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
+  if (doc.errors.length > 0) {
+    throw new PolicyError(
+      doc.errors.map((e) => {
+        const pos = e.linePos?.[0];
+        return { file, line: pos?.line, col: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
+      }),
+    );
+  }
+  const value: unknown = doc.toJS() ?? {};
+  const validate = validator();
+  if (!validate(value)) {
+    const issues: PolicyIssue[] = [];
+    for (const error of validate.errors ?? []) {
+      const segments = decodePointer(error.instancePath);
+      if (error.keyword === 'unevaluatedProperties' || error.keyword === 'additionalProperties') {
+        const key = String((error.params as Record<string, unknown>).unevaluatedProperty ?? (error.params as Record<string, unknown>).additionalProperty);
+        const allowed = segments.length === 0 ? TOP_LEVEL_KEYS : GATE_RULE_NAMES;
+        const pos = locate(doc, lineCounter, [...segments, key], { key: true });
+        issues.push({ file, line: pos?.line, col: pos?.col, path: [...segments, key].join('.'), message: `unknown key${didYouMean(key, allowed)}` });
+      } else if (error.keyword === '$ref') {
+        continue;
+      } else {
+        const pos = locate(doc, lineCounter, segments);
+        const v = valueAt(value, segments);
+        issues.push({ file, line: pos?.line, col: pos?.col, path: segments.join('.'), message: `${show(v)}: ${expectation(error)}` });
+      }
+    }
+    throw new PolicyError(dedupeAndSort(issues));
+  }
+  const raw = value as Partial<GateRules> & { version?: 1; overrides?: Record<string, Partial<GateRules>> };
+  const rules: GateRules = { ...DEFAULT_GATE_RULES };
+  for (const name of GATE_RULE_NAMES) {
+    if (raw[name] !== undefined) (rules as unknown as Record<string, unknown>)[name] = raw[name];
+  }
+  return { rules, overrides: raw.overrides ?? {}, file };
+}
+
+export function loadPolicy(file: string): GatePolicy {
+  let text: string;
+  try {
+    text = readFileSync(file, 'utf8');
+  } catch (error) {
+    throw new PolicyError([{ file, path: '', message: `cannot read the policy file (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})` }]);
+  }
+  return parsePolicy(text, file);
+}

@@ -1,0 +1,49 @@
+// The operator's command schedule: which command holds at time t, and the commanded trunk path
+// (the integral of the commanded velocity, rotated by the commanded yaw) the scorer tracks against.
+
+import type { Command } from '../builds/interface.js';
+import type { CommandStep } from '../scenario/types.js';
+
+export class CommandSchedule {
+  private cursor = 0;
+  /** Commanded heading, integrated from the yaw rate (world frame), starting at the initial yaw. */
+  private yaw_rad: number;
+
+  constructor(
+    private readonly steps: CommandStep[],
+    initialYaw_rad = 0,
+  ) {
+    this.yaw_rad = initialYaw_rad;
+  }
+
+  /**
+   * Advances to time t: writes the command in force into `command` and moves the reference
+   * position by dt along the commanded velocity. Velocities are in the world frame when the yaw
+   * and heading are zero; the commanded velocity is given in the commanded heading frame and turns with it.
+   */
+  advance(t_s: number, dt_s: number, command: Command, reference_m: Float64Array): void {
+    const steps = this.steps;
+    while (this.cursor + 1 < steps.length && steps[this.cursor + 1].at_s <= t_s) this.cursor++;
+    const step = steps.length > 0 && steps[this.cursor].at_s <= t_s ? steps[this.cursor] : null;
+    if (!step) {
+      command.gait = 'stand';
+      command.velocity_mps[0] = 0;
+      command.velocity_mps[1] = 0;
+      command.velocity_mps[2] = 0;
+      command.yawRate_radps = 0;
+      return;
+    }
+    command.gait = step.gait;
+    const c = Math.cos(this.yaw_rad);
+    const s = Math.sin(this.yaw_rad);
+    const vx = step.velocity_mps[0];
+    const vy = step.velocity_mps[1];
+    command.velocity_mps[0] = c * vx - s * vy;
+    command.velocity_mps[1] = s * vx + c * vy;
+    command.velocity_mps[2] = step.velocity_mps[2];
+    command.yawRate_radps = step.yawRate_radps;
+    reference_m[0] += dt_s * command.velocity_mps[0];
+    reference_m[1] += dt_s * command.velocity_mps[1];
+    this.yaw_rad += dt_s * step.yawRate_radps;
+  }
+}

@@ -1,0 +1,109 @@
+// One run: a resolved scenario replayed through one opened build. Per control tick: the plant's
+// truth becomes an observation (with the scenario's sensing), the build answers with an action,
+// the plant holds it for the tick's physics steps, and the scorer (and optional trace/recorders)
+// see the tick. A build failure or a diverged plant ends the run as an `error`, never the suite.
+// OpenedBuild (builds/loader.ts) already times each tick and refuses non-finite actions.
+
+import { createAction, createObservation, type Action } from '../builds/interface.js';
+import type { OpenedBuild } from '../builds/loader.js';
+import { BuildFailure } from '../builds/process/failure.js';
+import { PlantDivergedError } from '../plant/errors.js';
+import { Plant } from '../plant/plant.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import { createTickSample, type TickSample } from '../score/sample.js';
+import { createScorer, type RunMetrics, type Scorer } from '../score/scorer.js';
+import type { RunError } from './results/types.js';
+import { CommandSchedule } from './commands.js';
+import { SensorModel } from './sensing.js';
+
+/** Something that watches every tick (trace writer, plot-series recorder). Must not keep `sample`. */
+export interface TickObserver {
+  onTick(sample: TickSample, action: Action): void;
+}
+
+export interface EpisodeOptions {
+  observers?: TickObserver[];
+  /** Called with the scorer before the first tick (a trace writer needs its loaded threshold). */
+  onScorer?(scorer: Scorer): void;
+}
+
+export interface EpisodeOutcome {
+  scored: RunMetrics;
+  /** Present when the run broke off. */
+  error?: RunError;
+}
+
+export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild, options: EpisodeOptions = {}): Promise<EpisodeOutcome> {
+  const plant = new Plant(scenario.plant);
+  const n = plant.footCount;
+  const controlPeriod_s = 1 / scenario.control.rate_Hz;
+  const substeps = Math.max(1, Math.round(controlPeriod_s / plant.step_s));
+  const tickCount = Math.round(scenario.duration_s / (substeps * plant.step_s));
+  const dt_s = substeps * plant.step_s;
+
+  const obs = createObservation(n);
+  const action = createAction(n, build.telemetryNames.length);
+  const sample = createTickSample(n);
+  sample.dt_s = dt_s;
+  const sensors = new SensorModel(scenario.sensing, scenario.seed);
+  const initialYaw_rad = (scenario.plant.initial.rpy_deg[2] * Math.PI) / 180;
+  const commands = new CommandSchedule(scenario.commands, initialYaw_rad);
+  const scorer = createScorer(scenario);
+  options.onScorer?.(scorer);
+  const observers = options.observers ?? [];
+  sample.referencePosition_m[0] = scenario.plant.initial.position_m[0];
+  sample.referencePosition_m[1] = scenario.plant.initial.position_m[1];
+  sample.referencePosition_m[2] = scenario.plant.robot.standingHeight_m;
+
+  const wallStart = performance.now();
+  let error: RunError | undefined;
+  try {
+    for (let tick = 0; tick < tickCount; tick++) {
+      plant.fillObservation(obs);
+      sensors.apply(obs, plant.footStaticFriction);
+      commands.advance(plant.time_s, dt_s, obs.command, sample.referencePosition_m);
+
+      const pending = build.tick(obs, action);
+      if (pending !== undefined) await pending; // process builds; in-process ticks stay synchronous
+
+      plant.applyAction(action);
+      for (let s = 0; s < substeps; s++) plant.step();
+
+      fillSample(sample, plant, action);
+      sample.loopTime_us = build.loopTime_us;
+      sample.reportedCompute_us = build.reportedCompute_us;
+      scorer.record(sample);
+      for (let k = 0; k < observers.length; k++) observers[k].onTick(sample, action);
+      if (scorer.fallen) break; // a fallen robot is scored as fallen; the rest would be noise
+    }
+  } catch (caught) {
+    error = describeError(caught, plant.time_s);
+  }
+  const wall_s = (performance.now() - wallStart) / 1000;
+  return { scored: scorer.finish({ wall_s, duration_s: plant.time_s }), ...(error ? { error } : {}) };
+}
+
+function fillSample(sample: TickSample, plant: Plant, action: Action): void {
+  sample.time_s = plant.time_s;
+  sample.trunkPosition_m.set(plant.trunkPosition_m);
+  sample.trunkQuaternion.set(plant.trunkQuaternion);
+  sample.trunkVelocity_mps.set(plant.trunkVelocity_mps);
+  sample.footPosition_m.set(plant.footPosition_m);
+  sample.footVelocity_mps.set(plant.footVelocity_mps);
+  sample.footForce_N.set(plant.footGroundForce_N);
+  sample.footStaticFriction.set(plant.footStaticFriction);
+  sample.mode.set(action.mode);
+  sample.wantedForce_N.set(action.groundForce_N);
+  sample.trunkGroundForce_N = plant.trunkGroundForce_N;
+}
+
+export function describeError(caught: unknown, time_s: number): RunError {
+  if (caught instanceof BuildFailure) {
+    return { message: caught.message, time_s, reason: caught.reason, ...(caught.stderrTail ? { stderrTail: caught.stderrTail } : {}) };
+  }
+  if (caught instanceof PlantDivergedError) {
+    return { message: caught.message, time_s: caught.time_s, reason: 'diverged' };
+  }
+  const message = caught instanceof Error ? caught.message : String(caught);
+  return { message, time_s, reason: 'internal' };
+}

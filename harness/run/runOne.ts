@@ -1,0 +1,72 @@
+// One (scenario × build) pair from start to result: open the build, run the episode, score it,
+// close the build. Every failure becomes an `error` RunResult for this pair only.
+
+import path from 'node:path';
+import type { ControllerSetup } from '../builds/interface.js';
+import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/loader.js';
+import type { BuildSpec } from '../builds/spec.js';
+import { gravityOnIncline } from '../plant/gravity.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import { describeError, runEpisode, type TickObserver } from './episode.js';
+import { createErrorRunResult, createRunResult } from './results/runResult.js';
+import { createTraceWriter, tracePath, type TraceWriter } from './results/trace.js';
+import type { RunResult } from './results/types.js';
+
+export interface RunTask {
+  scenario: ResolvedScenario;
+  build: BuildSpec;
+  /** Results folder; traces go below it. */
+  outDir: string;
+  trace: boolean;
+  /** Decimation of the trace (every n-th tick). */
+  traceEveryNth?: number;
+  buildOptions?: Pick<OpenBuildOptions, 'handshakeTimeout_ms' | 'tickTimeout_ms'>;
+}
+
+export function controllerSetup(scenario: ResolvedScenario): ControllerSetup {
+  const g = gravityOnIncline(new Float64Array(3), scenario.plant.ground.incline_deg.pitch, scenario.plant.ground.incline_deg.roll);
+  return {
+    robot: scenario.plant.robot,
+    controlRate_Hz: scenario.control.rate_Hz,
+    physicsStep_s: scenario.plant.physics.step_s,
+    gravity_mps2: [g[0], g[1], g[2]],
+    options: {},
+  };
+}
+
+export async function runOne(task: RunTask, extraObservers: TickObserver[] = []): Promise<RunResult> {
+  const { scenario, build: spec } = task;
+  let build: OpenedBuild;
+  try {
+    build = await openBuild(spec, controllerSetup(scenario), task.buildOptions ?? {});
+  } catch (caught) {
+    return createErrorRunResult(scenario, spec.name, { ...describeError(caught, 0), time_s: 0 });
+  }
+
+  let trace: TraceWriter | undefined;
+  let traceRelative: string | undefined;
+  const observers: TickObserver[] = [...extraObservers];
+  try {
+    const outcome = await runEpisode(scenario, build, {
+      observers,
+      onScorer(scorer) {
+        if (!task.trace) return;
+        traceRelative = tracePath(scenario.id, spec.name);
+        trace = createTraceWriter(path.join(task.outDir, traceRelative), scenario.plant.robot.hips_m.length, scorer.loadedThreshold_N, {
+          everyNth: task.traceEveryNth ?? 1,
+        });
+        const writer = trace;
+        observers.push({ onTick: (sample) => writer.writeRow(sample) });
+      },
+    });
+    trace?.close();
+    const options = traceRelative ? { trace: traceRelative } : {};
+    if (outcome.error) return createErrorRunResult(scenario, spec.name, outcome.error, outcome.scored, options);
+    return createRunResult(scenario, spec.name, outcome.scored, options);
+  } catch (caught) {
+    trace?.abort();
+    return createErrorRunResult(scenario, spec.name, describeError(caught, 0));
+  } finally {
+    await build.close().catch(() => undefined);
+  }
+}

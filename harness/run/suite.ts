@@ -1,0 +1,237 @@
+// `footing run`: every (scenario × build) pair of a suite, in parallel on worker threads, with
+// results in a deterministic order whatever the parallelism. Each finished pair is saved at once
+// (runs/<key>.json, atomically), so a killed run leaves no truncated file and --resume picks up
+// where it stopped; the folder's summary files are assembled from those at the end.
+
+import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import path from 'node:path';
+import { buildManifest } from '../builds/provenance.js';
+import { BuildSpecError, parseBuildSpec, type BuildSpec } from '../builds/spec.js';
+import { gateWithinResults } from '../gate/gate.js';
+import { loadPolicy } from '../gate/policy.js';
+import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
+import { renderGateMarkdown } from '../gate/render.js';
+import { formatIssue, loadSuite } from '../scenario/index.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import { TOOL_VERSION } from '../version.js';
+import { removeStaleTemps, writeFileAtomicSync } from './atomic.js';
+import { OUTPUT_FILES, writeOutputs } from './outputs.js';
+import { createRunPool, RunTimeoutError } from './pool.js';
+import { chooseProgressMode, createProgress } from './progress.js';
+import { createErrorRunResult, createResultsFile } from './results/runResult.js';
+import type { BuildManifest, ResultsFile, RunResult } from './results/types.js';
+import { parseShard, shardIndices, ShardSpecError } from './shard.js';
+
+export const EXIT = { pass: 0, fail: 1, badInput: 2, internal: 3 } as const;
+export type ExitCode = (typeof EXIT)[keyof typeof EXIT];
+
+export const DEFAULT_SCENARIO_PATHS = ['scenarios'];
+export const RUNS_FOLDER = 'runs';
+
+export interface SuiteRunOptions {
+  paths?: string[];
+  builds: string[];
+  outDir: string;
+  trace?: boolean;
+  traceEveryNth?: number;
+  jobs?: number;
+  shard?: string;
+  baseline?: string;
+  policyFile?: string;
+  resume?: boolean;
+  quiet?: boolean;
+  /** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
+  runTimeout?: { base_s: number; perSimulatedSecond: number };
+  cwd?: string;
+  log?: (line: string) => void;
+}
+
+export interface SuiteRunOutcome {
+  exitCode: ExitCode;
+  results?: ResultsFile;
+  /** Lines for the person at the terminal (also passed to `log` as they happen). */
+  lines: string[];
+}
+
+interface Pair {
+  scenario: ResolvedScenario;
+  build: BuildSpec;
+  key: string;
+}
+
+/** File-safe key of a pair, also its saved result's name. */
+export function pairKey(scenarioId: string, buildName: string): string {
+  const safe = (s: string) => s.replace(/[^A-Za-z0-9._-]/g, '_');
+  return `${safe(scenarioId)}__${safe(buildName)}`;
+}
+
+export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcome> {
+  const lines: string[] = [];
+  const log = (line: string) => {
+    lines.push(line);
+    options.log?.(line);
+  };
+  const cwd = options.cwd ?? process.cwd();
+  const badInput = (message: string): SuiteRunOutcome => {
+    log(message);
+    return { exitCode: EXIT.badInput, lines };
+  };
+
+  // Builds.
+  if (options.builds.length === 0) return badInput('footing run: no build given (use --build SPEC, e.g. --build ref:governed)');
+  let specs: BuildSpec[];
+  try {
+    specs = options.builds.map((text) => parseBuildSpec(text, cwd));
+  } catch (error) {
+    if (error instanceof BuildSpecError) return badInput(error.message);
+    throw error;
+  }
+  const names = new Set<string>();
+  for (const spec of specs) {
+    if (names.has(spec.name)) return badInput(`--build ${spec.text}: the build name "${spec.name}" is used twice; name one of them (NAME=SPEC)`);
+    names.add(spec.name);
+  }
+  if (options.baseline !== undefined && !names.has(options.baseline)) {
+    return badInput(`--baseline ${options.baseline}: no build of that name (builds: ${[...names].join(', ')})`);
+  }
+  let policy: GatePolicy = defaultPolicy();
+  if (options.policyFile) {
+    try {
+      policy = loadPolicy(path.resolve(cwd, options.policyFile));
+    } catch (error) {
+      return badInput((error as Error).message);
+    }
+  }
+
+  // Scenarios.
+  const suite = await loadSuite(options.paths && options.paths.length > 0 ? options.paths : DEFAULT_SCENARIO_PATHS, { cwd });
+  if (!suite.ok) {
+    for (const issue of suite.errors) log(formatIssue(issue));
+    for (const file of suite.files) for (const issue of file.errors) log(formatIssue(issue));
+    log('footing run: nothing was run; fix the scenario errors above (footing check lists them too)');
+    return { exitCode: EXIT.badInput, lines };
+  }
+  for (const file of suite.files) for (const issue of file.warnings) log(`warning: ${formatIssue(issue)}`);
+  if (suite.scenarios.length === 0) return badInput('footing run: no scenarios found');
+
+  // Pairs, in a deterministic order: scenarios by file then id (merge.ts sorts the same way),
+  // builds as given.
+  const scenarios = [...suite.scenarios].sort((a, b) => compareText(a.file, b.file) || compareText(a.id, b.id));
+  let pairs: Pair[] = [];
+  for (const scenario of scenarios) {
+    for (const build of specs) pairs.push({ scenario, build, key: pairKey(scenario.id, build.name) });
+  }
+  if (options.shard) {
+    try {
+      const shard = parseShard(options.shard);
+      const mine = shardIndices(pairs.map((p) => p.scenario.duration_s), shard);
+      pairs = mine.map((i) => pairs[i]);
+    } catch (error) {
+      if (error instanceof ShardSpecError) return badInput(error.message);
+      throw error;
+    }
+  }
+
+  const outDir = path.resolve(cwd, options.outDir);
+  const runsDir = path.join(outDir, RUNS_FOLDER);
+  mkdirSync(runsDir, { recursive: true });
+  removeStaleTemps(outDir);
+  removeStaleTemps(runsDir);
+  if (options.trace) {
+    mkdirSync(path.join(outDir, 'traces'), { recursive: true });
+    removeStaleTemps(path.join(outDir, 'traces'));
+  }
+
+  const saved = options.resume ? readSavedRuns(runsDir) : new Map<string, RunResult>();
+  if (!options.resume) clearSavedRuns(runsDir);
+  const results = new Map<string, RunResult>();
+  const pending: Pair[] = [];
+  for (const pair of pairs) {
+    const previous = saved.get(pair.key);
+    if (previous && previous.scenario.hash === pair.scenario.hash && previous.build === pair.build.name) results.set(pair.key, previous);
+    else pending.push(pair);
+  }
+  if (options.resume) log(`resuming: ${results.size} of ${pairs.length} runs already complete in ${options.outDir}`);
+
+  const manifests: BuildManifest[] = await Promise.all(
+    specs.map(async (spec) => {
+      const manifest = await buildManifest(spec);
+      return { ...manifest, commit: manifest.git?.commit ?? null, dirty: manifest.git?.dirty ?? null };
+    }),
+  );
+  const startedAt = new Date();
+  const jobs = Math.max(1, Math.min(options.jobs ?? defaultJobs(), pending.length || 1));
+  const progress = createProgress(chooseProgressMode({ quiet: options.quiet }), pending.length, log);
+  const timeout = options.runTimeout ?? { base_s: 120, perSimulatedSecond: 30 };
+  const pool = createRunPool(jobs);
+  try {
+    await Promise.all(
+      pending.map(async (pair) => {
+        const started = performance.now();
+        let result: RunResult;
+        try {
+          result = await pool.run(
+            { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth },
+            timeout.base_s + timeout.perSimulatedSecond * pair.scenario.duration_s,
+          );
+        } catch (error) {
+          const reason = error instanceof RunTimeoutError ? 'run-timeout' : 'worker';
+          result = createErrorRunResult(pair.scenario, pair.build.name, { message: (error as Error).message, reason });
+        }
+        writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(result)}\n`);
+        results.set(pair.key, result);
+        progress.done(result, (performance.now() - started) / 1000);
+      }),
+    );
+  } finally {
+    progress.stop();
+    await pool.close();
+  }
+
+  const ordered = pairs.map((pair) => results.get(pair.key) as RunResult);
+  const resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs: ordered });
+  writeOutputs(outDir, resultsFile);
+
+  let exitCode: ExitCode = ordered.every((r) => r.status === 'pass') ? EXIT.pass : EXIT.fail;
+  const counts = countStatuses(ordered);
+  log(`${ordered.length} runs: ${counts.pass} pass, ${counts.fail} fail, ${counts.error} error — ${path.relative(cwd, outDir) || '.'}/${OUTPUT_FILES.report}`);
+  if (options.baseline !== undefined) {
+    const outcome = gateWithinResults(resultsFile, options.baseline, policy);
+    const markdown = renderGateMarkdown(outcome);
+    writeFileAtomicSync(path.join(outDir, OUTPUT_FILES.gate), markdown);
+    log(`gate against ${options.baseline}: ${outcome.verdict === 'hold' ? 'holds' : 'BLOCKS'} (${path.relative(cwd, path.join(outDir, OUTPUT_FILES.gate))})`);
+    if (outcome.verdict === 'block') exitCode = EXIT.fail;
+  }
+  return { exitCode, results: resultsFile, lines };
+}
+
+function compareText(a: string, b: string): number {
+  return a < b ? -1 : a > b ? 1 : 0;
+}
+
+export function defaultJobs(): number {
+  return Math.max(1, (globalThis as { navigator?: { hardwareConcurrency?: number } }).navigator?.hardwareConcurrency ?? 1);
+}
+
+function countStatuses(runs: RunResult[]): Record<'pass' | 'fail' | 'error', number> {
+  const counts = { pass: 0, fail: 0, error: 0 };
+  for (const r of runs) counts[r.status]++;
+  return counts;
+}
+
+function readSavedRuns(runsDir: string): Map<string, RunResult> {
+  const saved = new Map<string, RunResult>();
+  for (const name of readdirSync(runsDir)) {
+    if (!name.endsWith('.json') || name.startsWith('.')) continue;
+    try {
+      saved.set(name.slice(0, -'.json'.length), JSON.parse(readFileSync(path.join(runsDir, name), 'utf8')) as RunResult);
+    } catch {
+      // An unreadable saved run is simply run again.
+    }
+  }
+  return saved;
+}
+
+function clearSavedRuns(runsDir: string): void {
+  for (const name of readdirSync(runsDir)) if (name.endsWith('.json')) rmSync(path.join(runsDir, name), { force: true });
+}

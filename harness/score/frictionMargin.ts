@@ -1,0 +1,53 @@
+// Friction margin of the true ground force: m = 1 − |f_t| / (μs·f_n) with f_n the normal (z)
+// component, f_t the tangential (x, y) part and μs the true static friction under the foot.
+// m = 1: no tangential load; m = 0: on the Coulomb cone; m < 0: outside it (sliding, transient).
+
+import { Histogram } from './histogram.js';
+import type { TickSample } from './sample.js';
+import { MARGIN_BIN_WIDTH, MARGIN_FLOOR } from './thresholds.js';
+import type { FrictionMarginMetrics, MarginStats } from './types.js';
+
+/** Margin of one ground force; friction μs ≤ 0 (a frictionless patch) holds no tangential load. */
+export function frictionMargin(fx_N: number, fy_N: number, fz_N: number, staticFriction: number): number {
+  const tangential_N = Math.sqrt(fx_N * fx_N + fy_N * fy_N);
+  const capacity_N = staticFriction * fz_N;
+  const margin = capacity_N > 0 ? 1 - tangential_N / capacity_N : tangential_N === 0 ? 1 : MARGIN_FLOOR;
+  return margin < MARGIN_FLOOR ? MARGIN_FLOOR : margin;
+}
+
+export class FrictionMarginTracker {
+  private readonly perFoot: Histogram[];
+
+  constructor(
+    private readonly footCount: number,
+    private readonly loadedThreshold_N: number,
+  ) {
+    this.perFoot = [];
+    for (let i = 0; i < footCount; i++) this.perFoot.push(Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH));
+  }
+
+  record(sample: TickSample): void {
+    const force = sample.footForce_N;
+    for (let i = 0; i < this.footCount; i++) {
+      const fz = force[3 * i + 2];
+      if (!(fz > this.loadedThreshold_N)) continue;
+      const margin = frictionMargin(force[3 * i], force[3 * i + 1], fz, sample.footStaticFriction[i]);
+      this.perFoot[i].add(margin);
+    }
+  }
+
+  /** The overall statistics merge the per-foot histograms (same bins), so record() adds once. */
+  result(): FrictionMarginMetrics {
+    const all = this.perFoot[0]?.emptyCopy() ?? Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH);
+    for (const foot of this.perFoot) all.addAll(foot);
+    return { ...stats(all), perFoot: this.perFoot.map(stats) };
+  }
+}
+
+function stats(histogram: Histogram): MarginStats {
+  return {
+    min: histogram.count > 0 ? histogram.min : null,
+    p05: histogram.quantile(0.05),
+    loadedSamples: histogram.count,
+  };
+}

@@ -1,0 +1,6 @@
+// The tool's version: one place, read from package.json.
+import { readFileSync } from 'node:fs';
+
+const packageJson = JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as { version: string };
+
+export const TOOL_VERSION: string = packageJson.version;

@@ -1,0 +1,166 @@
+import { describe, expect, it } from 'vitest';
+import { defaultPolicy, type GatePolicy } from '../../harness/gate/defaults.js';
+import { gate, gateWithinResults } from '../../harness/gate/gate.js';
+import { GateInputError, type GateRow } from '../../harness/gate/types.js';
+import { errorRun, results, scoredRun, stand, walk, walkChanged } from './fixtures.js';
+
+// Foot 0 carries f_n = 32 N on μs = 0.5 (capacity 16 N) for 1000 ticks of 1 ms, so a tangential
+// force fx gives margin 1 − fx/16 and a foot speed v gives slip distance v × 1 s.
+
+function one(base: Parameters<typeof scoredRun>[2], cand: Parameters<typeof scoredRun>[2], policy: GatePolicy = defaultPolicy()) {
+  return gate({ baseline: results([scoredRun(walk, 'main', base)]), candidate: results([scoredRun(walk, 'branch', cand)]), policy });
+}
+
+function rowFor(rows: GateRow[], metric: string): GateRow | undefined {
+  return rows.find((r) => r.metric === metric);
+}
+
+describe('gate rules', () => {
+  it('holds identical runs with no rows', () => {
+    const outcome = one({ fx_N: 4 }, { fx_N: 4 });
+    expect(outcome).toMatchObject({ verdict: 'hold', rows: [], compared: 1, buildPairs: [['main', 'branch']] });
+  });
+
+  it('blocks a friction-margin loss beyond 0.02 and names it', () => {
+    // 0.75 → 1 − 4.5/16 = 0.71875: loss 0.03125 > 0.02.
+    const outcome = one({ fx_N: 4 }, { fx_N: 4.5 });
+    expect(outcome.verdict).toBe('block');
+    const min = rowFor(outcome.rows, 'frictionMargin.min')!;
+    expect(min).toMatchObject({ broken: true, baseline: 0.75, candidate: 0.71875, change: '−0.031', rule: 'loss ≤ 0.02' });
+    expect(min.reason).toBe('friction margin min fell by 0.031 (0.750 → 0.719), more than the 0.02 allowed');
+    expect(rowFor(outcome.rows, 'frictionMargin.p05')!.broken).toBe(true);
+  });
+
+  it('holds a friction-margin loss within 0.02 but still shows it moved', () => {
+    // 0.75 → 1 − 4.24/16 = 0.735: loss 0.015.
+    const outcome = one({ fx_N: 4 }, { fx_N: 4.24 });
+    expect(outcome.verdict).toBe('hold');
+    expect(rowFor(outcome.rows, 'frictionMargin.min')).toMatchObject({ broken: false, change: '−0.015' });
+  });
+
+  it('treats a loss of exactly the allowance as held', () => {
+    // 0.75 → 0.73 (fx = 4.32 N): loss 0.02 up to rounding.
+    expect(one({ fx_N: 4 }, { fx_N: 4.32 }).verdict).toBe('hold');
+  });
+
+  it('blocks slip growth only when it exceeds both +20 % and +0.01 m', () => {
+    const slip = (b: number, c: number) => rowFor(one({ v_mps: b }, { v_mps: c }).rows, 'slipDistance_m')!;
+    expect(slip(0.05, 0.065).broken).toBe(true); // +30 %, +0.015 m
+    expect(slip(0.05, 0.058).broken).toBe(false); // +16 %, +0.008 m
+    expect(slip(0.1, 0.115).broken).toBe(false); // +15 % only the absolute exceeded
+    expect(slip(0.001, 0.005).broken).toBe(false); // +400 % but +0.004 m
+    expect(slip(0.05, 0.065).change).toBe('+0.0150 m (+30 %)');
+  });
+
+  it('blocks a new fall but not a fall the baseline also had', () => {
+    const fresh = one({}, { fallAt: 500 });
+    expect(rowFor(fresh.rows, 'fell')).toMatchObject({ broken: true, baseline: false, candidate: 0.501, change: 'no → at 0.50 s' });
+    expect(rowFor(fresh.rows, 'fell')!.reason).toBe('candidate fell at 0.50 s (trunk centre below 40 % of standing height); the baseline did not fall');
+    const both = one({ fallAt: 600 }, { fallAt: 500 });
+    expect(rowFor(both.rows, 'fell')).toMatchObject({ broken: false });
+  });
+
+  it('blocks new commanded violations unless the scenario override allows them', () => {
+    expect(rowFor(one({}, { wantedFx_N: 20 }).rows, 'violations.commanded')).toMatchObject({ broken: true, change: '0 → 1' });
+    const policy = defaultPolicy();
+    policy.overrides['ice-walk'] = { allowNewCommandedViolations: true };
+    const row = rowFor(one({}, { wantedFx_N: 20 }, policy).rows, 'violations.commanded')!;
+    expect(row).toMatchObject({ broken: false, rule: null });
+    // Fewer violations than the baseline is progress, not a breach.
+    expect(rowFor(one({ wantedFx_N: 20 }, {}).rows, 'violations.commanded')!.broken).toBe(false);
+  });
+
+  it('blocks loop-time p99 growth beyond +25 % and any p99 over budget', () => {
+    const loop = (b: number, c: number) => rowFor(one({ loop_us: b }, { loop_us: c }).rows, 'loopTime_us.p99')!;
+    expect(loop(100, 130).broken).toBe(true); // +30 %
+    expect(loop(100, 120).broken).toBe(false); // +20 %
+    const overBudget = loop(900, 1050); // +17 % but over the 1000 µs budget
+    expect(overBudget.broken).toBe(true);
+    expect(overBudget.reason).toMatch(/^loop time p99 10\d\d\.\d µs is over the 1000 µs budget$/);
+  });
+
+  it('blocks a candidate run that errored', () => {
+    const outcome = gate({ baseline: results([scoredRun(walk, 'main')]), candidate: results([errorRun('branch')]), policy: defaultPolicy() });
+    expect(outcome.verdict).toBe('block');
+    expect(outcome.rows[0]).toMatchObject({ metric: 'status', broken: true, reason: 'candidate run errored: controller threw: bad gain' });
+  });
+
+  it('applies per-scenario overrides over the policy rules', () => {
+    const policy = defaultPolicy();
+    policy.overrides['ice-walk'] = { frictionMarginMinLoss: 0.05, frictionMarginP05Loss: 0.05 };
+    expect(one({ fx_N: 4 }, { fx_N: 4.5 }, policy).verdict).toBe('hold');
+    policy.overrides['no-such-scenario'] = { allowNewFalls: true };
+    expect(one({ fx_N: 4 }, { fx_N: 4.5 }, policy).warnings).toEqual(['policy override for scenario "no-such-scenario" matched no compared run']);
+  });
+});
+
+describe('gate pairing', () => {
+  it('pairs by equal build names when either side holds several builds', () => {
+    const baseline = results([scoredRun(walk, 'a'), scoredRun(walk, 'b', { fx_N: 4 })]);
+    const candidate = results([scoredRun(walk, 'b', { fx_N: 8 }), scoredRun(walk, 'c')]);
+    const outcome = gate({ baseline, candidate, policy: defaultPolicy() });
+    expect(outcome.buildPairs).toEqual([['b', 'b']]);
+    expect(outcome.verdict).toBe('block');
+    expect(outcome.unpaired).toEqual([
+      { side: 'baseline', build: 'a', scenario: null, reason: 'no candidate build to pair with' },
+      { side: 'candidate', build: 'c', scenario: null, reason: 'no baseline build to pair with' },
+    ]);
+  });
+
+  it('uses explicit pairs and rejects a pair naming a missing build', () => {
+    const baseline = results([scoredRun(walk, 'a'), scoredRun(walk, 'b')]);
+    const candidate = results([scoredRun(walk, 'x', { fx_N: 8 }), scoredRun(walk, 'y')]);
+    const outcome = gate({ baseline, candidate, policy: defaultPolicy(), pairs: [['a', 'x'], ['b', 'y']] });
+    expect(outcome.compared).toBe(2);
+    expect(outcome.rows.filter((r) => r.broken).every((r) => r.baselineBuild === 'a' && r.candidateBuild === 'x')).toBe(true);
+    expect(() => gate({ baseline, candidate, policy: defaultPolicy(), pairs: [['a', 'z']] })).toThrow(GateInputError);
+    expect(() => gate({ baseline, candidate, policy: defaultPolicy(), pairs: [['a', 'z']] })).toThrow('the candidate has no build "z" (it has: x, y)');
+  });
+
+  it('lists changed scenarios as not comparable instead of comparing them', () => {
+    const outcome = gate({
+      baseline: results([scoredRun(walk, 'main', { fx_N: 4 }), scoredRun(stand, 'main')]),
+      candidate: results([scoredRun(walkChanged, 'branch', { fx_N: 15 }), scoredRun(stand, 'branch')]),
+      policy: defaultPolicy(),
+    });
+    expect(outcome.verdict).toBe('hold');
+    expect(outcome.compared).toBe(1);
+    expect(outcome.notComparable).toEqual([
+      {
+        scenario: 'ice-walk',
+        baselineBuild: 'main',
+        candidateBuild: 'branch',
+        baselineHash: 'a'.repeat(64),
+        candidateHash: 'c'.repeat(64),
+        reason: 'scenario changed (revision 1 → 2, hash aaaaaaaaaaaa → cccccccccccc)',
+      },
+    ]);
+  });
+
+  it('lists scenarios run on one side only, and baseline errors as not comparable', () => {
+    const outcome = gate({
+      baseline: results([errorRun('main'), scoredRun(makeId('old-only'), 'main')]),
+      candidate: results([scoredRun(walk, 'branch'), scoredRun(makeId('new-only'), 'branch')]),
+      policy: defaultPolicy(),
+    });
+    expect(outcome.compared).toBe(0);
+    expect(outcome.notComparable[0].reason).toBe('baseline run errored: controller threw: bad gain');
+    expect(outcome.unpaired).toEqual([
+      { side: 'baseline', build: 'main', scenario: 'old-only', reason: 'not run by candidate build "branch"' },
+      { side: 'candidate', build: 'branch', scenario: 'new-only', reason: 'not run by baseline build "main"' },
+    ]);
+  });
+
+  it('gates the builds of one result set against a named baseline build', () => {
+    const both = results([scoredRun(walk, 'main', { fx_N: 4 }), scoredRun(walk, 'candidate', { fx_N: 8 }), scoredRun(walk, 'other', { fx_N: 4 })]);
+    const outcome = gateWithinResults(both, 'main', defaultPolicy());
+    expect(outcome.buildPairs).toEqual([['main', 'candidate'], ['main', 'other']]);
+    expect(outcome.unpaired).toEqual([]);
+    expect(outcome.verdict).toBe('block');
+    expect(() => gateWithinResults(both, 'nope', defaultPolicy())).toThrow('--baseline nope: no build of that name in this run (builds: main, candidate, other)');
+  });
+});
+
+function makeId(id: string) {
+  return { ...walk, id };
+}
