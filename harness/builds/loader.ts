@@ -1,0 +1,271 @@
+// Opens a build from its spec: imports an in-process module, looks up a reference build, or
+// spawns a process build; all three come back behind one interface (OpenedBuild) that measures
+// each tick and turns every build misbehaviour into a BuildFailure.
+//
+// The episode loop's use:
+//   const build = await openBuild(spec, setup);                  // BuildFailure | BuildSpecError
+//   const action = createAction(footCount, build.telemetryNames.length);
+//   try { for (…) { const pending = build.tick(obs, action); if (pending) await pending;
+//                   sample.loopTime_us = build.loopTime_us;
+//                   sample.reportedCompute_us = build.reportedCompute_us; } }
+//   finally { await build.close(); }
+
+import { existsSync } from 'node:fs';
+import { pathToFileURL } from 'node:url';
+import type { Action, Controller, ControllerFactory, ControllerSetup, Observation } from './interface.js';
+import { openProcessBuild, type ProcessBuildOptions } from './process/bridge.js';
+import { BuildFailure } from './process/failure.js';
+import type { WireEncoding } from './process/messages.js';
+import { BuildSpecError, REFERENCE_BUILD_IDS, type BuildKind, type BuildSpec } from './spec.js';
+
+export { BuildFailure, BUILD_FAILURE_REASONS, type BuildFailureReason } from './process/failure.js';
+
+export interface OpenBuildOptions extends ProcessBuildOptions {
+  /** Replaces the bundled registry harness/builds/reference/index.ts (tests, plug-ins). */
+  referenceBuilds?: Record<string, ControllerFactory>;
+}
+
+export interface OpenedBuild extends Controller {
+  readonly name: string;
+  readonly kind: BuildKind;
+  readonly telemetryNames: readonly string[];
+  /**
+   * Wall time of the last tick, microseconds: the tick call itself for in-process builds, the
+   * round trip (encode, pipes, build, decode) for process builds. High-resolution clock.
+   */
+  readonly loopTime_us: number;
+  /** Compute time the build reported for its last tick (process builds), else NaN. */
+  readonly reportedCompute_us: number;
+  /** What a process build said about itself in its ready message; '' otherwise. */
+  readonly about: string;
+  /** The child's pid (process builds). */
+  readonly pid?: number;
+  /** Tick encoding the process build chose (process builds). */
+  readonly encoding?: WireEncoding;
+  /** Rejects/throws a BuildFailure when the build misbehaves; returns a promise for process builds. */
+  tick(obs: Observation, action: Action): void | Promise<void>;
+  close(): Promise<void>;
+}
+
+export async function openBuild(
+  spec: BuildSpec,
+  setup: ControllerSetup,
+  options: OpenBuildOptions = {},
+): Promise<OpenedBuild> {
+  const merged: ControllerSetup = { ...setup, options: { ...setup.options, ...spec.options } };
+  switch (spec.kind) {
+    case 'process': {
+      const program = { name: spec.name, program: spec.entry, args: spec.args, cwd: spec.cwd };
+      return await openProcessBuild(program, merged, options);
+    }
+    case 'module': {
+      const factory = await loadModuleFactory(spec);
+      return guardController(await createGuarded(spec, factory, merged), spec.name, 'module');
+    }
+    case 'reference': {
+      const registry = options.referenceBuilds ?? (await loadReferenceRegistry(spec));
+      const factory = registry[spec.entry];
+      if (typeof factory !== 'function') {
+        throw new BuildSpecError(
+          spec.text,
+          `reference build '${spec.entry}' is not in the registry (it has ${Object.keys(registry).join(', ') || 'nothing'})`,
+        );
+      }
+      return guardController(await createGuarded(spec, factory, merged), spec.name, 'reference');
+    }
+  }
+}
+
+/** Imports the module of a module build and returns its `createController` (or default) export. */
+export async function loadModuleFactory(spec: BuildSpec): Promise<ControllerFactory> {
+  if (!existsSync(spec.entry)) throw new BuildSpecError(spec.text, `module file ${spec.entry} does not exist`);
+  let exports: Record<string, unknown>;
+  try {
+    exports = await importFile(spec.entry);
+  } catch (error) {
+    throw new BuildFailure('threw', `build '${spec.name}': loading ${spec.entry} failed: ${errorText(error)}`, '', {
+      cause: error,
+    });
+  }
+  const factory = exports.createController ?? exports.default;
+  if (typeof factory !== 'function') {
+    throw new BuildFailure(
+      'malformed',
+      `build '${spec.name}': ${spec.entry} must export a function createController(setup) (or a default export); ` +
+        `it exports ${Object.keys(exports).join(', ') || 'nothing'}`,
+    );
+  }
+  return factory as ControllerFactory;
+}
+
+async function importFile(path: string): Promise<Record<string, unknown>> {
+  const url = pathToFileURL(path).href;
+  try {
+    return (await import(url)) as Record<string, unknown>;
+  } catch (error) {
+    // Plain Node (no tsx loader registered, e.g. a worker thread) cannot import .ts itself.
+    if ((error as NodeJS.ErrnoException).code === 'ERR_UNKNOWN_FILE_EXTENSION' && /\.m?ts$/.test(path)) {
+      const { tsImport } = await import('tsx/esm/api');
+      return (await tsImport(url, import.meta.url)) as Record<string, unknown>;
+    }
+    throw error;
+  }
+}
+
+async function loadReferenceRegistry(spec: BuildSpec): Promise<Record<string, ControllerFactory>> {
+  // A variable specifier keeps the type checker from requiring the registry at compile time:
+  // it is written separately and may not exist in every checkout.
+  const specifier = './reference/index.js';
+  let registry: unknown;
+  try {
+    registry = ((await import(specifier)) as { referenceBuilds?: unknown }).referenceBuilds;
+  } catch (error) {
+    throw new BuildSpecError(
+      spec.text,
+      `the reference builds (${REFERENCE_BUILD_IDS.join(', ')}) could not be loaded from harness/builds/reference/index.ts: ${errorText(error)}`,
+    );
+  }
+  if (registry === null || typeof registry !== 'object') {
+    throw new BuildSpecError(spec.text, 'harness/builds/reference/index.ts does not export referenceBuilds');
+  }
+  return registry as Record<string, ControllerFactory>;
+}
+
+async function createGuarded(spec: BuildSpec, factory: ControllerFactory, setup: ControllerSetup): Promise<Controller> {
+  let controller: Controller;
+  try {
+    controller = await factory(setup);
+  } catch (error) {
+    throw new BuildFailure('threw', `build '${spec.name}': its factory threw: ${errorText(error)}`, '', { cause: error });
+  }
+  if (controller === null || typeof controller !== 'object' || typeof controller.tick !== 'function') {
+    throw new BuildFailure('malformed', `build '${spec.name}': the factory must return an object with a tick(obs, action) method`);
+  }
+  const names: unknown = controller.telemetryNames;
+  if (!Array.isArray(names) || names.some((name) => typeof name !== 'string' || name === '')) {
+    throw new BuildFailure('malformed', `build '${spec.name}': telemetryNames must be an array of non-empty strings`);
+  }
+  if (new Set(names).size !== names.length) {
+    throw new BuildFailure('malformed', `build '${spec.name}': telemetryNames has duplicates`);
+  }
+  return controller;
+}
+
+/**
+ * Names the first non-finite number in an action ("groundForce_N[4] = NaN"), or null. Cheap and
+ * allocation-free on the healthy path, so the episode loop may call it every tick for any build.
+ * Telemetry is checked too: a process build cannot send NaN, so an in-process one may not either.
+ */
+export function checkActionFinite(action: Action): string | null {
+  let index = firstNonFinite(action.groundForce_N);
+  if (index >= 0) return describe('groundForce_N', index, action.groundForce_N[index]);
+  index = firstNonFinite(action.footTarget_m);
+  if (index >= 0) return describe('footTarget_m', index, action.footTarget_m[index]);
+  index = firstNonFinite(action.footTargetVelocity_mps);
+  if (index >= 0) return describe('footTargetVelocity_mps', index, action.footTargetVelocity_mps[index]);
+  index = firstNonFinite(action.stiffness_N_per_m);
+  if (index >= 0) return describe('stiffness_N_per_m', index, action.stiffness_N_per_m[index]);
+  index = firstNonFinite(action.damping_Ns_per_m);
+  if (index >= 0) return describe('damping_Ns_per_m', index, action.damping_Ns_per_m[index]);
+  index = firstNonFinite(action.telemetry);
+  if (index >= 0) return describe('telemetry', index, action.telemetry[index]);
+  return null;
+}
+
+function firstNonFinite(values: Float64Array): number {
+  for (let i = 0; i < values.length; i++) {
+    const x = values[i];
+    // x − x is 0 for every finite x and NaN for NaN and ±Infinity.
+    if (x - x !== 0) return i;
+  }
+  return -1;
+}
+
+function describe(field: string, index: number, value: number): string {
+  return `${field}[${index}] = ${value}`;
+}
+
+/**
+ * Wraps an in-process controller: times each tick (process.hrtime.bigint), turns a throw into
+ * BuildFailure('threw') and a non-finite action into BuildFailure('non-finite'). A synchronous
+ * controller stays synchronous (no promise per tick).
+ */
+export function guardController(controller: Controller, name: string, kind: BuildKind = 'module'): OpenedBuild {
+  return new GuardedController(controller, name, kind);
+}
+
+class GuardedController implements OpenedBuild {
+  readonly telemetryNames: readonly string[];
+  loopTime_us = Number.NaN;
+  readonly reportedCompute_us = Number.NaN;
+  readonly about = '';
+  governorUpdate?: (obs: Observation) => void;
+  private tickCount = 0;
+  private start_ns = 0n;
+  private closed = false;
+
+  constructor(
+    private readonly inner: Controller,
+    readonly name: string,
+    readonly kind: BuildKind,
+  ) {
+    this.telemetryNames = Object.freeze([...inner.telemetryNames]);
+    if (typeof inner.governorUpdate === 'function') {
+      this.governorUpdate = (obs) => (inner.governorUpdate as (obs: Observation) => void).call(inner, obs);
+    }
+  }
+
+  tick(obs: Observation, action: Action): void | Promise<void> {
+    this.start_ns = process.hrtime.bigint();
+    let pending: void | Promise<void>;
+    try {
+      pending = this.inner.tick(obs, action);
+    } catch (error) {
+      throw this.threw(error);
+    }
+    if (pending !== undefined && typeof (pending as Promise<void>).then === 'function') {
+      return (pending as Promise<void>).then(
+        () => this.finish(action),
+        (error: unknown) => {
+          throw this.threw(error);
+        },
+      );
+    }
+    this.finish(action);
+  }
+
+  async close(): Promise<void> {
+    if (this.closed) return;
+    this.closed = true;
+    try {
+      await this.inner.close?.();
+    } catch (error) {
+      throw new BuildFailure('threw', `build '${this.name}': close() threw: ${errorText(error)}`, '', { cause: error });
+    }
+  }
+
+  private finish(action: Action): void {
+    this.loopTime_us = Number(process.hrtime.bigint() - this.start_ns) / 1000;
+    const problem = checkActionFinite(action);
+    if (problem !== null) {
+      throw new BuildFailure('non-finite', `build '${this.name}' at tick ${this.tickCount}: ${problem}`);
+    }
+    this.tickCount++;
+  }
+
+  private threw(error: unknown): BuildFailure {
+    if (error instanceof BuildFailure) return error;
+    return new BuildFailure('threw', `build '${this.name}' at tick ${this.tickCount}: ${errorText(error)}`, '', {
+      cause: error,
+    });
+  }
+}
+
+function errorText(error: unknown): string {
+  if (error instanceof Error) {
+    // The first frames of the stack say where in the build it happened.
+    const frames = (error.stack ?? '').split('\n').slice(1, 4).map((line) => line.trim()).join(' | ');
+    return frames === '' ? error.message : `${error.message} (${frames})`;
+  }
+  return String(error);
+}
