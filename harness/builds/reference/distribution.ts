@@ -1,0 +1,116 @@
+// Force distribution: the ground forces f_i on the stance feet whose resultant wrench about the
+// trunk's centre of mass equals the wanted wrench w = (F, τ):
+//   A·f = w,  A = [ I  …  I ; [r_1]× … [r_n]× ],  r_i = the moment arm of leg i.
+// The plant applies each leg's force to the trunk at the hip, so r_i is the hip (not the foot)
+// relative to the centre of mass. We take the minimum-norm, Tikhonov-regularised solution written
+// in the 6-D dual form f = Aᵀ·(A·Aᵀ + Λ)⁻¹·w (the push-through identity turns the 3n×3n normal
+// equations into a fixed 6×6 SPD solve, factorised by Cholesky). Λ = diag(λ_F·I, λ_τ·I) keeps the
+// solve defined for a two-foot stance, where A has rank 5 (no moment about the support diagonal);
+// λ_τ ≫ λ_F makes the solution give up that moment rather than the force. A few passes of
+// iterative refinement (Wilkinson; Golub & Van Loan §3.5.3) then remove the bias the
+// regularisation puts on any achievable component, so a full-rank stance reproduces w to
+// rounding while the unachievable moment stays the Λ⁻¹-weighted least-squares compromise.
+
+import { choleskyInPlace, choleskySolve } from './linalg.js';
+
+export class ForceDistributor {
+  readonly legCount: number;
+  forceRegularisation: number;
+  momentRegularisation_m2: number;
+  refinementSteps: number;
+  /** Moment arms (3 per leg, world frame) and stance mask captured by prepare(). */
+  readonly arms: Float64Array;
+  readonly stance: Uint8Array;
+  stanceCount = 0;
+  private readonly factor = new Float64Array(36);
+  private readonly dual = new Float64Array(6);
+  private readonly correction = new Float64Array(6);
+  private readonly residual = new Float64Array(6);
+
+  constructor(legCount: number, forceRegularisation: number, momentRegularisation_m2: number, refinementSteps: number) {
+    this.legCount = legCount;
+    this.forceRegularisation = forceRegularisation;
+    this.momentRegularisation_m2 = momentRegularisation_m2;
+    this.refinementSteps = refinementSteps;
+    this.arms = new Float64Array(3 * legCount);
+    this.stance = new Uint8Array(legCount);
+  }
+
+  /** Builds and factorises A·Aᵀ + Λ for this stance set. Returns false if the factorisation failed. */
+  prepare(stance: Uint8Array, arms: Float64Array): boolean {
+    let n = 0, sx = 0, sy = 0, sz = 0, xx = 0, yy = 0, zz = 0, xy = 0, xz = 0, yz = 0;
+    for (let i = 0; i < this.legCount; i++) {
+      this.stance[i] = stance[i];
+      const x = arms[3 * i], y = arms[3 * i + 1], z = arms[3 * i + 2];
+      this.arms[3 * i] = x;
+      this.arms[3 * i + 1] = y;
+      this.arms[3 * i + 2] = z;
+      if (stance[i] === 0) continue;
+      n++;
+      sx += x; sy += y; sz += z;
+      xx += x * x; yy += y * y; zz += z * z;
+      xy += x * y; xz += x * z; yz += y * z;
+    }
+    this.stanceCount = n;
+    if (n === 0) return true;
+    const a = this.factor;
+    const lf = this.forceRegularisation, lt = this.momentRegularisation_m2;
+    // Top-left n·I; off-diagonal blocks ±[Σr]×; bottom-right Σ(|r|²I − r·rᵀ).
+    a[0] = n + lf; a[1] = 0; a[2] = 0; a[3] = 0; a[4] = sz; a[5] = -sy;
+    a[6] = 0; a[7] = n + lf; a[8] = 0; a[9] = -sz; a[10] = 0; a[11] = sx;
+    a[12] = 0; a[13] = 0; a[14] = n + lf; a[15] = sy; a[16] = -sx; a[17] = 0;
+    a[18] = 0; a[19] = -sz; a[20] = sy; a[21] = yy + zz + lt; a[22] = -xy; a[23] = -xz;
+    a[24] = sz; a[25] = 0; a[26] = -sx; a[27] = -xy; a[28] = xx + zz + lt; a[29] = -yz;
+    a[30] = -sy; a[31] = sx; a[32] = 0; a[33] = -xz; a[34] = -yz; a[35] = xx + yy + lt;
+    return choleskyInPlace(a, 6);
+  }
+
+  /** Forces (3 per leg, world; zero for swing legs) reproducing `wrench` (F, τ) as well as possible. */
+  solve(forces: Float64Array, wrench: Float64Array): Float64Array {
+    forces.fill(0);
+    if (this.stanceCount === 0) return forces;
+    choleskySolve(this.dual, this.factor, wrench, 6);
+    this.applyTranspose(forces, this.dual);
+    for (let pass = 0; pass < this.refinementSteps; pass++) {
+      wrenchOf(this.residual, forces, this.arms, this.stance, this.legCount);
+      for (let k = 0; k < 6; k++) this.residual[k] = wrench[k] - this.residual[k];
+      choleskySolve(this.correction, this.factor, this.residual, 6);
+      for (let k = 0; k < 6; k++) this.dual[k] += this.correction[k];
+      this.applyTranspose(forces, this.dual);
+    }
+    return forces;
+  }
+
+  /** f_i = y_F + y_τ × r_i for stance legs (this is Aᵀ·y). */
+  private applyTranspose(forces: Float64Array, y: Float64Array): void {
+    const fx = y[0], fy = y[1], fz = y[2], tx = y[3], ty = y[4], tz = y[5];
+    for (let i = 0; i < this.legCount; i++) {
+      const o = 3 * i;
+      if (this.stance[i] === 0) {
+        forces[o] = 0; forces[o + 1] = 0; forces[o + 2] = 0;
+        continue;
+      }
+      const x = this.arms[o], yy = this.arms[o + 1], z = this.arms[o + 2];
+      forces[o] = fx + (ty * z - tz * yy);
+      forces[o + 1] = fy + (tz * x - tx * z);
+      forces[o + 2] = fz + (tx * yy - ty * x);
+    }
+  }
+}
+
+/** Resultant (Σ f_i, Σ r_i × f_i) of the stance legs' forces, written to out (6). */
+export function wrenchOf(out: Float64Array, forces: Float64Array, arms: Float64Array, stance: Uint8Array, legCount: number): Float64Array {
+  let fx = 0, fy = 0, fz = 0, tx = 0, ty = 0, tz = 0;
+  for (let i = 0; i < legCount; i++) {
+    if (stance[i] === 0) continue;
+    const o = 3 * i;
+    const x = arms[o], y = arms[o + 1], z = arms[o + 2];
+    const px = forces[o], py = forces[o + 1], pz = forces[o + 2];
+    fx += px; fy += py; fz += pz;
+    tx += y * pz - z * py;
+    ty += z * px - x * pz;
+    tz += x * py - y * px;
+  }
+  out[0] = fx; out[1] = fy; out[2] = fz; out[3] = tx; out[4] = ty; out[5] = tz;
+  return out;
+}

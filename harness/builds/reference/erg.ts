@@ -1,0 +1,304 @@
+// Explicit reference governor (Garone & Nicotra, IEEE TAC 2016; Nicotra & Garone, IEEE Control
+// Systems Magazine 2018), discrete-time update at the control period T in the spirit of
+// Hosseinzadeh et al. 2024. Generic over the reference dimension m and error-state dimension n,
+// fixed-size, allocation-free.
+//
+// Model. A pre-stabilised system with reference v has an equilibrium x̄_v; z = x − x̄_v is the
+// tracking error and V = zᵀ·P·z a Lyapunov function of its (closed-loop) dynamics, non-increasing
+// while v is held. Constraint k is linear: c_kᵀ·z + e_kᵀ·v ≤ d_k. At the equilibrium (z = 0) its
+// margin is d_k − e_kᵀ·v, and the largest level set {V ≤ Γ} inside it has
+//   Γ_k = max(d_k − e_kᵀ·v, 0)² / (c_kᵀ·P⁻¹·c_k),   Γ = min_k Γ_k.
+// Update (one call per control period):
+//   Δ = κ·(Γ − V), clipped at ≥ 0,
+//   ρ = (r − v)/max(‖r − v‖, η) + Σ_k max((ζ − dist_k)/(ζ − δ), 0)·(−n_k/‖n_k‖),
+//   v ← v + T·Δ·ρ.
+// dist_k is the distance of v to constraint k's hyperplane n_kᵀ·v ≤ b_k in reference space: the
+// steady-state one (n = e, b = d: the textbook navigation field) or the instantaneous one at the
+// current state (n = Sᵀc + e, b = d − cᵀz + (Sᵀc)ᵀv, for constraints whose steady state does not
+// depend on v, such as contact forces driven by acceleration).
+// Discrete-time condition. Changing v by δv makes z jump by S·δv (S is given: the equilibrium moves
+// with v) and changes Γ. We cap Δ so that, by the triangle inequality in the P-norm,
+//   √V + T·Δ·(Σ_j |ρ_j|·‖S_j‖_P + max_k |e_kᵀρ|/√(c_kᵀP⁻¹c_k)) ≤ √Γ,
+// which keeps V(z⁺) ≤ Γ(v⁺) after the jump; between updates V does not grow, so the state stays
+// in the constraint set whenever it started inside {V ≤ Γ}. Δ is also capped so the attraction
+// step never overshoots the target. Reference coordinates are scaled per axis (referenceScale) so
+// that η, ζ, δ and the norms mix axes of different units sensibly.
+
+export const STEADY = 0;
+export const INSTANT = 1;
+
+export interface GovernorConfig {
+  referenceDimension: number;
+  stateDimension: number;
+  maxConstraints: number;
+  /** P (n×n, row-major, symmetric positive definite). */
+  lyapunov: ArrayLike<number>;
+  /** S (n×m, row-major): z jumps by S·δv when the applied reference moves by δv. */
+  jump: ArrayLike<number>;
+  /** Per-axis scale of the reference for ρ (1 = use the reference as is). */
+  referenceScale?: ArrayLike<number>;
+  gain: number;
+  smoothing: number;
+  influence: number;
+  margin: number;
+  period_s: number;
+}
+
+export class ExplicitReferenceGovernor {
+  readonly m: number;
+  readonly n: number;
+  readonly maxConstraints: number;
+  readonly applied: Float64Array;
+  readonly lyapunov: Float64Array;
+  readonly lyapunovInverse: Float64Array;
+  readonly jump: Float64Array;
+  readonly scale: Float64Array;
+  gain: number;
+  smoothing: number;
+  influence: number;
+  margin: number;
+  period_s: number;
+  // Constraint table: c_kᵀz + e_kᵀv ≤ d_k, kind STEADY or INSTANT.
+  count = 0;
+  readonly rows: Float64Array;
+  readonly referenceRows: Float64Array;
+  readonly bounds: Float64Array;
+  readonly kinds: Uint8Array;
+  /** 1/√(c_kᵀP⁻¹c_k) (0 when c_k = 0), refreshed by refreshConstraint(). */
+  readonly inverseSqrtDenominator: Float64Array;
+  /** Sᵀc_k, refreshed by refreshConstraint(). */
+  readonly jumpRows: Float64Array;
+  /** Unit normal of constraint k's reference-space hyperplane in scaled coordinates (0 if none). */
+  readonly repulsionNormal: Float64Array;
+  /** 1/‖n_k‖ in scaled coordinates (0 when the hyperplane does not depend on v). */
+  readonly repulsionInverseNorm: Float64Array;
+  /**
+   * Last update, for telemetry and tests: (V, Γ, Δ, √Γ). Kept in a typed array rather than in
+   * number fields so that V8 never has to box a double stored into a generalised field.
+   */
+  readonly last = new Float64Array(4);
+  get lyapunovValue(): number {
+    return this.last[0];
+  }
+  get threshold(): number {
+    return this.last[1];
+  }
+  get delta(): number {
+    return this.last[2];
+  }
+  private readonly jumpNorm: Float64Array;
+  private readonly field: Float64Array;
+
+  constructor(config: GovernorConfig) {
+    const m = config.referenceDimension, n = config.stateDimension, k = config.maxConstraints;
+    this.m = m;
+    this.n = n;
+    this.maxConstraints = k;
+    if (config.lyapunov.length !== n * n) throw new Error(`governor: P has ${config.lyapunov.length} entries, expected ${n * n}`);
+    if (config.jump.length !== n * m) throw new Error(`governor: S has ${config.jump.length} entries, expected ${n * m}`);
+    this.applied = new Float64Array(m);
+    this.lyapunov = Float64Array.from(config.lyapunov);
+    this.lyapunovInverse = invertSymmetric(this.lyapunov, n);
+    this.jump = Float64Array.from(config.jump);
+    this.scale = config.referenceScale ? Float64Array.from(config.referenceScale) : new Float64Array(m).fill(1);
+    this.gain = config.gain;
+    this.smoothing = config.smoothing;
+    this.influence = config.influence;
+    this.margin = config.margin;
+    this.period_s = config.period_s;
+    this.rows = new Float64Array(k * n);
+    this.referenceRows = new Float64Array(k * m);
+    this.bounds = new Float64Array(k);
+    this.kinds = new Uint8Array(k);
+    this.inverseSqrtDenominator = new Float64Array(k);
+    this.jumpRows = new Float64Array(k * m);
+    this.repulsionNormal = new Float64Array(k * m);
+    this.repulsionInverseNorm = new Float64Array(k);
+    this.jumpNorm = new Float64Array(m);
+    this.field = new Float64Array(m);
+    for (let j = 0; j < m; j++) {
+      let s = 0;
+      for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) s += this.jump[a * m + j] * this.lyapunov[a * n + b] * this.jump[b * m + j];
+      this.jumpNorm[j] = Math.sqrt(Math.max(0, s));
+    }
+  }
+
+  /** Recomputes the cached denominator, Sᵀc and repulsion normal of constraint k (set kinds[k] first). */
+  refreshConstraint(k: number): void {
+    const n = this.n, m = this.m, c = this.rows, pi = this.lyapunovInverse, o = k * n;
+    let s = 0;
+    for (let a = 0; a < n; a++) {
+      const ca = c[o + a];
+      if (ca === 0) continue;
+      for (let b = 0; b < n; b++) s += ca * pi[a * n + b] * c[o + b];
+    }
+    this.inverseSqrtDenominator[k] = s > 1e-300 ? 1 / Math.sqrt(s) : 0;
+    let norm2 = 0;
+    for (let j = 0; j < m; j++) {
+      let t = 0;
+      for (let a = 0; a < n; a++) t += this.jump[a * m + j] * c[o + a];
+      this.jumpRows[k * m + j] = t;
+      let nj = this.referenceRows[k * m + j];
+      if (this.kinds[k] === INSTANT) nj += t;
+      nj /= this.scale[j];
+      this.repulsionNormal[k * m + j] = nj;
+      norm2 += nj * nj;
+    }
+    const inverseNorm = norm2 > 0 ? 1 / Math.sqrt(norm2) : 0;
+    this.repulsionInverseNorm[k] = inverseNorm;
+    for (let j = 0; j < m; j++) this.repulsionNormal[k * m + j] *= inverseNorm;
+  }
+
+  // The two helpers below store their result in a field instead of returning it: a double
+  // returned from a call V8 does not inline is boxed, i.e. allocated, on every call.
+
+  /** last[0] ← V = zᵀPz. */
+  computeLyapunov(z: ArrayLike<number>): void {
+    const n = this.n, p = this.lyapunov;
+    let v = 0;
+    for (let a = 0; a < n; a++) {
+      const za = z[a];
+      if (za === 0) continue;
+      let row = 0;
+      for (let b = 0; b < n; b++) row += p[a * n + b] * z[b];
+      v += za * row;
+    }
+    this.last[0] = v;
+  }
+
+  /** last[3] ← √Γ(v) for the applied reference (Infinity when no constraint limits it). */
+  computeThreshold(): void {
+    const m = this.m, v = this.applied;
+    let best = Infinity;
+    for (let k = 0; k < this.count; k++) {
+      let marginK = this.bounds[k];
+      for (let j = 0; j < m; j++) marginK -= this.referenceRows[k * m + j] * v[j];
+      const w = this.inverseSqrtDenominator[k];
+      if (w === 0) {
+        if (marginK < 0) {
+          best = 0;
+          break;
+        }
+        continue;
+      }
+      const level = marginK > 0 ? marginK * w : 0;
+      if (level < best) best = level;
+    }
+    this.last[3] = best;
+  }
+
+  /** One governor step: moves `applied` toward `target` given the current error state z. */
+  update(z: ArrayLike<number>, target: ArrayLike<number>): void {
+    const m = this.m, n = this.n, v = this.applied, scale = this.scale, field = this.field;
+    this.computeLyapunov(z);
+    this.computeThreshold();
+    const lyap = this.last[0];
+    const sqrtV = Math.sqrt(lyap);
+    const sqrtGamma = this.last[3];
+    const threshold = sqrtGamma * sqrtGamma;
+    this.last[1] = threshold;
+
+    // Attraction, in scaled reference coordinates.
+    let distance = 0;
+    for (let j = 0; j < m; j++) {
+      const d = (target[j] - v[j]) * scale[j];
+      field[j] = d;
+      distance += d * d;
+    }
+    distance = Math.sqrt(distance);
+    const reach = distance > this.smoothing ? distance : this.smoothing;
+    for (let j = 0; j < m; j++) field[j] /= reach;
+
+    // Repulsion from the hyperplanes within the influence zone ζ (unit normals precomputed).
+    const span = this.influence - this.margin;
+    for (let k = 0; k < this.count; k++) {
+      const inverseNorm = this.repulsionInverseNorm[k];
+      if (inverseNorm === 0) continue;
+      let offset = this.bounds[k];
+      let value = 0;
+      if (this.kinds[k] === INSTANT) {
+        for (let a = 0; a < n; a++) offset -= this.rows[k * n + a] * z[a];
+        for (let j = 0; j < m; j++) offset += this.jumpRows[k * m + j] * v[j];
+      }
+      for (let j = 0; j < m; j++) value += this.repulsionNormal[k * m + j] * v[j] * scale[j];
+      const dist = offset * inverseNorm - value;
+      if (dist >= this.influence) continue;
+      const strength = (this.influence - dist) / span;
+      for (let j = 0; j < m; j++) field[j] -= strength * this.repulsionNormal[k * m + j];
+    }
+
+    // Dynamic safety margin, with the discrete-time and no-overshoot caps.
+    let delta = this.gain * (threshold - lyap);
+    if (!(delta > 0)) delta = 0;
+    if (delta > 0) {
+      let beta = 0;
+      for (let j = 0; j < m; j++) beta += Math.abs(field[j] / scale[j]) * this.jumpNorm[j];
+      let shift = 0;
+      for (let k = 0; k < this.count; k++) {
+        let s = 0;
+        for (let j = 0; j < m; j++) s += this.referenceRows[k * m + j] * (field[j] / scale[j]);
+        const w = this.inverseSqrtDenominator[k];
+        const t = Math.abs(s) * w;
+        if (t > shift) shift = t;
+      }
+      beta += shift;
+      if (beta > 0 && sqrtGamma !== Infinity) {
+        const cap = (sqrtGamma - sqrtV) / (this.period_s * beta);
+        if (delta > cap) delta = cap > 0 ? cap : 0;
+      }
+      const noOvershoot = reach / this.period_s;
+      if (delta > noOvershoot) delta = noOvershoot;
+    }
+    this.last[2] = delta;
+    const step = this.period_s * delta;
+    for (let j = 0; j < m; j++) v[j] += (step * field[j]) / scale[j];
+  }
+}
+
+/** Inverse of a small SPD matrix by Gauss–Jordan elimination (setup time only; allocates). */
+export function invertSymmetric(a: ArrayLike<number>, n: number): Float64Array {
+  const work = Float64Array.from(a);
+  const inverse = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) inverse[i * n + i] = 1;
+  for (let col = 0; col < n; col++) {
+    let pivotRow = col;
+    for (let r = col + 1; r < n; r++) if (Math.abs(work[r * n + col]) > Math.abs(work[pivotRow * n + col])) pivotRow = r;
+    const pivot = work[pivotRow * n + col];
+    if (Math.abs(pivot) < 1e-300) throw new Error('governor: P is singular');
+    if (pivotRow !== col) {
+      for (let c = 0; c < n; c++) {
+        let t = work[col * n + c]; work[col * n + c] = work[pivotRow * n + c]; work[pivotRow * n + c] = t;
+        t = inverse[col * n + c]; inverse[col * n + c] = inverse[pivotRow * n + c]; inverse[pivotRow * n + c] = t;
+      }
+    }
+    for (let c = 0; c < n; c++) {
+      work[col * n + c] /= pivot;
+      inverse[col * n + c] /= pivot;
+    }
+    for (let r = 0; r < n; r++) {
+      if (r === col) continue;
+      const f = work[r * n + col];
+      if (f === 0) continue;
+      for (let c = 0; c < n; c++) {
+        work[r * n + c] -= f * work[col * n + c];
+        inverse[r * n + c] -= f * inverse[col * n + c];
+      }
+    }
+  }
+  return inverse;
+}
+
+/**
+ * P of the PD error dynamics ë = −k_p·e − k_d·ė (state (e, ė)) solving AᵀP + PA = −Q with
+ * Q = diag(q_p, q_v), closed form for the 2×2 Lyapunov equation. Writes [p11, p12, p22] to out.
+ */
+export function pdLyapunov(out: Float64Array, kp: number, kd: number, qp: number, qv: number): Float64Array {
+  if (!(kp > 0 && kd > 0)) throw new Error(`governor: PD gains must be positive for a Lyapunov function (k_p = ${kp}, k_d = ${kd})`);
+  const p12 = qp / (2 * kp);
+  const p22 = (p12 + qv / 2) / kd;
+  const p11 = kp * p22 + kd * p12;
+  out[0] = p11;
+  out[1] = p12;
+  out[2] = p22;
+  return out;
+}

@@ -1,0 +1,148 @@
+// The trunk's reference governor: the generic ERG (erg.ts) applied to the applied horizontal
+// velocity and yaw-rate reference v = (v_x, v_y, ψ̇) the trunk PD tracks.
+//
+// Error state z = (e_px, e_vx, e_py, e_vy, e_ψ, e_ω) with e = actual − reference; each axis obeys
+// ë = −k_p·e − k_d·ė under the PD, so P = blockdiag(P_x, P_y, P_ψ) from the 2×2 Lyapunov equation
+// (Q = diag(k_p, 1) per axis). Moving v by δv moves the velocity errors by −δv (the jump S).
+//
+// Constraints, per stance foot i, on its wanted ground force f_i = f0_i + Σ_j G_ij·u_j (the
+// distribution is linear, u = −K·z the governed accelerations, f0 the forces at u = 0):
+//   four sides of the inner pyramid  ±f_x − μ'·f_z ≤ 0, ±f_y − μ'·f_z ≤ 0,
+//   the normal band                   f_min ≤ f_z ≤ f_max,
+// each c·f_i ≤ d becomes (−(c·G_i)·K)·z ≤ d − c·f0_i: a hyperplane in error space and, at the
+// current state, in reference space (repulsion kind INSTANT). Plus the speed bounds
+// |v_x + e_vx| ≤ v_max, |v_y + e_vy| ≤ v_max, |ψ̇ + e_ω| ≤ ψ̇_max (kind STEADY, the textbook case).
+
+import { ExplicitReferenceGovernor, INSTANT, STEADY, pdLyapunov } from './erg.js';
+
+export const GOVERNED_AXES = 3;
+export const CONSTRAINTS_PER_FOOT = 6;
+
+export interface TrunkGovernorConfig {
+  legCount: number;
+  stiffness: ArrayLike<number>; // k_p per axis
+  damping: ArrayLike<number>; // k_d per axis
+  period_s: number;
+  gain: number;
+  smoothing: number;
+  influence: number;
+  margin: number;
+  /** Length scaling the yaw rate into m/s for the navigation field. */
+  yawLength_m: number;
+  maxSpeed_mps: number;
+  maxYawRate_radps: number;
+}
+
+export class TrunkGovernor {
+  readonly erg: ExplicitReferenceGovernor;
+  readonly target = new Float64Array(GOVERNED_AXES);
+  readonly applied: Float64Array;
+  private readonly legCount: number;
+  private readonly kp: Float64Array;
+  private readonly kd: Float64Array;
+  private readonly maxSpeed_mps: number;
+  private readonly maxYawRate_radps: number;
+  private readonly side = new Float64Array(3);
+
+  constructor(config: TrunkGovernorConfig) {
+    this.legCount = config.legCount;
+    this.kp = Float64Array.from(config.stiffness);
+    this.kd = Float64Array.from(config.damping);
+    const p = new Float64Array(36);
+    const block = new Float64Array(3);
+    for (let axis = 0; axis < GOVERNED_AXES; axis++) {
+      pdLyapunov(block, this.kp[axis], this.kd[axis], this.kp[axis], 1);
+      const a = 2 * axis;
+      p[a * 6 + a] = block[0];
+      p[a * 6 + a + 1] = block[1];
+      p[(a + 1) * 6 + a] = block[1];
+      p[(a + 1) * 6 + a + 1] = block[2];
+    }
+    const jump = new Float64Array(6 * GOVERNED_AXES);
+    for (let axis = 0; axis < GOVERNED_AXES; axis++) jump[(2 * axis + 1) * GOVERNED_AXES + axis] = -1;
+    this.erg = new ExplicitReferenceGovernor({
+      referenceDimension: GOVERNED_AXES,
+      stateDimension: 6,
+      maxConstraints: CONSTRAINTS_PER_FOOT * config.legCount + 2 * GOVERNED_AXES,
+      lyapunov: p,
+      jump,
+      referenceScale: [1, 1, config.yawLength_m],
+      gain: config.gain,
+      smoothing: config.smoothing,
+      influence: config.influence,
+      margin: config.margin,
+      period_s: config.period_s,
+    });
+    this.applied = this.erg.applied;
+    this.maxSpeed_mps = config.maxSpeed_mps;
+    this.maxYawRate_radps = config.maxYawRate_radps;
+  }
+
+  /**
+   * Rebuilds the constraint table for this tick's stance set and linearisation.
+   * baseForces: f0 (3 per leg); inputForces: G, column j (3 per leg) at [3N·j, 3N·(j+1));
+   * pyramid: μ' per leg; band = (trust, margin, f_min, f_max).
+   */
+  linearise(
+    stance: Uint8Array,
+    baseForces: Float64Array,
+    inputForces: Float64Array,
+    pyramid: Float64Array,
+    band: Float64Array,
+  ): void {
+    const minNormal_N = band[2], maxNormal_N = band[3];
+    const erg = this.erg, legs = this.legCount, stride = 3 * legs, c = this.side;
+    let k = 0;
+    for (let i = 0; i < legs; i++) {
+      if (stance[i] === 0) continue;
+      const mu = pyramid[i];
+      for (let s = 0; s < CONSTRAINTS_PER_FOOT; s++) {
+        let bound = 0;
+        if (s < 4) {
+          c[0] = s === 0 ? 1 : s === 1 ? -1 : 0;
+          c[1] = s === 2 ? 1 : s === 3 ? -1 : 0;
+          c[2] = -mu;
+        } else if (s === 4) {
+          c[0] = 0; c[1] = 0; c[2] = -1;
+          bound = -minNormal_N;
+        } else {
+          c[0] = 0; c[1] = 0; c[2] = 1;
+          bound = maxNormal_N;
+        }
+        const o = 3 * i;
+        bound -= c[0] * baseForces[o] + c[1] * baseForces[o + 1] + c[2] * baseForces[o + 2];
+        const rowOffset = k * 6;
+        for (let axis = 0; axis < GOVERNED_AXES; axis++) {
+          const g = axis * stride + o;
+          const sensitivity = c[0] * inputForces[g] + c[1] * inputForces[g + 1] + c[2] * inputForces[g + 2];
+          erg.rows[rowOffset + 2 * axis] = -sensitivity * this.kp[axis];
+          erg.rows[rowOffset + 2 * axis + 1] = -sensitivity * this.kd[axis];
+          erg.referenceRows[k * GOVERNED_AXES + axis] = 0;
+        }
+        erg.bounds[k] = bound;
+        erg.kinds[k] = INSTANT;
+        erg.refreshConstraint(k);
+        k++;
+      }
+    }
+    for (let axis = 0; axis < GOVERNED_AXES; axis++) {
+      const limit = axis === 2 ? this.maxYawRate_radps : this.maxSpeed_mps;
+      for (let sign = 1; sign >= -1; sign -= 2) {
+        const rowOffset = k * 6;
+        for (let a = 0; a < 6; a++) erg.rows[rowOffset + a] = 0;
+        erg.rows[rowOffset + 2 * axis + 1] = sign;
+        for (let j = 0; j < GOVERNED_AXES; j++) erg.referenceRows[k * GOVERNED_AXES + j] = j === axis ? sign : 0;
+        erg.bounds[k] = limit;
+        erg.kinds[k] = STEADY;
+        erg.refreshConstraint(k);
+        k++;
+      }
+    }
+    erg.count = k;
+  }
+
+  /** One governor step from the error state z (see trunk.ts for its layout). */
+  update(z: ArrayLike<number>): void {
+    this.erg.update(z, this.target);
+  }
+}

@@ -1,0 +1,34 @@
+// The bundled reference builds, each a ControllerFactory (harness/builds/interface.ts), looked up
+// by id from build specs such as `ref:governed`.
+
+import type { ControllerFactory } from '../interface.js';
+import { ReferenceController, type Variant } from './controller.js';
+
+/** How much the demo-only over-trusting build inflates the friction estimate. */
+export const OVERTRUST_FACTOR = 1.6;
+
+const VARIANTS: Record<string, Variant> = {
+  nominal: { id: 'nominal', governed: false, post: 'none' },
+  governed: { id: 'governed', governed: true, post: 'none' },
+  clamped: { id: 'clamped', governed: false, post: 'clamp' },
+  qp: { id: 'qp', governed: false, post: 'qp' },
+  overtrusting: { id: 'overtrusting', governed: true, post: 'none', defaults: { frictionTrust: OVERTRUST_FACTOR } },
+};
+
+function factory(variant: Variant): ControllerFactory {
+  return (setup) => new ReferenceController(setup, variant);
+}
+
+export const referenceBuilds: Record<string, ControllerFactory> = {
+  nominal: factory(VARIANTS.nominal),
+  governed: factory(VARIANTS.governed),
+  clamped: factory(VARIANTS.clamped),
+  qp: factory(VARIANTS.qp),
+  overtrusting: factory(VARIANTS.overtrusting),
+};
+
+export const REFERENCE_BUILD_IDS: readonly string[] = Object.keys(referenceBuilds);
+
+export { ReferenceController } from './controller.js';
+export { ExplicitReferenceGovernor } from './erg.js';
+export { TrunkGovernor } from './governor.js';

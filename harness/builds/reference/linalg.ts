@@ -1,0 +1,70 @@
+// Fixed-size dense linear algebra on row-major Float64Arrays, written out so nothing allocates.
+// The distribution solves a 6×6 symmetric positive-definite system every tick; Cholesky is the
+// textbook choice for SPD matrices (Golub & Van Loan, Matrix Computations, §4.2).
+
+/**
+ * In-place Cholesky factorisation A = L·Lᵀ of the leading n×n block of a row-major matrix with
+ * row stride n. The lower triangle is overwritten by L (upper triangle left untouched).
+ * Returns false when a pivot is not positive (A not positive definite to working precision).
+ */
+export function choleskyInPlace(a: Float64Array, n: number): boolean {
+  for (let j = 0; j < n; j++) {
+    let diagonal = a[j * n + j];
+    for (let k = 0; k < j; k++) diagonal -= a[j * n + k] * a[j * n + k];
+    if (!(diagonal > 0)) return false;
+    const pivot = Math.sqrt(diagonal);
+    a[j * n + j] = pivot;
+    for (let i = j + 1; i < n; i++) {
+      let sum = a[i * n + j];
+      for (let k = 0; k < j; k++) sum -= a[i * n + k] * a[j * n + k];
+      a[i * n + j] = sum / pivot;
+    }
+  }
+  return true;
+}
+
+/** Solves L·Lᵀ·x = b with the factor from choleskyInPlace; x may alias b. */
+export function choleskySolve(x: Float64Array, l: Float64Array, b: Float64Array, n: number): Float64Array {
+  for (let i = 0; i < n; i++) {
+    let sum = b[i];
+    for (let k = 0; k < i; k++) sum -= l[i * n + k] * x[k];
+    x[i] = sum / l[i * n + i];
+  }
+  for (let i = n - 1; i >= 0; i--) {
+    let sum = x[i];
+    for (let k = i + 1; k < n; k++) sum -= l[k * n + i] * x[k];
+    x[i] = sum / l[i * n + i];
+  }
+  return x;
+}
+
+/** Rotation matrix (row-major 3×3, trunk → world) from a unit quaternion (w, x, y, z). */
+export function matrixFromQuaternion(out: Float64Array, q: Float64Array): Float64Array {
+  const w = q[0], x = q[1], y = q[2], z = q[3];
+  out[0] = 1 - 2 * (y * y + z * z);
+  out[1] = 2 * (x * y - w * z);
+  out[2] = 2 * (x * z + w * y);
+  out[3] = 2 * (x * y + w * z);
+  out[4] = 1 - 2 * (x * x + z * z);
+  out[5] = 2 * (y * z - w * x);
+  out[6] = 2 * (x * z - w * y);
+  out[7] = 2 * (y * z + w * x);
+  out[8] = 1 - 2 * (x * x + y * y);
+  return out;
+}
+
+/** out[o..o+3) = R · v[vo..vo+3). out must not alias v. */
+export function rotate(out: Float64Array, o: number, r: Float64Array, v: Float64Array, vo: number): void {
+  const x = v[vo], y = v[vo + 1], z = v[vo + 2];
+  out[o] = r[0] * x + r[1] * y + r[2] * z;
+  out[o + 1] = r[3] * x + r[4] * y + r[5] * z;
+  out[o + 2] = r[6] * x + r[7] * y + r[8] * z;
+}
+
+/** out[o..o+3) = Rᵀ · v[vo..vo+3). out must not alias v. */
+export function rotateTransposed(out: Float64Array, o: number, r: Float64Array, v: Float64Array, vo: number): void {
+  const x = v[vo], y = v[vo + 1], z = v[vo + 2];
+  out[o] = r[0] * x + r[3] * y + r[6] * z;
+  out[o + 1] = r[1] * x + r[4] * y + r[7] * z;
+  out[o + 2] = r[2] * x + r[5] * y + r[8] * z;
+}
