@@ -26,7 +26,8 @@ function deterministicPart(run: RunResult): unknown {
 describe('footing run, end to end', () => {
   it('writes every result file, valid and parseable, and the gate blocks the over-trusting build on friction margin', async () => {
     const out = fresh('e2e');
-    const outcome = await runSuite({ paths: [MINI], builds: ['ref:governed', 'ref:overtrusting'], outDir: out, trace: true, jobs: 2, quiet: true });
+    // The bundled dry hall walk: the over-trusting build's margin falls to the cone there.
+    const outcome = await runSuite({ paths: [`${MINI}/short-stand.yaml`, 'scenarios/dry-baseline-walk.yaml'], builds: ['ref:governed', 'ref:overtrusting'], outDir: out, trace: true, jobs: 2, quiet: true });
     expect([EXIT.pass, EXIT.fail]).toContain(outcome.exitCode);
     for (const file of ['results.json', 'junit.xml', 'summary.md', 'report.html']) expect(existsSync(path.join(out, file))).toBe(true);
 
@@ -34,8 +35,8 @@ describe('footing run, end to end', () => {
     const validation = validateResults(results);
     expect(validation.ok).toBe(true);
     expect(results.runs.map((r) => `${r.scenario.id}/${r.build}`)).toEqual([
-      'short-slick/governed',
-      'short-slick/overtrusting',
+      'dry-baseline-walk/governed',
+      'dry-baseline-walk/overtrusting',
       'short-stand/governed',
       'short-stand/overtrusting',
     ]);
