@@ -2,6 +2,7 @@
 // them whatever their names; explicit pairs when given; else equal names), then runs of a build
 // pair by scenario id, compared only when the scenario hash is equal.
 
+import { compareIdentity } from '../scenario/identity.js';
 import { buildNames } from '../run/results/buildOrder.js';
 import type { ResultsFile, RunResult } from '../run/results/types.js';
 import { GateInputError, type NotComparable, type Unpaired } from './types.js';
@@ -86,7 +87,7 @@ export function pairRuns(baseline: ResultsFile, candidate: ResultsFile, explicit
           candidateBuild: candBuild,
           baselineHash: base.scenario.hash,
           candidateHash: cand.scenario.hash,
-          reason: `scenario changed (revision ${base.scenario.revision} → ${cand.scenario.revision}, hash ${base.scenario.hash.slice(0, 12)} → ${cand.scenario.hash.slice(0, 12)})`,
+          reason: scenarioChange(base, cand),
         });
       } else if (base.status === 'error') {
         notComparable.push({
@@ -108,4 +109,11 @@ export function pairRuns(baseline: ResultsFile, candidate: ResultsFile, explicit
     }
   }
   return { buildPairs, pairs, notComparable, unpaired };
+}
+
+/** Why two runs of one scenario id are not comparable; warns when the revision was not bumped. */
+function scenarioChange(base: RunResult, cand: RunResult): string {
+  const identity = compareIdentity(base.scenario, cand.scenario);
+  if (identity.kind === 'changedWithoutRevision') return `warning: ${identity.message}`;
+  return `scenario changed (revision ${base.scenario.revision} → ${cand.scenario.revision}, hash ${base.scenario.hash.slice(0, 12)} → ${cand.scenario.hash.slice(0, 12)})`;
 }

@@ -16,8 +16,19 @@ import type { RunError } from './results/types.js';
 import { CommandSchedule } from './commands.js';
 import { SensorModel } from './sensing.js';
 
+/** What an observer learns once, before the first tick. */
+export interface EpisodeStart {
+  footCount: number;
+  /** The build's telemetry names, in the order of Action.telemetry. */
+  telemetryNames: readonly string[];
+  /** The scorer's loaded threshold (Scorer.loadedThreshold_N). */
+  loadedThreshold_N: number;
+}
+
 /** Something that watches every tick (trace writer, plot-series recorder). Must not keep `sample`. */
 export interface TickObserver {
+  /** Optional: called once before the first tick. */
+  onStart?(info: EpisodeStart): void;
   onTick(sample: TickSample, action: Action): void;
 }
 
@@ -51,6 +62,8 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   const scorer = createScorer(scenario);
   options.onScorer?.(scorer);
   const observers = options.observers ?? [];
+  const start: EpisodeStart = { footCount: n, telemetryNames: build.telemetryNames, loadedThreshold_N: scorer.loadedThreshold_N };
+  for (const observer of observers) observer.onStart?.(start);
   sample.referencePosition_m[0] = scenario.plant.initial.position_m[0];
   sample.referencePosition_m[1] = scenario.plant.initial.position_m[1];
   sample.referencePosition_m[2] = scenario.plant.robot.standingHeight_m;

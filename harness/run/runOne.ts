@@ -7,6 +7,8 @@ import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/lo
 import type { BuildSpec } from '../builds/spec.js';
 import { gravityOnIncline } from '../plant/gravity.js';
 import type { ResolvedScenario } from '../scenario/types.js';
+import { createSeriesRecorder } from '../report/series/recorder.js';
+import { writeSeriesFile } from '../report/series/file.js';
 import { describeError, runEpisode, type TickObserver } from './episode.js';
 import { createErrorRunResult, createRunResult } from './results/runResult.js';
 import { createTraceWriter, tracePath, type TraceWriter } from './results/trace.js';
@@ -21,6 +23,14 @@ export interface RunTask {
   /** Decimation of the trace (every n-th tick). */
   traceEveryNth?: number;
   buildOptions?: Pick<OpenBuildOptions, 'handshakeTimeout_ms' | 'tickTimeout_ms'>;
+}
+
+function saveSeries(outDir: string, series: ReturnType<ReturnType<typeof createSeriesRecorder>['finish']>): void {
+  try {
+    writeSeriesFile(outDir, series);
+  } catch {
+    // A series file is for the report only; the run's result stands without it ("no series").
+  }
 }
 
 export function controllerSetup(scenario: ResolvedScenario): ControllerSetup {
@@ -45,7 +55,9 @@ export async function runOne(task: RunTask, extraObservers: TickObserver[] = [])
 
   let trace: TraceWriter | undefined;
   let traceRelative: string | undefined;
-  const observers: TickObserver[] = [...extraObservers];
+  // Plot series for the report, for every run (traces are optional, the report is not).
+  const recorder = createSeriesRecorder(scenario, spec.name);
+  const observers: TickObserver[] = [...extraObservers, recorder];
   try {
     const outcome = await runEpisode(scenario, build, {
       observers,
@@ -60,6 +72,7 @@ export async function runOne(task: RunTask, extraObservers: TickObserver[] = [])
       },
     });
     trace?.close();
+    saveSeries(task.outDir, recorder.finish());
     const options = traceRelative ? { trace: traceRelative } : {};
     if (outcome.error) return createErrorRunResult(scenario, spec.name, outcome.error, outcome.scored, options);
     return createRunResult(scenario, spec.name, outcome.scored, options);

@@ -1,3 +1,6 @@
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseBuildSpec } from '../../harness/builds/spec.js';
 import { runOne } from '../../harness/run/runOne.js';
@@ -11,7 +14,8 @@ describe('slick-patch-abrupt: the reference governor against the unconstrained c
     const loaded = await loadScenarioFile('scenarios/slick-patch-abrupt.yaml');
     if (!loaded.ok) throw new Error(JSON.stringify(loaded.errors));
     const [scenario] = loaded.scenarios;
-    const run = (spec: string) => runOne({ scenario, build: parseBuildSpec(spec, process.cwd()), outDir: '', trace: false });
+    const outDir = mkdtempSync(path.join(tmpdir(), 'footing-headline-'));
+    const run = (spec: string) => runOne({ scenario, build: parseBuildSpec(spec, process.cwd()), outDir, trace: false });
     const nominal = await run('ref:nominal');
     const governed = await run('ref:governed');
     expect(nominal.status).toBe('fail');

@@ -1,0 +1,435 @@
+// Data prep: a results set (plus its series files, the gate's outcome and bench figures) becomes
+// the plain view model the templates lay out. Every user string stays a plain string here (the
+// templates escape it); every plot is SvgMarkup built from numbers by plot/charts.ts.
+
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
+import { gateWithinResults } from '../gate/gate.js';
+import { formatGateValue } from '../gate/render.js';
+import { GateInputError, type GateOutcome } from '../gate/types.js';
+import type { BuildManifest, ResultsFile, RunResult, RunStatus } from '../run/results/types.js';
+import { benchView, type BenchView } from './bench.js';
+import { metricCells, type MetricCell } from './matrix.js';
+import {
+  buildSwatch,
+  floorDefinition,
+  floorExtent,
+  floorPlot,
+  frictionUsePlot,
+  governorAxisFlat,
+  governorPlot,
+  loopTimePlot,
+  marginAxis,
+  marginDots,
+  muLegend,
+  normalForcePlot,
+  slipAxis,
+  slipDistancePlot,
+  slipDots,
+} from './plot/charts.js';
+import { buildStyle, type BuildStyle } from './plot/palette.js';
+import { niceCeil } from './plot/scale.js';
+import { asSvg, label, type SvgMarkup } from './plot/svg.js';
+import { readSeriesFor } from './series/file.js';
+import type { RunSeries } from './series/types.js';
+
+export interface ReportOptions {
+  /** Folder the report is written to (links are relative to it). */
+  outDir: string;
+  /** The build the others are compared with; default: the gate's baseline, else the first build. */
+  baseline?: string;
+  /** The gate's outcome when the caller already ran it (its regressions are listed as they are). */
+  gate?: GateOutcome;
+  /** Policy for the within-results gate when no outcome is given (default: the built-in one). */
+  policy?: GatePolicy;
+  /** Bench figures (#7), any of the shapes bench.ts reads. */
+  bench?: unknown;
+  /** Results folders holding series/ and traces/ (default: [outDir]); merged shards name theirs. */
+  sourceDirs?: string[];
+  /** For reproducible output in tests. */
+  generatedAt?: Date;
+}
+
+const STATUS_GLYPH: Record<RunStatus, string> = { pass: '✓', fail: '✗', error: '!' };
+
+export interface BuildView {
+  name: string;
+  index: number;
+  style: BuildStyle;
+  swatch: SvgMarkup;
+  isBaseline: boolean;
+  counts: Record<RunStatus, number>;
+  total: number;
+  bar: SvgMarkup;
+  manifest: { kind: string; entry: string; commit: string; dirty: string; extra: string };
+}
+
+export interface RunView {
+  build: string;
+  buildIndex: number;
+  swatch: SvgMarkup;
+  status: RunStatus;
+  glyph: string;
+  reasons: string[];
+  error: { message: string; reason: string; time: string; stderrTail: string } | null;
+  hasSeries: boolean;
+  seriesProblem: string | null;
+  frictionUse: SvgMarkup | null;
+  normalForce: SvgMarkup | null;
+  floor: SvgMarkup | null;
+  floorCaption: string;
+  governor: { axis: string; svg: SvgMarkup }[];
+  /** Governor axes not plotted because target and applied stayed constant. */
+  governorFlat: string;
+  loopTime: SvgMarkup | null;
+  loopCaption: string;
+  traceHref: string | null;
+  cells: MetricCell[];
+  isBaseline: boolean;
+}
+
+export interface ScenarioView {
+  anchor: string;
+  index: number;
+  id: string;
+  title: string;
+  revision: number;
+  hash: string;
+  hashShort: string;
+  file: string;
+  open: boolean;
+  regressionCount: number;
+  runs: RunView[];
+  /** Runs with their matrix cells, in build order; null where the build did not run it. */
+  row: (RunView | null)[];
+  floorDefinition: SvgMarkup | null;
+  muLegend: SvgMarkup | null;
+  materials: { name: string; mu: string; kind: string }[];
+  slipOverlay: SvgMarkup | null;
+  overview: { margin: SvgMarkup; slip: SvgMarkup };
+  hasGovernor: boolean;
+  duration: string;
+}
+
+export interface RegressionView {
+  anchor: string;
+  scenario: string;
+  title: string;
+  builds: string;
+  metric: string;
+  baseline: string;
+  candidate: string;
+  change: string;
+  rule: string;
+  reason: string;
+}
+
+export interface ReportModel {
+  title: string;
+  generatedAt: string;
+  results: { toolVersion: string; startedAt: string; machine: string };
+  baseline: { name: string; explicit: boolean } | null;
+  builds: BuildView[];
+  totals: Record<RunStatus, number> & { runs: number };
+  gate: {
+    present: boolean;
+    verdict: string;
+    headline: string;
+    against: string;
+    regressions: RegressionView[];
+    notComparable: string[];
+    unpaired: string[];
+    warnings: string[];
+    problem: string | null;
+    moved: number;
+  };
+  scenarios: ScenarioView[];
+  overviewAxes: { margin: SvgMarkup; slip: SvgMarkup };
+  bench: BenchView;
+  provenance: { scenarios: { id: string; title: string; revision: number; hash: string; file: string; anchor: string }[]; traces: { href: string; name: string }[] };
+  legend: { better: string; worse: string; same: string };
+}
+
+export function buildReportModel(results: ResultsFile, options: ReportOptions): ReportModel {
+  const sourceDirs = options.sourceDirs && options.sourceDirs.length > 0 ? options.sourceDirs : [options.outDir];
+  const buildNames = orderedBuilds(results);
+  const explicitBaseline = options.baseline ?? options.gate?.buildPairs[0]?.[0];
+  const baselineName = explicitBaseline !== undefined && buildNames.includes(explicitBaseline) ? explicitBaseline : buildNames.length > 1 ? buildNames[0] : null;
+
+  // The gate: the caller's outcome, else the same within-results gate `footing run --baseline` runs.
+  let gate: GateOutcome | null = options.gate ?? null;
+  let gateProblem: string | null = null;
+  if (!gate && baselineName !== null) {
+    try {
+      gate = gateWithinResults(results, baselineName, options.policy ?? defaultPolicy());
+    } catch (error) {
+      if (!(error instanceof GateInputError)) throw error;
+      gateProblem = error.message;
+    }
+  }
+
+  const manifests = new Map<string, BuildManifest>(results.builds.map((b) => [b.name, b]));
+  const builds: BuildView[] = buildNames.map((name, index) => {
+    const runs = results.runs.filter((r) => r.build === name);
+    const counts = { pass: 0, fail: 0, error: 0 };
+    for (const r of runs) counts[r.status]++;
+    const style = buildStyle(index);
+    return {
+      name,
+      index,
+      style,
+      swatch: buildSwatch(style),
+      isBaseline: name === baselineName,
+      counts,
+      total: runs.length,
+      bar: statusBar(counts),
+      manifest: describeManifest(manifests.get(name)),
+    };
+  });
+  const buildIndex = new Map(buildNames.map((n, i) => [n, i]));
+
+  // Scenarios in the order of the runs (the suite's deterministic order).
+  const groups = new Map<string, RunResult[]>();
+  for (const run of results.runs) {
+    const key = `${run.scenario.id}\u0000${run.scenario.hash}`;
+    if (!groups.has(key)) groups.set(key, []);
+    (groups.get(key) as RunResult[]).push(run);
+  }
+  const anchors = new Map<string, string>();
+  const scenarios: ScenarioView[] = [];
+  const traces: { href: string; name: string }[] = [];
+  let index = 0;
+  for (const runs of groups.values()) {
+    const ref = runs[0].scenario;
+    const anchor = `scenario-${index + 1}-${ref.id.replace(/[^A-Za-z0-9_-]/g, '-')}`;
+    if (!anchors.has(ref.id)) anchors.set(ref.id, anchor);
+    scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, outDir: options.outDir, traces }));
+    index++;
+  }
+
+  const totals = { pass: 0, fail: 0, error: 0, runs: results.runs.length };
+  for (const r of results.runs) totals[r.status]++;
+
+  const titles = new Map(results.runs.map((r) => [r.scenario.id, r.scenario.title]));
+  const regressions: RegressionView[] = (gate?.rows ?? [])
+    .filter((r) => r.broken)
+    .map((r) => ({
+      anchor: anchors.get(r.scenario) ?? '',
+      scenario: r.scenario,
+      title: titles.get(r.scenario) ?? '',
+      builds: r.baselineBuild === r.candidateBuild ? r.baselineBuild : `${r.baselineBuild} → ${r.candidateBuild}`,
+      metric: r.metric,
+      baseline: formatGateValue(r.metric, r.baseline),
+      candidate: formatGateValue(r.metric, r.candidate),
+      change: r.change,
+      rule: r.rule ?? '(info)',
+      reason: r.reason ?? '',
+    }));
+
+  const machine = results.machine;
+  return {
+    title: `Footing report — ${results.runs.length} runs, ${buildNames.length} build${buildNames.length === 1 ? '' : 's'}`,
+    generatedAt: (options.generatedAt ?? new Date()).toISOString(),
+    results: {
+      toolVersion: results.toolVersion,
+      startedAt: results.startedAt,
+      machine: `${machine.cpuModel}, ${machine.cores} cores, ${machine.platform}/${machine.arch}, Node ${machine.nodeVersion}`,
+    },
+    baseline: baselineName === null ? null : { name: baselineName, explicit: explicitBaseline === baselineName },
+    builds,
+    totals,
+    gate: {
+      present: gate !== null,
+      verdict: gate ? gate.verdict : 'none',
+      headline: gate
+        ? gate.verdict === 'block'
+          ? `blocks: ${regressions.length} rule${regressions.length === 1 ? '' : 's'} broken in ${gate.compared} compared run${gate.compared === 1 ? '' : 's'}`
+          : `holds: no rule broken in ${gate.compared} compared run${gate.compared === 1 ? '' : 's'}`
+        : 'not applied',
+      against: gate ? gate.buildPairs.map(([b, c]) => `${b} → ${c}`).join(', ') : '',
+      regressions,
+      notComparable: (gate?.notComparable ?? []).map((n) => `${n.scenario} (${n.baselineBuild} → ${n.candidateBuild}): ${n.reason}`),
+      unpaired: (gate?.unpaired ?? []).map((u) => `${u.side} ${u.build}${u.scenario === null ? '' : ` ${u.scenario}`}: ${u.reason}`),
+      warnings: gate?.warnings ?? [],
+      problem: gateProblem ?? (baselineName === null ? 'one build only: nothing to compare' : null),
+      moved: (gate?.rows ?? []).filter((r) => !r.broken).length,
+    },
+    scenarios,
+    overviewAxes: { margin: marginAxis(), slip: slipAxis() },
+    bench: benchView(options.bench),
+    provenance: {
+      scenarios: scenarios.map((s) => ({ id: s.id, title: s.title, revision: s.revision, hash: s.hash, file: s.file, anchor: s.anchor })),
+      traces,
+    },
+    legend: { better: '▲', worse: '▼', same: '=' },
+  };
+}
+
+interface ScenarioContext {
+  buildNames: string[];
+  buildIndex: Map<string, number>;
+  baselineName: string | null;
+  gate: GateOutcome | null;
+  sourceDirs: string[];
+  outDir: string;
+  traces: { href: string; name: string }[];
+}
+
+function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: ScenarioContext): ScenarioView {
+  const ref = runs[0].scenario;
+  const baselineRun = runs.find((r) => r.build === ctx.baselineName) ?? null;
+  const loaded = runs.map((run) => ({ run, lookup: readSeriesFor(ctx.sourceDirs, ref.id, ref.hash, run.build) }));
+  const withSeries = loaded.filter((l) => l.lookup.series !== null).map((l) => ({ run: l.run, series: l.lookup.series as RunSeries }));
+  const tMax_s = Math.max(0.001, ...withSeries.map(({ series }) => series.t_s[series.t_s.length - 1] ?? 0));
+  let forceMax = 0;
+  for (const { series } of withSeries) for (const foot of series.feet) for (const v of foot.normalForce_N.max) if (v !== null) forceMax = Math.max(forceMax, v);
+  const forceMax_N = niceCeil(Math.max(forceMax, 1), 4);
+  const extent = floorExtent(withSeries.map((w) => w.series));
+  const definitionId = `floor-${index + 1}`;
+  const friction = withSeries[0]?.series.friction ?? null;
+  const regressionCount = ctx.gate?.rows.filter((r) => r.broken && r.scenario === ref.id).length ?? 0;
+
+  const views: RunView[] = loaded.map(({ run, lookup }) => {
+    const b = ctx.buildIndex.get(run.build) ?? 0;
+    const series = lookup.series;
+    let floor: ReturnType<typeof floorPlot> | null = null;
+    if (series) floor = floorPlot(series, extent, definitionId, `${definitionId}-clip-${b}`, run.metrics?.fell ?? false);
+    const traceHref = traceLink(run, ctx);
+    if (traceHref) ctx.traces.push({ href: traceHref, name: `${ref.id} × ${run.build}` });
+    const overBudget = series ? loopOver(series) : 0;
+    return {
+      build: run.build,
+      buildIndex: b,
+      swatch: buildSwatch(buildStyle(b)),
+      status: run.status,
+      glyph: STATUS_GLYPH[run.status],
+      reasons: run.reasons,
+      error: run.error
+        ? { message: run.error.message, reason: run.error.reason ?? '', time: run.error.time_s !== undefined ? `${label(run.error.time_s, 3)} s` : '', stderrTail: run.error.stderrTail ?? '' }
+        : null,
+      hasSeries: series !== null,
+      seriesProblem: lookup.series === null ? (run.metrics === null ? 'the run ended before its first tick' : lookup.problem) : null,
+      frictionUse: series ? frictionUsePlot(series, tMax_s) : null,
+      normalForce: series ? normalForcePlot(series, tMax_s, forceMax_N) : null,
+      floor: floor?.svg ?? null,
+      floorCaption: floor
+        ? `${series?.footholds.length ?? 0} footholds${series && series.dropped.footholds > 0 ? ` (+${series.dropped.footholds} not stored)` : ''}, ` +
+          `${floor.slipsTotal} slip segment${floor.slipsTotal === 1 ? '' : 's'}${floor.slipsTotal > floor.slipsDrawn ? ` (${floor.slipsDrawn} longest drawn)` : ''}` +
+          (floor.longest ? `; longest ${label(floor.longest.distance_m * 1000, 1)} mm (foot ${floor.longest.foot}, ${label(floor.longest.start_s, 2)} s, ringed)` : '')
+        : '',
+      governor: series ? series.governor.flatMap((g, k) => (governorAxisFlat(series, k) ? [] : [{ axis: g.axis, svg: governorPlot(series, k, tMax_s) }])) : [],
+      governorFlat: series ? series.governor.filter((_, k) => governorAxisFlat(series, k)).map((g) => g.axis).join(', ') : '',
+      loopTime: series && series.loopTime.ticks > 0 ? loopTimePlot(series) : null,
+      loopCaption: series ? `${series.loopTime.ticks} ticks, ${overBudget} over the ${label(series.loopTime.budget_us, 0)} µs budget` : '',
+      traceHref,
+      cells: metricCells(run, baselineRun, ctx.gate),
+      isBaseline: run.build === ctx.baselineName,
+    };
+  });
+  const byBuild = new Map(views.map((v) => [v.build, v]));
+  const styled = withSeries.map(({ run, series }) => ({ series, style: buildStyle(ctx.buildIndex.get(run.build) ?? 0) }));
+  const dots = (value: (r: RunResult) => number | null) =>
+    runs.map((r) => ({ value: r.metrics ? value(r) : null, style: buildStyle(ctx.buildIndex.get(r.build) ?? 0) }));
+  return {
+    anchor,
+    index,
+    id: ref.id,
+    title: ref.title,
+    revision: ref.revision,
+    hash: ref.hash,
+    hashShort: ref.hash.slice(0, 12),
+    file: ref.file,
+    open: regressionCount > 0,
+    regressionCount,
+    runs: views,
+    row: ctx.buildNames.map((name) => byBuild.get(name) ?? null),
+    floorDefinition: friction ? floorDefinition(friction, definitionId) : null,
+    muLegend: friction ? muLegend(materialMus(friction)) : null,
+    materials: friction ? describeMaterials(friction) : [],
+    slipOverlay: styled.length > 0 ? slipDistancePlot(styled, tMax_s) : null,
+    overview: { margin: marginDots(dots((r) => r.metrics?.frictionMargin.min ?? null)), slip: slipDots(dots((r) => r.metrics?.slipDistance_m ?? null)) },
+    hasGovernor: views.some((v) => v.governor.length > 0 || v.governorFlat !== ''),
+    duration: `${label(tMax_s, 2)} s`,
+  };
+}
+
+function loopOver(series: RunSeries): number {
+  const lt = series.loopTime;
+  let over = 0;
+  for (const [k, count] of lt.bins) if (lt.start_us * lt.ratio ** k >= lt.budget_us) over += count;
+  return over;
+}
+
+function traceLink(run: RunResult, ctx: ScenarioContext): string | null {
+  if (!run.trace) return null;
+  for (const dir of ctx.sourceDirs) {
+    const file = path.join(dir, run.trace);
+    if (!existsSync(file)) continue;
+    const relative = path.relative(ctx.outDir, file).split(path.sep).map(encodeURIComponent).join('/');
+    // Always a relative path (never a scheme), so the link stays a local file link.
+    return relative.startsWith('.') ? relative : `./${relative}`;
+  }
+  return null;
+}
+
+function materialMus(map: RunSeries['friction']): number[] {
+  const mus = new Set<number>([map.default.staticFriction, ...map.patches.map((p) => p.material.staticFriction)]);
+  if (map.raster) for (const column of map.raster.staticFriction) for (const v of column) mus.add(v);
+  return [...mus].sort((a, b) => a - b).slice(0, 24);
+}
+
+function describeMaterials(map: RunSeries['friction']): { name: string; mu: string; kind: string }[] {
+  const out = [{ name: map.default.name, mu: label(map.default.staticFriction, 3), kind: 'floor' }];
+  if (map.raster) {
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const column of map.raster.staticFriction) for (const v of column) {
+      lo = Math.min(lo, v);
+      hi = Math.max(hi, v);
+    }
+    const nx = map.raster.staticFriction.length;
+    const ny = nx > 0 ? map.raster.staticFriction[0].length : 0;
+    out.push({ name: `raster ${nx} × ${ny} cells of ${label(map.raster.cell_m, 3)} m`, mu: lo === hi ? label(lo, 3) : `${label(lo, 3)}–${label(hi, 3)}`, kind: 'raster' });
+  }
+  for (const p of map.patches) out.push({ name: p.name, mu: label(p.material.staticFriction, 3), kind: p.shape.kind });
+  return out;
+}
+
+function orderedBuilds(results: ResultsFile): string[] {
+  const names = results.builds.map((b) => b.name).filter((n) => results.runs.some((r) => r.build === n));
+  for (const r of results.runs) if (!names.includes(r.build)) names.push(r.build);
+  return names;
+}
+
+function describeManifest(m: BuildManifest | undefined): BuildView['manifest'] {
+  if (!m) return { kind: '', entry: '', commit: 'unknown', dirty: '', extra: '' };
+  const { name: _name, kind, entry, commit, dirty, git: _git, ...rest } = m as BuildManifest & { git?: unknown };
+  const extra = Object.entries(rest)
+    .filter(([, v]) => v !== undefined && v !== null && !(Array.isArray(v) && v.length === 0) && !(typeof v === 'object' && !Array.isArray(v) && Object.keys(v as object).length === 0))
+    .map(([k, v]) => `${k}: ${typeof v === 'string' ? v : JSON.stringify(v)}`)
+    .join('; ');
+  return {
+    kind: kind ?? '',
+    entry: entry ?? '',
+    commit: typeof commit === 'string' ? commit : 'not in a git checkout',
+    dirty: dirty === true ? 'uncommitted changes' : dirty === false ? 'clean' : '',
+    extra,
+  };
+}
+
+/** A proportional pass/fail/error bar (the counts are printed beside it, so colour is not needed). */
+function statusBar(counts: Record<RunStatus, number>): SvgMarkup {
+  const total = counts.pass + counts.fail + counts.error;
+  const width = 160;
+  let x = 0;
+  let out = `<svg class="status-bar" viewBox="0 0 ${width} 12" width="${width}" height="12" aria-hidden="true">`;
+  const fills: Record<RunStatus, string> = { pass: '#009E73', fail: '#D55E00', error: 'url(#hatch-error)' };
+  for (const status of ['pass', 'fail', 'error'] as RunStatus[]) {
+    if (total === 0 || counts[status] === 0) continue;
+    const w = (counts[status] / total) * width;
+    out += `<rect x="${x.toFixed(1)}" y="0" width="${w.toFixed(1)}" height="12" fill="${fills[status]}" stroke="#fff" stroke-width="1"/>`;
+    x += w;
+  }
+  return asSvg(out + '</svg>');
+}

@@ -1,0 +1,27 @@
+// SVG text helpers. Plot markup is assembled from numbers only; the one function that may put
+// text into SVG is escapeXml, and every text it receives in this project is our own (axis units)
+// or a number. SvgMarkup marks strings built this way so templates can inline them.
+
+export type SvgMarkup = string & { readonly __svgFromNumbers: true };
+
+export const asSvg = (markup: string): SvgMarkup => markup as SvgMarkup;
+
+/** A coordinate with one decimal, no "-0", no exponent (px resolution is plenty). */
+export function num(value: number): string {
+  if (!Number.isFinite(value)) return '0';
+  const rounded = Math.round(value * 10) / 10;
+  return rounded === 0 ? '0' : String(rounded);
+}
+
+const XML_ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
+
+/** Escapes text for SVG/XML content and attribute values. */
+export function escapeXml(text: string): string {
+  return text.replace(/[&<>"']/g, (c) => XML_ESCAPES[c]);
+}
+
+/** Label text for a number: up to `decimals` decimals, trailing zeros dropped, true minus sign. */
+export function label(value: number, decimals = 2): string {
+  const text = Number(value.toFixed(decimals)).toString();
+  return text.startsWith('-') ? `−${text.slice(1)}` : text;
+}

@@ -1,0 +1,135 @@
+// The report in a real browser: Debian's chromium driven by playwright-core, the page opened from
+// file:// as an engineer would open it on an air-gapped lab machine.
+import { existsSync, mkdirSync, mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { HOSTILE_STDERR, HOSTILE_TITLE, smallRun } from './support.js';
+
+const CHROMIUM = '/usr/bin/chromium';
+const ARTIFACTS = 'test/.artifacts';
+const available = existsSync(CHROMIUM);
+const inCI = process.env.CI === 'true';
+
+if (!available) {
+  const message = `\n${'!'.repeat(78)}\n!! ${CHROMIUM} is missing: the report's browser test is ${inCI ? 'FAILING (CI=true)' : 'SKIPPED'}.\n!! Install it with: apt-get install -y chromium\n${'!'.repeat(78)}\n`;
+  console.warn(message);
+}
+
+describe('report without a browser', () => {
+  it.runIf(!available && inCI)('fails in CI when chromium is not installed', () => {
+    expect.fail(`${CHROMIUM} not found; .ci/run installs it with apt-get install -y chromium`);
+  });
+});
+
+describe.skipIf(!available)('report in headless chromium', () => {
+  let context: BrowserContext;
+  let page: Page;
+  let url: string;
+  const consoleErrors: string[] = [];
+  const requests: string[] = [];
+
+  beforeAll(async () => {
+    const { dir } = await smallRun();
+    url = pathToFileURL(path.join(dir, 'report.html')).href;
+    context = await chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), 'footing-chromium-')), {
+      executablePath: CHROMIUM,
+      headless: true,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync', '--disable-quic'],
+      viewport: { width: 1400, height: 1000 },
+    });
+    page = await context.newPage();
+    page.on('console', (message) => {
+      if (message.type() === 'error') consoleErrors.push(message.text());
+    });
+    page.on('pageerror', (error) => consoleErrors.push(String(error)));
+    page.on('dialog', (dialog) => {
+      consoleErrors.push(`dialog opened: ${dialog.message()}`);
+      void dialog.dismiss();
+    });
+    page.on('request', (request) => requests.push(request.url()));
+    await page.goto(url, { waitUntil: 'load' });
+  });
+
+  afterAll(async () => {
+    await context?.close();
+  });
+
+  it('loads with no console error, no script dialog and no network request besides the file itself', async () => {
+    expect(consoleErrors).toEqual([]);
+    expect(requests).toEqual([url]);
+  });
+
+  it('names every build and every scenario in the verdict and the matrix', async () => {
+    const verdict = await page.locator('#verdict').innerText();
+    const matrix = await page.locator('#matrix').innerText();
+    for (const build of ['nominal', 'governed', 'broken']) {
+      expect(verdict).toContain(build);
+      expect(matrix).toContain(build);
+    }
+    for (const id of ['shaped-floor', 'hostile-title']) expect(matrix).toContain(id);
+  });
+
+  it('shows the hostile title and the build stderr as text', async () => {
+    expect(await page.locator('details.scenario summary .scenario-title').allInnerTexts()).toContain(HOSTILE_TITLE);
+    await page.evaluate(() => document.querySelectorAll<HTMLDetailsElement>('details').forEach((d) => (d.open = true)));
+    const stderr = await page.locator('pre.stderr').first().textContent();
+    expect(stderr?.trim()).toBe(HOSTILE_STDERR);
+    // Nothing from user text became an element.
+    expect(await page.locator('main script, main img, main b').count()).toBe(0);
+  });
+
+  it('draws every plot with a non-empty path', async () => {
+    const plots = await page.locator('svg.plot').evaluateAll((svgs) =>
+      svgs.map((svg) => {
+        const paths = [...svg.querySelectorAll('path.series, path.footholds, path.trunk')];
+        return { kind: svg.getAttribute('class'), drawn: paths.some((p) => (p.getAttribute('d') ?? '').length > 3 && (p as SVGPathElement).getTotalLength() >= 0) };
+      }),
+    );
+    expect(plots.length).toBeGreaterThan(10);
+    for (const plot of plots) expect(plot, `${plot.kind}`).toEqual({ kind: plot.kind, drawn: true });
+    // The floor panels place the scenario's friction map (a <use> of its definition) and it renders.
+    const floorBoxes = await page.locator('svg.plot.floor use').evaluateAll((uses) => uses.map((u) => (u as SVGGraphicsElement).getBBox().width));
+    expect(floorBoxes.length).toBeGreaterThan(0);
+    expect(floorBoxes.some((w) => w > 0)).toBe(true);
+  });
+
+  it('collapses and opens a scenario section by its summary', async () => {
+    const section = page.locator('details.scenario').first();
+    await page.evaluate(() => document.querySelectorAll<HTMLDetailsElement>('details.scenario').forEach((d) => (d.open = false)));
+    await section.locator(':scope > summary').click();
+    expect(await section.evaluate((d) => (d as HTMLDetailsElement).open)).toBe(true);
+    expect(await section.locator('svg.plot').first().isVisible()).toBe(true);
+    await section.locator(':scope > summary').click();
+    expect(await section.evaluate((d) => (d as HTMLDetailsElement).open)).toBe(false);
+    expect(await section.locator('svg.plot').first().isVisible()).toBe(false);
+  });
+
+  it('filters a build out and back in', async () => {
+    const header = page.locator('#matrix thead th[data-build="1"]');
+    expect(await header.isVisible()).toBe(true);
+    await page.locator('input[data-filter="1"]').uncheck();
+    expect(await header.isVisible()).toBe(false);
+    await page.locator('input[data-filter="1"]').check();
+    expect(await header.isVisible()).toBe(true);
+  });
+
+  it('opens the linked scenario from the regression list', async () => {
+    await page.locator('button[data-action="collapse"]').click();
+    const link = page.locator('table.regressions a').first();
+    const target = (await link.getAttribute('href'))?.slice(1) ?? '';
+    await link.click();
+    expect(await page.locator(`[id="${target}"]`).evaluate((d) => (d as HTMLDetailsElement).open)).toBe(true);
+  });
+
+  it('saves a screenshot of the page with every section open', async () => {
+    mkdirSync(ARTIFACTS, { recursive: true });
+    await page.locator('button[data-action="expand"]').click();
+    await page.evaluate(() => window.scrollTo(0, 0));
+    const file = path.join(ARTIFACTS, 'report.png');
+    await page.screenshot({ path: file, fullPage: true });
+    expect(existsSync(file)).toBe(true);
+  });
+});
