@@ -87,6 +87,12 @@ export function parseBuildSpec(text: string, cwd: string): BuildSpec {
   // Only ref: specs may omit the name, so name is set from here on.
   const buildName = name as string;
 
+  if (body.startsWith('git:')) {
+    // Resolved before parsing, by the config layer (harness/config/builds.ts), which knows the
+    // repository, the build command and the entry; reaching here means there was no config.
+    fail(`git:REF builds need a recipe (repository, build command, entry) from footing.config.yaml's \`git\` section; see docs/config.md`);
+  }
+
   if (body.startsWith('exec:')) {
     const tokens = splitArguments(body.slice(5), fail);
     let options: Record<string, BuildOptionValue> = {};

@@ -20,6 +20,14 @@ export interface GateRules {
   allowLoopTimeOverBudget: boolean;
   /** Allowed drop of a governor update rate (bench data; validated, not applied to run results). */
   governorRateDrop: number;
+  /** Allowed rise of margin.friction.criticalScale (footing margin): the build needing more grip. */
+  criticalFrictionScaleRise: number;
+  /** Allowed drop of margin.push.criticalScale (footing margin). */
+  criticalPushScaleDrop: number;
+  /** A family's success rate may drop by this much before a supported drop blocks (0: any). */
+  familySuccessRateDrop: number;
+  /** Confidence of the family drop test (Newcombe 1998 interval), e.g. 0.95. */
+  familyConfidence: number;
 }
 
 export const GATE_RULE_NAMES = [
@@ -32,6 +40,10 @@ export const GATE_RULE_NAMES = [
   'loopTimeP99GrowthFraction',
   'allowLoopTimeOverBudget',
   'governorRateDrop',
+  'criticalFrictionScaleRise',
+  'criticalPushScaleDrop',
+  'familySuccessRateDrop',
+  'familyConfidence',
 ] as const satisfies readonly (keyof GateRules)[];
 
 export const DEFAULT_GATE_RULES: Readonly<GateRules> = Object.freeze({
@@ -49,6 +61,15 @@ export const DEFAULT_GATE_RULES: Readonly<GateRules> = Object.freeze({
   loopTimeP99GrowthFraction: 0.25,
   allowLoopTimeOverBudget: false,
   governorRateDrop: 0.3,
+  // Three times the margin search's default tolerance (0.01): two searches that each land within a
+  // tolerance of the same boundary never trip it, a build that needs 3 % more grip does.
+  criticalFrictionScaleRise: 0.03,
+  // Five tolerances of the push search: a push bracket spans a wider range (0–3) than friction's,
+  // so it gets a little more slack (common practice, not a measured spread).
+  criticalPushScaleDrop: 0.05,
+  familySuccessRateDrop: 0,
+  // The usual two-sided 95 % of reporting practice (common practice).
+  familyConfidence: 0.95,
 });
 
 export interface GatePolicy {

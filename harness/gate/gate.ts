@@ -4,6 +4,8 @@
 import type { ResultsFile } from '../run/results/types.js';
 import { rulesFor, type GatePolicy } from './defaults.js';
 import { pairRuns } from './pairing.js';
+import { compareFamilies } from './familyRules.js';
+import { compareMargins } from './marginRules.js';
 import { compareRuns } from './rules.js';
 import { GateInputError, type GateOutcome, type GateRow } from './types.js';
 
@@ -18,17 +20,26 @@ export interface GateInput {
 export function gate(input: GateInput): GateOutcome {
   const pairing = pairRuns(input.baseline, input.candidate, input.pairs);
   const rows: GateRow[] = [];
-  for (const pair of pairing.pairs) rows.push(...compareRuns(pair, rulesFor(input.policy, pair.baseline.scenario.id)));
+  for (const pair of pairing.pairs) {
+    // A family's samples are judged together by their success rate (familyRules.ts): one sample
+    // failing where its twin passed is within the family's noise, not a regression by itself.
+    if (pair.baseline.scenario.family) continue;
+    const rules = rulesFor(input.policy, pair.baseline.scenario.id);
+    rows.push(...compareRuns(pair, rules), ...compareMargins(pair, rules));
+  }
+  const families = compareFamilies(input.baseline, input.candidate, pairing.buildPairs, input.policy);
+  rows.push(...families.rows);
   // Stable sort: broken rows first, otherwise in pairing order (scenario order of the baseline).
   const ordered = [...rows.filter((r) => r.broken), ...rows.filter((r) => !r.broken)];
   const comparedIds = new Set(pairing.pairs.map((p) => p.baseline.scenario.id));
+  for (const r of families.rows) comparedIds.add(r.scenario);
   const warnings = Object.keys(input.policy.overrides)
     .filter((id) => !comparedIds.has(id))
     .map((id) => `policy override for scenario "${id}" matched no compared run`);
   return {
     verdict: rows.some((r) => r.broken) ? 'block' : 'hold',
     rows: ordered,
-    notComparable: pairing.notComparable,
+    notComparable: [...pairing.notComparable, ...families.notComparable],
     unpaired: pairing.unpaired,
     compared: pairing.pairs.length,
     buildPairs: pairing.buildPairs,

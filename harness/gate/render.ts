@@ -11,6 +11,9 @@ const DECIMALS: Record<string, number> = {
   'loopTime_us.p99': 1,
   trackingRms_m: 4,
   progress: 3,
+  'margin.criticalFrictionScale': 3,
+  'margin.criticalPushScale': 3,
+  'family.successRate': 2,
 };
 
 export function formatGateValue(metric: string, value: GateValue): string {

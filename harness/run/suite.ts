@@ -28,9 +28,23 @@ export type ExitCode = (typeof EXIT)[keyof typeof EXIT];
 export const DEFAULT_SCENARIO_PATHS = ['scenarios'];
 export const RUNS_FOLDER = 'runs';
 
+/**
+ * A build resolved before the suite (e.g. from a git ref, harness/builds/git.ts): its spec, the
+ * manifest fields to record for it, or why it could not be prepared — then each of its runs is an
+ * `error` run carrying that message and output tail, and the other builds run as usual.
+ */
+export interface PreparedBuild {
+  spec: BuildSpec;
+  manifest?: Record<string, unknown>;
+  failure?: { message: string; outputTail: string };
+}
+
 export interface SuiteRunOptions {
   paths?: string[];
-  builds: string[];
+  /** Spec texts (`--build`) or builds prepared elsewhere, in the order results list them. */
+  builds: (string | PreparedBuild)[];
+  /** Replaces every scenario's control.loopBudget_us (a machine's budget, not the scenario's content). */
+  loopBudget_us?: number;
   outDir: string;
   trace?: boolean;
   traceEveryNth?: number;
@@ -38,6 +52,8 @@ export interface SuiteRunOptions {
   shard?: string;
   baseline?: string;
   policyFile?: string;
+  /** A policy already loaded (e.g. inline in footing.config.yaml); policyFile wins when both are given. */
+  policy?: GatePolicy;
   resume?: boolean;
   quiet?: boolean;
   /** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
@@ -80,8 +96,13 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   // Builds.
   if (options.builds.length === 0) return badInput('footing run: no build given (use --build SPEC, e.g. --build ref:governed)');
   let specs: BuildSpec[];
+  const prepared = new Map<string, PreparedBuild>();
   try {
-    specs = options.builds.map((text) => parseBuildSpec(text, cwd));
+    specs = options.builds.map((item) => {
+      if (typeof item === 'string') return parseBuildSpec(item, cwd);
+      prepared.set(item.spec.name, item);
+      return item.spec;
+    });
   } catch (error) {
     if (error instanceof BuildSpecError) return badInput(error.message);
     throw error;
@@ -94,7 +115,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   if (options.baseline !== undefined && !names.has(options.baseline)) {
     return badInput(`--baseline ${options.baseline}: no build of that name (builds: ${[...names].join(', ')})`);
   }
-  let policy: GatePolicy = defaultPolicy();
+  let policy: GatePolicy = options.policy ?? defaultPolicy();
   if (options.policyFile) {
     try {
       policy = loadPolicy(path.resolve(cwd, options.policyFile));
@@ -113,6 +134,9 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   }
   for (const file of suite.files) for (const issue of file.warnings) log(`warning: ${formatIssue(issue)}`);
   if (suite.scenarios.length === 0) return badInput('footing run: no scenarios found');
+  if (options.loopBudget_us !== undefined) {
+    for (const scenario of suite.scenarios) scenario.control.loopBudget_us = options.loopBudget_us;
+  }
 
   // Pairs, in a deterministic order: scenarios by file then id (merge.ts sorts the same way),
   // builds as given.
@@ -148,13 +172,18 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   const pending: Pair[] = [];
   for (const pair of pairs) {
     const previous = saved.get(pair.key);
-    if (previous && previous.scenario.hash === pair.scenario.hash && previous.build === pair.build.name) results.set(pair.key, previous);
+    // A build that could not be prepared last time is tried again, not resumed as an error.
+    const reusable = previous && previous.error?.reason !== 'build-failed';
+    if (reusable && previous.scenario.hash === pair.scenario.hash && previous.build === pair.build.name) results.set(pair.key, previous);
     else pending.push(pair);
   }
   if (options.resume) log(`resuming: ${results.size} of ${pairs.length} runs already complete in ${options.outDir}`);
 
   const manifests: BuildManifest[] = await Promise.all(
     specs.map(async (spec) => {
+      const given = prepared.get(spec.name);
+      if (given?.manifest) return { name: spec.name, ...given.manifest };
+      if (given?.failure) return { name: spec.name, kind: spec.kind, entry: spec.entry, commit: null, dirty: null };
       const manifest = await buildManifest(spec);
       return { ...manifest, commit: manifest.git?.commit ?? null, dirty: manifest.git?.dirty ?? null };
     }),
@@ -169,14 +198,19 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
       pending.map(async (pair) => {
         const started = performance.now();
         let result: RunResult;
-        try {
-          result = await pool.run(
-            { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth },
-            timeout.base_s + timeout.perSimulatedSecond * pair.scenario.duration_s,
-          );
-        } catch (error) {
-          const reason = error instanceof RunTimeoutError ? 'run-timeout' : 'worker';
-          result = createErrorRunResult(pair.scenario, pair.build.name, { message: (error as Error).message, reason });
+        const failure = prepared.get(pair.build.name)?.failure;
+        if (failure) {
+          result = createErrorRunResult(pair.scenario, pair.build.name, { message: failure.message, reason: 'build-failed', stderrTail: failure.outputTail });
+        } else {
+          try {
+            result = await pool.run(
+              { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth },
+              timeout.base_s + timeout.perSimulatedSecond * pair.scenario.duration_s,
+            );
+          } catch (error) {
+            const reason = error instanceof RunTimeoutError ? 'run-timeout' : 'worker';
+            result = createErrorRunResult(pair.scenario, pair.build.name, { message: (error as Error).message, reason });
+          }
         }
         writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(result)}\n`);
         results.set(pair.key, result);

@@ -12,6 +12,7 @@ import { fillScenarioDefaults, resolveRobot, type InlinedReferences } from './de
 import { ROBOT_FORMAT, SCENARIO_FORMAT, type RobotFile, type ScenarioFile } from './format.js';
 import { list, num, rec } from './guards.js';
 import { formatIssue, kindOf, showValue, type Finding, type LoadResult, type ScenarioIssue } from './issue.js';
+import { expandFamily, type FamilyFile } from './family.js';
 import { expandMatrix } from './matrix.js';
 import { CURRENT_ROBOT_VERSION, CURRENT_SCENARIO_VERSION, migrateScenario, type PathMap } from './migrate.js';
 import { displayPath, isInside, resolveReference, suiteRelative } from './paths.js';
@@ -227,13 +228,16 @@ async function loadScenario(text: string, ctx: Context): Promise<LoadResult> {
     }
   });
   if (errors.length) return { ok: false, errors: sortIssues(errors, ctx.display) };
-  return { ok: true, scenarios: perInstance.map((r) => r.scenario!), warnings: sortIssues(warnings, ctx.display) };
+  // A family instance stands for its samples (family.ts); every other instance for itself.
+  return { ok: true, scenarios: perInstance.flatMap((r) => r.family ?? [r.scenario!]), warnings: sortIssues(warnings, ctx.display) };
 }
 
 interface InstanceResult {
   errors: ScenarioIssue[];
   warnings: ScenarioIssue[];
   scenario?: ResolvedScenario;
+  /** The samples, when the instance declares a `family:` block. */
+  family?: ResolvedScenario[];
 }
 
 /** `blocked`: the file already has errors (e.g. non-finite numbers), so check but do not resolve. */
@@ -291,6 +295,11 @@ async function loadInstance(data: Record<string, unknown>, ctx: Context, locate:
   const hash = scenarioHash(content);
   const { id, revision, title, ...rest } = content;
   const scenario: ResolvedScenario = { id, revision, title, file: suiteRelative(ctx.absolute, ctx.suiteRoot), hash, ...rest };
+  if (isRecord(data.family)) {
+    const expanded = expandFamily(scenario, data.family as unknown as FamilyFile);
+    if (!expanded.ok) return { errors: [...errors, ...expanded.errors.map(locate)], warnings };
+    return { errors, warnings, scenario, family: expanded.scenarios };
+  }
   return { errors, warnings, scenario };
 }
 

@@ -36,6 +36,21 @@ export interface ControlParams {
   loopBudget_us: number;
 }
 
+/**
+ * Where a scenario came from when it is one sample of a seeded family (`family:` in the file,
+ * harness/scenario/family.ts). Part of the content, so it enters the hash.
+ */
+export interface FamilyMembership {
+  /** The family's id: the id written in the file (after matrix substitution). */
+  id: string;
+  /** 1-based sample number. */
+  sample: number;
+  /** Number of samples in the family. */
+  samples: number;
+  /** The drawn parameter values, by parameter name (docs/margin.md). */
+  params: Record<string, number>;
+}
+
 export interface ResolvedScenario {
   id: string;
   revision: number;
@@ -52,4 +67,6 @@ export interface ResolvedScenario {
   sensing: Sensing;
   acceptance: Acceptance;
   tags: string[];
+  /** Present only on the samples of a seeded family. */
+  family?: FamilyMembership;
 }

@@ -3,6 +3,7 @@
 
 import { readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
+import { migrateResults } from './migrate.js';
 import { RESULTS_FILE_NAME, type ResultsFile } from './types.js';
 import { formatResultsIssues, validateResults } from './validate.js';
 
@@ -48,7 +49,8 @@ export function readResultsFile(path: string): { file: string; results: ResultsF
   } catch (error) {
     throw new ResultsReadError(file, `${file}: not valid JSON (${(error as Error).message})`);
   }
-  const validation = validateResults(value);
+  // Older formats are migrated in memory; the file on disk is never rewritten.
+  const validation = validateResults(migrateResults(value).value);
   if (!validation.ok) {
     throw new ResultsReadError(file, `${file}: not a Footing results file:\n${formatResultsIssues(file, validation.issues)}`);
   }

@@ -3,6 +3,7 @@
 
 import { availableParallelism, cpus } from 'node:os';
 import type { ResolvedScenario } from '../../scenario/types.js';
+import { summarizeFamilies } from '../../margin/familySummary.js';
 import { evaluateAcceptance } from '../../score/acceptance.js';
 import type { RunMetrics } from '../../score/types.js';
 import {
@@ -17,13 +18,15 @@ import {
 } from './types.js';
 
 export function scenarioRef(scenario: ResolvedScenario): ScenarioRef {
-  return {
+  const ref: ScenarioRef = {
     id: scenario.id,
     revision: scenario.revision,
     hash: scenario.hash,
     file: scenario.file,
     title: scenario.title,
   };
+  if (scenario.family) ref.family = scenario.family;
+  return ref;
 }
 
 export function createRunResult(
@@ -78,13 +81,18 @@ export function createResultsFile(header: {
   runs?: RunResult[];
 }): ResultsFile {
   const startedAt = header.startedAt ?? new Date();
-  return {
+  const runs = header.runs ?? [];
+  const results: ResultsFile = {
     format: RESULTS_FORMAT,
     formatVersion: RESULTS_FORMAT_VERSION,
     toolVersion: header.toolVersion,
     startedAt: typeof startedAt === 'string' ? startedAt : startedAt.toISOString(),
     machine: header.machine ?? describeMachine(),
     builds: header.builds,
-    runs: header.runs ?? [],
+    runs,
   };
+  // Family scores are derived from the runs held, so a shard or a merge summarises what it has.
+  const families = summarizeFamilies(runs);
+  if (families.length > 0) results.families = families;
+  return results;
 }

@@ -2,10 +2,13 @@
 // tool, machine and builds. JSON Schema: results.schema.json (validate.ts). Bump
 // RESULTS_FORMAT_VERSION on any incompatible change.
 
+import type { FamilySummary, RunMargin } from '../../margin/types.js';
+import type { FamilyMembership } from '../../scenario/types.js';
 import type { ScoreMetrics, SimMetrics } from '../../score/types.js';
 
 export const RESULTS_FORMAT = 'footing-results';
-export const RESULTS_FORMAT_VERSION = 1;
+/** 2 added the optional run `margin`, scenario `family` and top-level `families` (migrate.ts reads 1). */
+export const RESULTS_FORMAT_VERSION = 2;
 export const RESULTS_FILE_NAME = 'results.json';
 
 export interface ScenarioRef {
@@ -14,6 +17,8 @@ export interface ScenarioRef {
   hash: string;
   file: string;
   title: string;
+  /** Present when the scenario is one sample of a seeded family. */
+  family?: FamilyMembership;
 }
 
 export type RunStatus = 'pass' | 'fail' | 'error';
@@ -41,6 +46,8 @@ export interface RunResult {
   metrics: ScoreMetrics | null;
   /** Trace CSV path relative to the results folder, with --trace. */
   trace?: string;
+  /** Critical friction and push scales, written by `footing margin` (docs/margin.md). */
+  margin?: RunMargin;
 }
 
 /** Kept loose on purpose: the build layer owns the fields beyond `name`. */
@@ -70,4 +77,6 @@ export interface ResultsFile {
   machine: MachineInfo;
   builds: BuildManifest[];
   runs: RunResult[];
+  /** One summary per (family, build) when the runs include family samples. */
+  families?: FamilySummary[];
 }
