@@ -6,6 +6,7 @@ import { checkPaths } from '../scenario/index.js';
 import { runGate } from '../gate/runGate.js';
 import { DEFAULT_SCENARIO_PATHS, EXIT, runSuite } from '../run/suite.js';
 import { mergeResults } from '../run/merge.js';
+import { runReportCommand } from '../report/command.js';
 import { TOOL_VERSION } from '../version.js';
 
 /** What `footing run` replays when no --build is given: the four reference controllers. */
@@ -98,7 +99,27 @@ export async function main(argv: string[]): Promise<number> {
         exitCode = outcome.exitCode;
       },
     )
-    .demandCommand(1, 'name a command: run, check, gate, merge (footing --help lists them)')
+    .command(
+      'report <results..>',
+      're-render the HTML report from saved results (and their series/traces) without re-running',
+      (y: Argv) =>
+        y
+          .positional('results', { type: 'string', array: true, demandOption: true, describe: 'results.json files or results folders' })
+          .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'HTML file to write' })
+          .option('baseline', { type: 'string', describe: 'build to compare the others with' })
+          .option('bench', { type: 'string', describe: 'bench JSON (footing bench --json) to show' }),
+      async (args) => {
+        const outcome = await runReportCommand({
+          results: args.results as string[],
+          out: args.out as string,
+          baseline: args.baseline as string | undefined,
+          bench: args.bench as string | undefined,
+        });
+        for (const line of outcome.lines) (outcome.exitCode === 2 ? printError : print)(line);
+        exitCode = outcome.exitCode;
+      },
+    )
+    .demandCommand(1, 'name a command: run, check, gate, merge, report (footing --help lists them)')
     .strict()
     .version(TOOL_VERSION)
     .help()

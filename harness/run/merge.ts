@@ -45,7 +45,7 @@ export function mergeResults(dirs: string[], outDir: string): { exitCode: ExitCo
   try {
     const sets = dirs.map((dir) => readResultsFile(dir));
     const merged = mergeResultSets(sets);
-    writeOutputs(path.resolve(outDir), merged);
+    writeOutputs(path.resolve(outDir), merged, { sourceDirs: dirs.map((dir) => path.resolve(dir)) });
     const failed = merged.runs.some((r) => r.status !== 'pass');
     return { exitCode: failed ? EXIT.fail : EXIT.pass, lines: [`merged ${dirs.length} result sets, ${merged.runs.length} runs → ${outDir}`] };
   } catch (error) {

@@ -3,7 +3,7 @@
 
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
-import { renderReportHtml } from '../report/index.js';
+import { renderReportHtml, type ReportOptions } from '../report/index.js';
 import { writeFileAtomicSync } from './atomic.js';
 import { writeJunitXml } from './results/writeJunit.js';
 import { writeResultsJson } from './results/writeJson.js';
@@ -18,7 +18,10 @@ export const OUTPUT_FILES = {
   gate: 'gate.md',
 } as const;
 
-export function writeOutputs(outDir: string, results: ResultsFile): string[] {
+/** Report options beyond the folder (baseline build, gate outcome, policy, shard folders). */
+export type OutputOptions = Omit<ReportOptions, 'outDir'>;
+
+export function writeOutputs(outDir: string, results: ResultsFile, report: OutputOptions = {}): string[] {
   mkdirSync(outDir, { recursive: true });
   const written = [
     path.join(outDir, OUTPUT_FILES.results),
@@ -29,6 +32,6 @@ export function writeOutputs(outDir: string, results: ResultsFile): string[] {
   writeResultsJson(written[0], results);
   writeJunitXml(written[1], results);
   writeSummaryMarkdown(written[2], results);
-  writeFileAtomicSync(written[3], renderReportHtml(results, { outDir }));
+  writeFileAtomicSync(written[3], renderReportHtml(results, { ...report, outDir }));
   return written;
 }

@@ -224,17 +224,17 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
 
   const ordered = pairs.map((pair) => results.get(pair.key) as RunResult);
   const resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs: ordered });
-  writeOutputs(outDir, resultsFile);
+  // The gate runs first so that the report shows the gate's own regression list.
+  const gateOutcome = options.baseline !== undefined ? gateWithinResults(resultsFile, options.baseline, policy) : undefined;
+  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy });
 
   let exitCode: ExitCode = ordered.every((r) => r.status === 'pass') ? EXIT.pass : EXIT.fail;
   const counts = countStatuses(ordered);
   log(`${ordered.length} runs: ${counts.pass} pass, ${counts.fail} fail, ${counts.error} error — ${path.relative(cwd, outDir) || '.'}/${OUTPUT_FILES.report}`);
-  if (options.baseline !== undefined) {
-    const outcome = gateWithinResults(resultsFile, options.baseline, policy);
-    const markdown = renderGateMarkdown(outcome);
-    writeFileAtomicSync(path.join(outDir, OUTPUT_FILES.gate), markdown);
-    log(`gate against ${options.baseline}: ${outcome.verdict === 'hold' ? 'holds' : 'BLOCKS'} (${path.relative(cwd, path.join(outDir, OUTPUT_FILES.gate))})`);
-    if (outcome.verdict === 'block') exitCode = EXIT.fail;
+  if (gateOutcome) {
+    writeFileAtomicSync(path.join(outDir, OUTPUT_FILES.gate), renderGateMarkdown(gateOutcome));
+    log(`gate against ${options.baseline}: ${gateOutcome.verdict === 'hold' ? 'holds' : 'BLOCKS'} (${path.relative(cwd, path.join(outDir, OUTPUT_FILES.gate))})`);
+    if (gateOutcome.verdict === 'block') exitCode = EXIT.fail;
   }
   return { exitCode, results: resultsFile, lines };
 }
