@@ -4,14 +4,52 @@
 import yargs, { type Argv } from 'yargs';
 import { checkPaths } from '../scenario/index.js';
 import { runGate } from '../gate/runGate.js';
-import { DEFAULT_SCENARIO_PATHS, EXIT, runSuite } from '../run/suite.js';
+import { DEFAULT_SCENARIO_PATHS, EXIT } from '../run/suite.js';
 import { mergeResults } from '../run/merge.js';
 import { runReportCommand } from '../report/command.js';
+import { runMarginCommand } from '../margin/command.js';
+import { clearCache, printConfig, runConfiguredSuite } from '../config/commands.js';
+import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../config/defaults.js';
+import type { RunFlags } from '../config/resolve.js';
 import { TOOL_VERSION } from '../version.js';
 
-/** What `footing run` replays when no --build is given: the four reference controllers. */
-export const DEFAULT_BUILDS = ['ref:nominal', 'ref:governed', 'ref:clamped', 'ref:qp'];
-export const DEFAULT_OUT_DIR = 'reports/out/latest';
+/** What `footing run` replays when neither --build nor footing.config.yaml names builds. */
+export { DEFAULT_BUILDS, DEFAULT_OUT_DIR };
+
+/** The options `run` and `config --print` share: what decides the resolved settings. */
+function settingOptions(y: Argv): Argv {
+  return y
+    .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' })
+    .option('suite', { alias: 's', type: 'string', describe: 'run a named suite of the config file' })
+    .option('build', { alias: 'b', type: 'string', array: true, describe: `build spec: NAME=module.js, NAME=exec:program args…, ref:ID, NAME=git:REF, or a config build's name (repeatable; default: the config's builds, else ${DEFAULT_BUILDS.join(' ')})` })
+    .option('out', { alias: 'o', type: 'string', describe: `results folder (default: the config's out, else ${DEFAULT_OUT_DIR})` })
+    .option('jobs', { alias: 'j', type: 'number', describe: 'parallel runs (default: the config\'s jobs, else the core count)' })
+    .option('baseline', { type: 'string', describe: 'gate every other build against this one (writes gate.md)' })
+    .option('policy', { type: 'string', describe: 'gate policy YAML (default: the config\'s gate, else docs/scoring.md)' })
+    .option('trace', { type: 'boolean', describe: 'write traces/<scenario>__<build>.csv' })
+    .option('loop-budget', { type: 'number', describe: 'loop budget (µs) of this machine, replacing each scenario\'s' })
+    .option('bench', { type: 'boolean', describe: 'record that the bench should run with the suite' });
+}
+
+function runFlags(args: Record<string, unknown>): RunFlags {
+  const paths = args.paths as string[] | undefined;
+  return {
+    config: args.config as string | undefined,
+    suite: args.suite as string | undefined,
+    paths: paths && paths.length > 0 ? paths : undefined,
+    builds: args.build as string[] | undefined,
+    out: args.out as string | undefined,
+    jobs: args.jobs as number | undefined,
+    baseline: args.baseline as string | undefined,
+    policy: args.policy as string | undefined,
+    trace: args.trace as boolean | undefined,
+    loopBudget_us: args['loop-budget'] as number | undefined,
+    bench: args.bench as boolean | undefined,
+    shard: args.shard as string | undefined,
+    resume: args.resume as boolean | undefined,
+    quiet: args.quiet as boolean | undefined,
+  };
+}
 
 const print = (line: string) => process.stdout.write(`${line}\n`);
 const printError = (line: string) => process.stderr.write(`${line}\n`);
@@ -25,33 +63,41 @@ export async function main(argv: string[]): Promise<number> {
       'run [paths..]',
       'replay scenarios through builds, score every run, write the results folder',
       (y: Argv) =>
-        y
-          .positional('paths', { type: 'string', array: true, describe: 'scenario files or folders', default: DEFAULT_SCENARIO_PATHS })
-          .option('build', { alias: 'b', type: 'string', array: true, describe: 'build spec: NAME=module.js, NAME=exec:program args…, ref:ID (repeatable)', default: DEFAULT_BUILDS })
-          .option('out', { alias: 'o', type: 'string', describe: 'results folder', default: DEFAULT_OUT_DIR })
-          .option('trace', { type: 'boolean', describe: 'write traces/<scenario>__<build>.csv', default: false })
-          .option('jobs', { alias: 'j', type: 'number', describe: 'parallel runs (default: core count)' })
+        settingOptions(y)
+          .positional('paths', { type: 'string', array: true, describe: `scenario files or folders (default: the suite's, else ${DEFAULT_SCENARIO_PATHS.join(' ')})` })
           .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic)' })
-          .option('baseline', { type: 'string', describe: 'gate every other build against this one (writes gate.md)' })
-          .option('policy', { type: 'string', describe: 'gate policy YAML (defaults: docs/scoring.md)' })
           .option('resume', { type: 'boolean', describe: 'skip pairs already complete in --out', default: false })
           .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
           .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false }),
       async (args) => {
-        const outcome = await runSuite({
-          paths: args.paths as string[],
-          builds: args.build as string[],
-          outDir: args.out as string,
-          trace: args.trace as boolean,
-          jobs: args.jobs as number | undefined,
-          shard: args.shard as string | undefined,
-          baseline: args.baseline as string | undefined,
-          policyFile: args.policy as string | undefined,
-          resume: args.resume as boolean,
-          quiet: args.quiet as boolean,
-          log: printError,
-        });
+        const outcome = await runConfiguredSuite(runFlags(args), { log: printError });
         exitCode = outcome.exitCode === EXIT.fail && args['exit-zero'] ? EXIT.pass : outcome.exitCode;
+      },
+    )
+    .command(
+      'config',
+      'show the resolved configuration and where each value came from (file, flag, default)',
+      (y: Argv) =>
+        settingOptions(y)
+          .option('print', { type: 'boolean', describe: 'print the resolved configuration', default: true })
+          .option('json', { type: 'boolean', describe: 'as JSON', default: false }),
+      async (args) => {
+        const outcome = await printConfig(runFlags(args), { json: args.json as boolean });
+        for (const line of outcome.lines) (outcome.exitCode === EXIT.pass ? print : printError)(line);
+        exitCode = outcome.exitCode;
+      },
+    )
+    .command(
+      'cache',
+      'manage the cache of git-ref builds (.footing-cache/ by default)',
+      (y: Argv) =>
+        y
+          .option('clear', { type: 'boolean', demandOption: true, describe: 'remove every cached build and its worktree' })
+          .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' }),
+      async (args) => {
+        const outcome = await clearCache({ config: args.config as string | undefined });
+        for (const line of outcome.lines) (outcome.exitCode === EXIT.pass ? print : printError)(line);
+        exitCode = outcome.exitCode;
       },
     )
     .command(
@@ -119,7 +165,29 @@ export async function main(argv: string[]): Promise<number> {
         exitCode = outcome.exitCode;
       },
     )
-    .demandCommand(1, 'name a command: run, check, gate, merge, report (footing --help lists them)')
+    .command(
+      'margin [paths..]',
+      'find, per scenario and build, the lowest friction scale and the largest push scale it survives',
+      (y: Argv) =>
+        y
+          .positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS, describe: 'scenario files or folders' })
+          .option('build', { alias: 'b', type: 'string', array: true, default: DEFAULT_BUILDS, describe: 'build spec (repeatable)' })
+          .option('out', { alias: 'o', type: 'string', default: 'reports/out/margin', describe: 'results folder' })
+          .option('tolerance', { type: 'number', default: 0.01, describe: 'bisection tolerance on the scale' })
+          .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' }),
+      async (args) => {
+        const outcome = await runMarginCommand({
+          paths: args.paths as string[],
+          build: args.build as string[],
+          out: args.out as string,
+          tolerance: args.tolerance as number,
+          jobs: args.jobs as number | undefined,
+          log: printError,
+        });
+        exitCode = outcome.exitCode;
+      },
+    )
+    .demandCommand(1, 'name a command: run, check, gate, merge, report, margin, config, cache (footing --help lists them)')
     .strict()
     .version(TOOL_VERSION)
     .help()

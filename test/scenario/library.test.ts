@@ -47,13 +47,15 @@ describe('the bundled library', () => {
     expect(s.commands.map((c) => c.velocity_mps[0])).toEqual([0, 0.6, 0]);
   });
 
-  it('keeps the standing-on-incline case close to its friction limit (tan θ within 15 % of μs)', async () => {
+  it('keeps the standing-on-incline case beyond what the inscribed friction pyramid allows but inside the cone', async () => {
     const r = await loadScenarioFile(path.join(LIBRARY, 'ramp-stand-near-limit.yaml'), { cwd: REPO });
     if (!r.ok) throw new Error('failed');
     const g = r.scenarios[0].plant.ground;
     const needed = Math.tan((g.incline_deg.pitch * Math.PI) / 180); // block on a slope: μ ≥ tan θ
     expect(needed).toBeLessThan(g.friction.default.staticFriction);
-    expect(needed / g.friction.default.staticFriction).toBeGreaterThan(0.85);
+    // More than the inscribed square pyramid μs/√2 allows (common practice in force distribution),
+    // so a build that clips into that pyramid slides, while the true cone still holds the robot.
+    expect(needed).toBeGreaterThan(g.friction.default.staticFriction / Math.SQRT2);
   });
 
   it('loads in a deterministic order with stable hashes', async () => {

@@ -1,0 +1,85 @@
+// What the margin search and scenario families add to results.json (format version 2): a
+// `margin` object on a run, a `family` membership on its scenario, and a `families` summary list.
+// JSON Schema: harness/run/results/results.schema.json ($defs/margin, $defs/familySummary).
+
+import type { ProbeStatus, SampleRole, SearchOutcomeKind } from './search.js';
+
+/** One probe of a margin search, with the metrics that explain its outcome. */
+export interface MarginSample {
+  scale: number;
+  status: ProbeStatus;
+  role: SampleRole;
+  slipDistance_m: number | null;
+  frictionMarginMin: number | null;
+  fell: boolean | null;
+  /** The acceptance sentences of a failing probe (empty for a pass). */
+  reasons: string[];
+}
+
+export interface MarginSearchRecord {
+  outcome: SearchOutcomeKind;
+  /** criticalFrictionScale or criticalPushScale; see docs/margin.md for range ends and null. */
+  criticalScale: number | null;
+  bracket: { failing: number; passing: number } | null;
+  range: [number, number];
+  tolerance: number;
+  monotone: boolean;
+  runs: number;
+  bisectionRuns: number;
+  /** Wall time of the whole search (sequential probes), s. */
+  wall_s: number;
+  samples: MarginSample[];
+}
+
+export interface FrictionMarginRecord extends MarginSearchRecord {
+  /** Lowest μs of any material of the scenario as written. */
+  lowestStaticFriction: number;
+  /** criticalScale × lowestStaticFriction: the critical μs of the slipperiest material. */
+  criticalStaticFriction: number | null;
+}
+
+export interface PushMarginRecord extends MarginSearchRecord {
+  /** Largest push peak force of the scenario as written, N. */
+  peakForce_N: number;
+  /** criticalScale × peakForce_N. */
+  criticalPeakForce_N: number | null;
+}
+
+export interface RunMargin {
+  friction: FrictionMarginRecord | null;
+  push: PushMarginRecord | null;
+  /** Why a search is missing (no pushes, nominal run errored, not asked for). */
+  notes: string[];
+}
+
+/** Quantiles of a per-sample metric over a family's runs (linear interpolation, Hyndman & Fan type 7). */
+export interface Spread {
+  count: number;
+  min: number;
+  p10: number;
+  median: number;
+  p90: number;
+  max: number;
+}
+
+export interface FamilySummary {
+  /** Family id (the id written in the scenario file). */
+  id: string;
+  build: string;
+  file: string;
+  /** Samples the family declares. */
+  samples: number;
+  /** Sample runs present in this result set (fewer in a shard). */
+  runs: number;
+  successes: number;
+  /** Error runs (counted as not successful). */
+  errors: number;
+  successRate: number;
+  interval: { method: 'wilson'; confidence: number; lower: number; upper: number };
+  /** sha256 over the sample hashes in sample order: equal only for the same family content. */
+  hash: string;
+  frictionMarginMin: Spread | null;
+  slipDistance_m: Spread | null;
+  /** Present when the samples carry margin searches. */
+  criticalFrictionScale?: Spread | null;
+}
