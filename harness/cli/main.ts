@@ -8,6 +8,7 @@ import { DEFAULT_SCENARIO_PATHS, EXIT } from '../run/suite.js';
 import { mergeResults } from '../run/merge.js';
 import { runReportCommand } from '../report/command.js';
 import { runMarginCommand } from '../margin/command.js';
+import { runBenchCommand } from '../bench/command.js';
 import { clearCache, printConfig, runConfiguredSuite } from '../config/commands.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
@@ -28,7 +29,7 @@ function settingOptions(y: Argv): Argv {
     .option('policy', { type: 'string', describe: 'gate policy YAML (default: the config\'s gate, else docs/scoring.md)' })
     .option('trace', { type: 'boolean', describe: 'write traces/<scenario>__<build>.csv' })
     .option('loop-budget', { type: 'number', describe: 'loop budget (µs) of this machine, replacing each scenario\'s' })
-    .option('bench', { type: 'boolean', describe: 'record that the bench should run with the suite' });
+    .option('bench', { type: 'boolean', describe: 'also bench every build (governor rate, tick time, real-time factor) into results.json' });
 }
 
 function runFlags(args: Record<string, unknown>): RunFlags {
@@ -146,6 +147,26 @@ export async function main(argv: string[]): Promise<number> {
       },
     )
     .command(
+      'bench',
+      'measure governor update rate, controller tick time and closed-loop real-time factor per build',
+      (y: Argv) =>
+        y
+          .option('build', { alias: 'b', type: 'string', array: true, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
+          .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
+          .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
+          .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' }),
+      async (args) => {
+        const outcome = await runBenchCommand({
+          builds: args.build as string[],
+          scenario: args.scenario as string | undefined,
+          json: args.json as string | undefined,
+          time_ms: args['time-ms'] as number | undefined,
+        });
+        for (const line of outcome.lines) (outcome.exitCode === 2 ? printError : print)(line);
+        exitCode = outcome.exitCode;
+      },
+    )
+    .command(
       'report <results..>',
       're-render the HTML report from saved results (and their series/traces) without re-running',
       (y: Argv) =>
@@ -187,7 +208,7 @@ export async function main(argv: string[]): Promise<number> {
         exitCode = outcome.exitCode;
       },
     )
-    .demandCommand(1, 'name a command: run, check, gate, merge, report, margin, config, cache (footing --help lists them)')
+    .demandCommand(1, 'name a command: run, check, gate, merge, report, margin, bench, config, cache (footing --help lists them)')
     .strict()
     .version(TOOL_VERSION)
     .help()

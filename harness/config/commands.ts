@@ -83,9 +83,7 @@ export async function runConfiguredSuite(flags: RunFlags, options: ConfiguredRun
       });
     }
   }
-  if (settings.bench.value) {
-    log(`bench: on (${describeOrigin(settings.bench.origin)}); recorded only — the bench runs with npm run bench`);
-  }
+  if (settings.bench.value) log(`bench: on (${describeOrigin(settings.bench.origin)}); figures attached to results.json`);
 
   const outcome = await runSuite({
     paths: settings.paths.value,
@@ -100,6 +98,7 @@ export async function runConfiguredSuite(flags: RunFlags, options: ConfiguredRun
     loopBudget_us: settings.loopBudget_us.value,
     resume: flags.resume,
     quiet: flags.quiet,
+    bench: settings.bench.value,
     runTimeout: options.runTimeout,
     cwd: settings.cwd,
     log,

@@ -5,6 +5,7 @@ import type { ResultsFile } from '../run/results/types.js';
 import { rulesFor, type GatePolicy } from './defaults.js';
 import { pairRuns } from './pairing.js';
 import { compareFamilies } from './familyRules.js';
+import { governorRateRows } from './governorRate.js';
 import { compareMargins } from './marginRules.js';
 import { compareRuns } from './rules.js';
 import { GateInputError, type GateOutcome, type GateRow } from './types.js';
@@ -29,6 +30,8 @@ export function gate(input: GateInput): GateOutcome {
   }
   const families = compareFamilies(input.baseline, input.candidate, pairing.buildPairs, input.policy);
   rows.push(...families.rows);
+  // Bench figures are per build, not per scenario: the policy's defaults apply.
+  rows.push(...governorRateRows(input.baseline, input.candidate, pairing.buildPairs, input.policy.rules));
   // Stable sort: broken rows first, otherwise in pairing order (scenario order of the baseline).
   const ordered = [...rows.filter((r) => r.broken), ...rows.filter((r) => !r.broken)];
   const comparedIds = new Set(pairing.pairs.map((p) => p.baseline.scenario.id));

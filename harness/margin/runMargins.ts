@@ -7,14 +7,14 @@ import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { buildManifest } from '../builds/provenance.js';
-import { BuildSpecError, parseBuildSpec, type BuildSpec } from '../builds/spec.js';
+import type { BuildSpec } from '../builds/spec.js';
 import { createRunPool, RunTimeoutError, type RunPool } from '../run/pool.js';
 import { createErrorRunResult, createResultsFile } from '../run/results/runResult.js';
 import type { BuildManifest, ResultsFile, RunResult } from '../run/results/types.js';
 import { writeFileAtomicSync } from '../run/atomic.js';
 import { OUTPUT_FILES, writeOutputs } from '../run/outputs.js';
-import { DEFAULT_SCENARIO_PATHS, EXIT, defaultJobs, type ExitCode } from '../run/suite.js';
-import { formatIssue, loadSuite } from '../scenario/index.js';
+import { prepareBuilds, prepareScenarios } from '../run/prepare.js';
+import { EXIT, defaultJobs, type ExitCode } from '../run/suite.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { lowestStaticFriction, peakPushForce_N, scaleFriction, scalePushes } from '../scenario/variation.js';
 import { TOOL_VERSION } from '../version.js';
@@ -186,31 +186,18 @@ export async function runMargins(options: MarginRunOptions): Promise<MarginRunOu
     if (problem) return badInput(`footing margin: ${problem}`);
   }
 
-  if (options.builds.length === 0) return badInput('footing margin: no build given (use --build SPEC, e.g. --build ref:governed)');
-  let specs: BuildSpec[];
-  try {
-    specs = options.builds.map((text) => parseBuildSpec(text, cwd));
-  } catch (error) {
-    if (error instanceof BuildSpecError) return badInput(error.message);
-    throw error;
-  }
-  const names = new Set<string>();
-  for (const spec of specs) {
-    if (names.has(spec.name)) return badInput(`--build ${spec.text}: the build name "${spec.name}" is used twice; name one of them (NAME=SPEC)`);
-    names.add(spec.name);
-  }
+  const parsed = prepareBuilds('margin', options.builds, cwd);
+  if (!parsed.ok) return badInput(parsed.lines.join('\n'));
+  const specs = parsed.value;
 
-  const suite = await loadSuite(options.paths && options.paths.length > 0 ? options.paths : DEFAULT_SCENARIO_PATHS, { cwd });
-  if (!suite.ok) {
-    for (const issue of suite.errors) log(formatIssue(issue));
-    for (const file of suite.files) for (const issue of file.errors) log(formatIssue(issue));
-    log('footing margin: nothing was run; fix the scenario errors above (footing check lists them too)');
+  // The order footing run uses: scenarios by file then id (run/prepare.ts), builds as given.
+  const loaded = await prepareScenarios('margin', options.paths, cwd);
+  if (!loaded.ok) {
+    for (const line of loaded.lines) log(line);
     return { exitCode: EXIT.badInput, lines };
   }
-  for (const file of suite.files) for (const issue of file.warnings) log(`warning: ${formatIssue(issue)}`);
-  if (suite.scenarios.length === 0) return badInput('footing margin: no scenarios found');
-  // The order footing run uses: scenarios by file then id, builds as given.
-  const scenarios = [...suite.scenarios].sort((a, b) => compareText(a.file, b.file) || compareText(a.id, b.id));
+  for (const line of loaded.warnings) log(line);
+  const scenarios = loaded.value;
 
   const outDir = path.resolve(cwd, options.outDir);
   mkdirSync(outDir, { recursive: true });
@@ -264,6 +251,3 @@ async function runOnPool(pool: RunPool, scenario: ResolvedScenario, build: Build
   }
 }
 
-function compareText(a: string, b: string): number {
-  return a < b ? -1 : a > b ? 1 : 0;
-}

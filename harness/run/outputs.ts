@@ -32,6 +32,6 @@ export function writeOutputs(outDir: string, results: ResultsFile, report: Outpu
   writeResultsJson(written[0], results);
   writeJunitXml(written[1], results);
   writeSummaryMarkdown(written[2], results);
-  writeFileAtomicSync(written[3], renderReportHtml(results, { ...report, outDir }));
+  writeFileAtomicSync(written[3], renderReportHtml(results, { bench: results.bench, ...report, outDir }));
   return written;
 }

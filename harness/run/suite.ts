@@ -6,12 +6,11 @@
 import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { buildManifest } from '../builds/provenance.js';
-import { BuildSpecError, parseBuildSpec, type BuildSpec } from '../builds/spec.js';
+import type { BuildSpec } from '../builds/spec.js';
 import { gateWithinResults } from '../gate/gate.js';
 import { loadPolicy } from '../gate/policy.js';
 import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
 import { renderGateMarkdown } from '../gate/render.js';
-import { formatIssue, loadSuite } from '../scenario/index.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { removeStaleTemps, writeFileAtomicSync } from './atomic.js';
@@ -20,13 +19,20 @@ import { createRunPool, RunTimeoutError } from './pool.js';
 import { chooseProgressMode, createProgress } from './progress.js';
 import { createErrorRunResult, createResultsFile } from './results/runResult.js';
 import type { BuildManifest, ResultsFile, RunResult } from './results/types.js';
+import { attachBench } from '../bench/attach.js';
+import { DEFAULT_BENCH_SCENARIO } from '../bench/command.js';
+import { runBench } from '../bench/run.js';
+import { formatIssue, loadScenarioFile } from '../scenario/index.js';
+import { prepareBuilds, prepareScenarios } from './prepare.js';
 import { parseShard, shardIndices, ShardSpecError } from './shard.js';
 
 export const EXIT = { pass: 0, fail: 1, badInput: 2, internal: 3 } as const;
 export type ExitCode = (typeof EXIT)[keyof typeof EXIT];
 
-export const DEFAULT_SCENARIO_PATHS = ['scenarios'];
+export { DEFAULT_SCENARIO_PATHS } from './prepare.js';
 export const RUNS_FOLDER = 'runs';
+/** Time per bench task with `run --bench`: shorter than `footing bench`, enough for the gate's ±30 %. */
+const SUITE_BENCH_TIME_ms = 400;
 
 /**
  * A build resolved before the suite (e.g. from a git ref, harness/builds/git.ts): its spec, the
@@ -56,6 +62,8 @@ export interface SuiteRunOptions {
   policy?: GatePolicy;
   resume?: boolean;
   quiet?: boolean;
+  /** Measure every build with the bench (governor rate, tick time, real-time factor) and attach it. */
+  bench?: boolean;
   /** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
   runTimeout?: { base_s: number; perSimulatedSecond: number };
   cwd?: string;
@@ -94,24 +102,19 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   };
 
   // Builds.
-  if (options.builds.length === 0) return badInput('footing run: no build given (use --build SPEC, e.g. --build ref:governed)');
-  let specs: BuildSpec[];
   const prepared = new Map<string, PreparedBuild>();
-  try {
-    specs = options.builds.map((item) => {
-      if (typeof item === 'string') return parseBuildSpec(item, cwd);
+  const parsed = prepareBuilds(
+    'run',
+    options.builds.map((item) => {
+      if (typeof item === 'string') return item;
       prepared.set(item.spec.name, item);
       return item.spec;
-    });
-  } catch (error) {
-    if (error instanceof BuildSpecError) return badInput(error.message);
-    throw error;
-  }
-  const names = new Set<string>();
-  for (const spec of specs) {
-    if (names.has(spec.name)) return badInput(`--build ${spec.text}: the build name "${spec.name}" is used twice; name one of them (NAME=SPEC)`);
-    names.add(spec.name);
-  }
+    }),
+    cwd,
+  );
+  if (!parsed.ok) return badInput(parsed.lines.join('\n'));
+  const specs = parsed.value;
+  const names = new Set(specs.map((spec) => spec.name));
   if (options.baseline !== undefined && !names.has(options.baseline)) {
     return badInput(`--baseline ${options.baseline}: no build of that name (builds: ${[...names].join(', ')})`);
   }
@@ -124,23 +127,18 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
     }
   }
 
-  // Scenarios.
-  const suite = await loadSuite(options.paths && options.paths.length > 0 ? options.paths : DEFAULT_SCENARIO_PATHS, { cwd });
-  if (!suite.ok) {
-    for (const issue of suite.errors) log(formatIssue(issue));
-    for (const file of suite.files) for (const issue of file.errors) log(formatIssue(issue));
-    log('footing run: nothing was run; fix the scenario errors above (footing check lists them too)');
+  // Scenarios, in the canonical order (prepare.ts): by file then id; builds as given.
+  const loaded = await prepareScenarios('run', options.paths, cwd);
+  if (!loaded.ok) {
+    for (const line of loaded.lines) log(line);
     return { exitCode: EXIT.badInput, lines };
   }
-  for (const file of suite.files) for (const issue of file.warnings) log(`warning: ${formatIssue(issue)}`);
-  if (suite.scenarios.length === 0) return badInput('footing run: no scenarios found');
+  for (const line of loaded.warnings) log(line);
+  const scenarios = loaded.value;
   if (options.loopBudget_us !== undefined) {
-    for (const scenario of suite.scenarios) scenario.control.loopBudget_us = options.loopBudget_us;
+    for (const scenario of scenarios) scenario.control.loopBudget_us = options.loopBudget_us;
   }
 
-  // Pairs, in a deterministic order: scenarios by file then id (merge.ts sorts the same way),
-  // builds as given.
-  const scenarios = [...suite.scenarios].sort((a, b) => compareText(a.file, b.file) || compareText(a.id, b.id));
   let pairs: Pair[] = [];
   for (const scenario of scenarios) {
     for (const build of specs) pairs.push({ scenario, build, key: pairKey(scenario.id, build.name) });
@@ -223,7 +221,8 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   }
 
   const ordered = pairs.map((pair) => results.get(pair.key) as RunResult);
-  const resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs: ordered });
+  let resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs: ordered });
+  if (options.bench) resultsFile = await benchSuiteBuilds(resultsFile, specs.filter((spec) => !prepared.get(spec.name)?.failure), log);
   // The gate runs first so that the report shows the gate's own regression list.
   const gateOutcome = options.baseline !== undefined ? gateWithinResults(resultsFile, options.baseline, policy) : undefined;
   writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy });
@@ -239,12 +238,17 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   return { exitCode, results: resultsFile, lines };
 }
 
-function compareText(a: string, b: string): number {
-  return a < b ? -1 : a > b ? 1 : 0;
-}
-
 export function defaultJobs(): number {
   return Math.max(1, (globalThis as { navigator?: { hardwareConcurrency?: number } }).navigator?.hardwareConcurrency ?? 1);
+}
+
+/** `run --bench`: the bench figures of every build on the standard bench scenario, attached to the results. */
+async function benchSuiteBuilds(results: ResultsFile, specs: BuildSpec[], log: (line: string) => void): Promise<ResultsFile> {
+  const loaded = await loadScenarioFile(DEFAULT_BENCH_SCENARIO);
+  if (!loaded.ok) throw new Error(`bench scenario ${DEFAULT_BENCH_SCENARIO} does not load: ${loaded.errors.map(formatIssue).join('; ')}`);
+  log(`bench: ${specs.length} builds on ${loaded.scenarios[0].id} (governor rate, tick time, real-time factor)`);
+  const report = await runBench({ scenario: loaded.scenarios[0], builds: specs, time_ms: SUITE_BENCH_TIME_ms });
+  return attachBench(results, report);
 }
 
 function countStatuses(runs: RunResult[]): Record<'pass' | 'fail' | 'error', number> {

@@ -156,6 +156,7 @@ export class ReferenceController implements Controller {
       : null;
     this.qp = variant.post === 'qp' ? new QuadraticDistributor(this.legCount, yawLength) : null;
     this.telemetryNames = variant.governed ? [...CORE_TELEMETRY, ...GOVERNOR_TELEMETRY] : [...CORE_TELEMETRY];
+    if (this.governor !== null) this.governorUpdate = (obs) => this.updateGovernorAlone(obs);
   }
 
   tick(obs: Observation, action: Action): void {
@@ -200,12 +201,18 @@ export class ReferenceController implements Controller {
     reference.advance(obs);
   }
 
-  governorUpdate(obs: Observation): void {
+  /**
+   * One governor update alone, for the bench (Controller.governorUpdate). Only governed builds
+   * have it, so a bench does not time an empty call for the others.
+   */
+  readonly governorUpdate?: (obs: Observation) => void;
+
+  private updateGovernorAlone(obs: Observation): void {
     if (this.governor === null) return;
     const reference = this.reference;
     if (!reference.initialised) reference.reset(obs, this.robot.standingHeight_m);
-    this.trunk.update(obs, this.hipsBody);
-    this.pd.evaluate(obs, this.trunk, reference);
+    this.trunk.updateRotation(obs);
+    this.pd.evaluateError(obs, this.trunk.angularVelocityWorld, reference);
     this.governor.update(this.pd.error);
     reference.velocity_mps[0] = this.governor.applied[0];
     reference.velocity_mps[1] = this.governor.applied[1];

@@ -11,7 +11,7 @@
 // regularisation puts on any achievable component, so a full-rank stance reproduces w to
 // rounding while the unachievable moment stays the Λ⁻¹-weighted least-squares compromise.
 
-import { choleskyInPlace, choleskySolve } from './linalg.js';
+import { choleskyInPlace, choleskySolve6 } from './linalg.js';
 
 export class ForceDistributor {
   readonly legCount: number;
@@ -69,12 +69,12 @@ export class ForceDistributor {
   solve(forces: Float64Array, wrench: Float64Array): Float64Array {
     forces.fill(0);
     if (this.stanceCount === 0) return forces;
-    choleskySolve(this.dual, this.factor, wrench, 6);
+    choleskySolve6(this.dual, this.factor, wrench);
     this.applyTranspose(forces, this.dual);
     for (let pass = 0; pass < this.refinementSteps; pass++) {
       wrenchOf(this.residual, forces, this.arms, this.stance, this.legCount);
       for (let k = 0; k < 6; k++) this.residual[k] = wrench[k] - this.residual[k];
-      choleskySolve(this.correction, this.factor, this.residual, 6);
+      choleskySolve6(this.correction, this.factor, this.residual);
       for (let k = 0; k < 6; k++) this.dual[k] += this.correction[k];
       this.applyTranspose(forces, this.dual);
     }

@@ -88,6 +88,20 @@ export class ExplicitReferenceGovernor {
   }
   private readonly jumpNorm: Float64Array;
   private readonly field: Float64Array;
+  // Nonzero patterns (compressed rows) of P, P⁻¹ and the columns of S, fixed at construction.
+  // The trunk's P is block-diagonal and S has one entry per column, so the per-constraint
+  // quadratic forms touch a third of the n×n entries; skipping exact zeros changes no sum
+  // (x + 0 = x), so the results are those of the dense loops (profiled: the dense
+  // refreshConstraint was the largest single cost of a governed tick).
+  private readonly pStart: Int32Array;
+  private readonly pIndex: Int32Array;
+  private readonly pValue: Float64Array;
+  private readonly piStart: Int32Array;
+  private readonly piIndex: Int32Array;
+  private readonly piValue: Float64Array;
+  private readonly sStart: Int32Array;
+  private readonly sIndex: Int32Array;
+  private readonly sValue: Float64Array;
 
   constructor(config: GovernorConfig) {
     const m = config.referenceDimension, n = config.stateDimension, k = config.maxConstraints;
@@ -121,32 +135,41 @@ export class ExplicitReferenceGovernor {
       for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) s += this.jump[a * m + j] * this.lyapunov[a * n + b] * this.jump[b * m + j];
       this.jumpNorm[j] = Math.sqrt(Math.max(0, s));
     }
+    [this.pStart, this.pIndex, this.pValue] = compressRows(this.lyapunov, n, n);
+    [this.piStart, this.piIndex, this.piValue] = compressRows(this.lyapunovInverse, n, n);
+    // Columns of S (S is n×m row-major): its transpose's rows.
+    const jumpTransposed = new Float64Array(m * n);
+    for (let a = 0; a < n; a++) for (let j = 0; j < m; j++) jumpTransposed[j * n + a] = this.jump[a * m + j];
+    [this.sStart, this.sIndex, this.sValue] = compressRows(jumpTransposed, m, n);
   }
 
   /** Recomputes the cached denominator, Sᵀc and repulsion normal of constraint k (set kinds[k] first). */
   refreshConstraint(k: number): void {
-    const n = this.n, m = this.m, c = this.rows, pi = this.lyapunovInverse, o = k * n;
+    const n = this.n, m = this.m, c = this.rows, o = k * n;
+    const piStart = this.piStart, piIndex = this.piIndex, piValue = this.piValue;
     let s = 0;
     for (let a = 0; a < n; a++) {
       const ca = c[o + a];
       if (ca === 0) continue;
-      for (let b = 0; b < n; b++) s += ca * pi[a * n + b] * c[o + b];
+      for (let e = piStart[a], end = piStart[a + 1]; e < end; e++) s += ca * piValue[e] * c[o + piIndex[e]];
     }
     this.inverseSqrtDenominator[k] = s > 1e-300 ? 1 / Math.sqrt(s) : 0;
+    const sStart = this.sStart, sIndex = this.sIndex, sValue = this.sValue;
+    const instant = this.kinds[k] === INSTANT, mo = k * m;
     let norm2 = 0;
     for (let j = 0; j < m; j++) {
       let t = 0;
-      for (let a = 0; a < n; a++) t += this.jump[a * m + j] * c[o + a];
-      this.jumpRows[k * m + j] = t;
-      let nj = this.referenceRows[k * m + j];
-      if (this.kinds[k] === INSTANT) nj += t;
+      for (let e = sStart[j], end = sStart[j + 1]; e < end; e++) t += sValue[e] * c[o + sIndex[e]];
+      this.jumpRows[mo + j] = t;
+      let nj = this.referenceRows[mo + j];
+      if (instant) nj += t;
       nj /= this.scale[j];
-      this.repulsionNormal[k * m + j] = nj;
+      this.repulsionNormal[mo + j] = nj;
       norm2 += nj * nj;
     }
     const inverseNorm = norm2 > 0 ? 1 / Math.sqrt(norm2) : 0;
     this.repulsionInverseNorm[k] = inverseNorm;
-    for (let j = 0; j < m; j++) this.repulsionNormal[k * m + j] *= inverseNorm;
+    for (let j = 0; j < m; j++) this.repulsionNormal[mo + j] *= inverseNorm;
   }
 
   // The two helpers below store their result in a field instead of returning it: a double
@@ -154,13 +177,13 @@ export class ExplicitReferenceGovernor {
 
   /** last[0] ← V = zᵀPz. */
   computeLyapunov(z: ArrayLike<number>): void {
-    const n = this.n, p = this.lyapunov;
+    const n = this.n, start = this.pStart, index = this.pIndex, value = this.pValue;
     let v = 0;
     for (let a = 0; a < n; a++) {
       const za = z[a];
       if (za === 0) continue;
       let row = 0;
-      for (let b = 0; b < n; b++) row += p[a * n + b] * z[b];
+      for (let e = start[a], end = start[a + 1]; e < end; e++) row += value[e] * z[index[e]];
       v += za * row;
     }
     this.last[0] = v;
@@ -210,21 +233,24 @@ export class ExplicitReferenceGovernor {
     for (let j = 0; j < m; j++) field[j] /= reach;
 
     // Repulsion from the hyperplanes within the influence zone ζ (unit normals precomputed).
-    const span = this.influence - this.margin;
-    for (let k = 0; k < this.count; k++) {
-      const inverseNorm = this.repulsionInverseNorm[k];
+    const influence = this.influence, span = influence - this.margin, count = this.count;
+    const rows = this.rows, jumpRows = this.jumpRows, normals = this.repulsionNormal, bounds = this.bounds;
+    const kinds = this.kinds, inverseNorms = this.repulsionInverseNorm;
+    for (let k = 0; k < count; k++) {
+      const inverseNorm = inverseNorms[k];
       if (inverseNorm === 0) continue;
-      let offset = this.bounds[k];
+      let offset = bounds[k];
       let value = 0;
-      if (this.kinds[k] === INSTANT) {
-        for (let a = 0; a < n; a++) offset -= this.rows[k * n + a] * z[a];
-        for (let j = 0; j < m; j++) offset += this.jumpRows[k * m + j] * v[j];
+      const o = k * n, mo = k * m;
+      if (kinds[k] === INSTANT) {
+        for (let a = 0; a < n; a++) offset -= rows[o + a] * z[a];
+        for (let j = 0; j < m; j++) offset += jumpRows[mo + j] * v[j];
       }
-      for (let j = 0; j < m; j++) value += this.repulsionNormal[k * m + j] * v[j] * scale[j];
+      for (let j = 0; j < m; j++) value += normals[mo + j] * v[j] * scale[j];
       const dist = offset * inverseNorm - value;
-      if (dist >= this.influence) continue;
-      const strength = (this.influence - dist) / span;
-      for (let j = 0; j < m; j++) field[j] -= strength * this.repulsionNormal[k * m + j];
+      if (dist >= influence) continue;
+      const strength = (influence - dist) / span;
+      for (let j = 0; j < m; j++) field[j] -= strength * normals[mo + j];
     }
 
     // Dynamic safety margin, with the discrete-time and no-overshoot caps.
@@ -234,10 +260,11 @@ export class ExplicitReferenceGovernor {
       let beta = 0;
       for (let j = 0; j < m; j++) beta += Math.abs(field[j] / scale[j]) * this.jumpNorm[j];
       let shift = 0;
-      for (let k = 0; k < this.count; k++) {
+      const referenceRows = this.referenceRows, weights = this.inverseSqrtDenominator;
+      for (let k = 0; k < count; k++) {
         let s = 0;
-        for (let j = 0; j < m; j++) s += this.referenceRows[k * m + j] * (field[j] / scale[j]);
-        const w = this.inverseSqrtDenominator[k];
+        for (let j = 0; j < m; j++) s += referenceRows[k * m + j] * (field[j] / scale[j]);
+        const w = weights[k];
         const t = Math.abs(s) * w;
         if (t > shift) shift = t;
       }
@@ -253,6 +280,25 @@ export class ExplicitReferenceGovernor {
     const step = this.period_s * delta;
     for (let j = 0; j < m; j++) v[j] += (step * field[j]) / scale[j];
   }
+}
+
+/** Compressed rows (start, column index, value) of the nonzeros of a rows×cols row-major matrix (setup only). */
+function compressRows(a: Float64Array, rows: number, cols: number): [Int32Array, Int32Array, Float64Array] {
+  const start = new Int32Array(rows + 1);
+  const index: number[] = [];
+  const value: number[] = [];
+  for (let r = 0; r < rows; r++) {
+    start[r] = index.length;
+    for (let c = 0; c < cols; c++) {
+      const x = a[r * cols + c];
+      if (x !== 0) {
+        index.push(c);
+        value.push(x);
+      }
+    }
+  }
+  start[rows] = index.length;
+  return [start, Int32Array.from(index), Float64Array.from(value)];
 }
 
 /** Inverse of a small SPD matrix by Gauss–Jordan elimination (setup time only; allocates). */

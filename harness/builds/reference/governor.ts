@@ -76,6 +76,32 @@ export class TrunkGovernor {
     this.applied = this.erg.applied;
     this.maxSpeed_mps = config.maxSpeed_mps;
     this.maxYawRate_radps = config.maxYawRate_radps;
+    // The speed bounds do not depend on the state: built (and refreshed) once here, copied into
+    // the table each tick after the stance constraints.
+    this.speedBounds = new ConstraintBlock(2 * GOVERNED_AXES, this.erg);
+    this.writeSpeedBounds(0);
+    this.speedBounds.copyFrom(this.erg, 0);
+  }
+
+  private readonly speedBounds: ConstraintBlock;
+
+  /** Writes the 2·GOVERNED_AXES speed-bound constraints into the table from index k on. */
+  private writeSpeedBounds(k: number): number {
+    const erg = this.erg;
+    for (let axis = 0; axis < GOVERNED_AXES; axis++) {
+      const limit = axis === 2 ? this.maxYawRate_radps : this.maxSpeed_mps;
+      for (let sign = 1; sign >= -1; sign -= 2) {
+        const rowOffset = k * 6;
+        for (let a = 0; a < 6; a++) erg.rows[rowOffset + a] = 0;
+        erg.rows[rowOffset + 2 * axis + 1] = sign;
+        for (let j = 0; j < GOVERNED_AXES; j++) erg.referenceRows[k * GOVERNED_AXES + j] = j === axis ? sign : 0;
+        erg.bounds[k] = limit;
+        erg.kinds[k] = STEADY;
+        erg.refreshConstraint(k);
+        k++;
+      }
+    }
+    return k;
   }
 
   /**
@@ -125,24 +151,71 @@ export class TrunkGovernor {
         k++;
       }
     }
-    for (let axis = 0; axis < GOVERNED_AXES; axis++) {
-      const limit = axis === 2 ? this.maxYawRate_radps : this.maxSpeed_mps;
-      for (let sign = 1; sign >= -1; sign -= 2) {
-        const rowOffset = k * 6;
-        for (let a = 0; a < 6; a++) erg.rows[rowOffset + a] = 0;
-        erg.rows[rowOffset + 2 * axis + 1] = sign;
-        for (let j = 0; j < GOVERNED_AXES; j++) erg.referenceRows[k * GOVERNED_AXES + j] = j === axis ? sign : 0;
-        erg.bounds[k] = limit;
-        erg.kinds[k] = STEADY;
-        erg.refreshConstraint(k);
-        k++;
-      }
-    }
-    erg.count = k;
+    this.speedBounds.copyTo(erg, k);
+    erg.count = k + this.speedBounds.count;
   }
 
   /** One governor step from the error state z (see trunk.ts for its layout). */
   update(z: ArrayLike<number>): void {
     this.erg.update(z, this.target);
+  }
+}
+
+/** A saved run of constraint-table entries (with their cached values), copied in and out whole. */
+class ConstraintBlock {
+  readonly count: number;
+  private readonly n: number;
+  private readonly m: number;
+  private readonly rows: Float64Array;
+  private readonly referenceRows: Float64Array;
+  private readonly bounds: Float64Array;
+  private readonly kinds: Uint8Array;
+  private readonly inverseSqrtDenominator: Float64Array;
+  private readonly jumpRows: Float64Array;
+  private readonly repulsionNormal: Float64Array;
+  private readonly repulsionInverseNorm: Float64Array;
+
+  constructor(count: number, erg: ExplicitReferenceGovernor) {
+    const n = erg.n, m = erg.m;
+    this.count = count;
+    this.n = n;
+    this.m = m;
+    this.rows = new Float64Array(count * n);
+    this.referenceRows = new Float64Array(count * m);
+    this.bounds = new Float64Array(count);
+    this.kinds = new Uint8Array(count);
+    this.inverseSqrtDenominator = new Float64Array(count);
+    this.jumpRows = new Float64Array(count * m);
+    this.repulsionNormal = new Float64Array(count * m);
+    this.repulsionInverseNorm = new Float64Array(count);
+  }
+
+  copyFrom(erg: ExplicitReferenceGovernor, k: number): void {
+    const c = this.count, n = this.n, m = this.m;
+    this.rows.set(erg.rows.subarray(k * n, (k + c) * n));
+    this.referenceRows.set(erg.referenceRows.subarray(k * m, (k + c) * m));
+    this.bounds.set(erg.bounds.subarray(k, k + c));
+    this.kinds.set(erg.kinds.subarray(k, k + c));
+    this.inverseSqrtDenominator.set(erg.inverseSqrtDenominator.subarray(k, k + c));
+    this.jumpRows.set(erg.jumpRows.subarray(k * m, (k + c) * m));
+    this.repulsionNormal.set(erg.repulsionNormal.subarray(k * m, (k + c) * m));
+    this.repulsionInverseNorm.set(erg.repulsionInverseNorm.subarray(k, k + c));
+  }
+
+  /** Element loops, not TypedArray.set(subarray): a subarray is an allocation. */
+  copyTo(erg: ExplicitReferenceGovernor, k: number): void {
+    const c = this.count, n = this.n, m = this.m;
+    for (let e = 0; e < c * n; e++) erg.rows[k * n + e] = this.rows[e];
+    for (let e = 0; e < c * m; e++) {
+      erg.referenceRows[k * m + e] = this.referenceRows[e];
+      erg.jumpRows[k * m + e] = this.jumpRows[e];
+      erg.repulsionNormal[k * m + e] = this.repulsionNormal[e];
+    }
+    for (let e = 0; e < c; e++) {
+      erg.bounds[k + e] = this.bounds[e];
+      erg.kinds[k + e] = this.kinds[e];
+      erg.inverseSqrtDenominator[k + e] = this.inverseSqrtDenominator[e];
+      erg.repulsionInverseNorm[k + e] = this.repulsionInverseNorm[e];
+    }
   }
 }

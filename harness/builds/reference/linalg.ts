@@ -38,6 +38,28 @@ export function choleskySolve(x: Float64Array, l: Float64Array, b: Float64Array,
   return x;
 }
 
+/**
+ * choleskySolve for n = 6, written out: the force distribution solves a 6×6 system 12 times per
+ * tick, and the loop version's bounds checks and index arithmetic were most of its cost. Same
+ * operations in the same order as choleskySolve, so the same bits. x may alias b.
+ */
+export function choleskySolve6(x: Float64Array, l: Float64Array, b: Float64Array): Float64Array {
+  const y0 = b[0] / l[0];
+  const y1 = (b[1] - l[6] * y0) / l[7];
+  const y2 = (b[2] - l[12] * y0 - l[13] * y1) / l[14];
+  const y3 = (b[3] - l[18] * y0 - l[19] * y1 - l[20] * y2) / l[21];
+  const y4 = (b[4] - l[24] * y0 - l[25] * y1 - l[26] * y2 - l[27] * y3) / l[28];
+  const y5 = (b[5] - l[30] * y0 - l[31] * y1 - l[32] * y2 - l[33] * y3 - l[34] * y4) / l[35];
+  const x5 = y5 / l[35];
+  const x4 = (y4 - l[34] * x5) / l[28];
+  const x3 = (y3 - l[27] * x4 - l[33] * x5) / l[21];
+  const x2 = (y2 - l[20] * x3 - l[26] * x4 - l[32] * x5) / l[14];
+  const x1 = (y1 - l[13] * x2 - l[19] * x3 - l[25] * x4 - l[31] * x5) / l[7];
+  const x0 = (y0 - l[6] * x1 - l[12] * x2 - l[18] * x3 - l[24] * x4 - l[30] * x5) / l[0];
+  x[0] = x0; x[1] = x1; x[2] = x2; x[3] = x3; x[4] = x4; x[5] = x5;
+  return x;
+}
+
 /** Rotation matrix (row-major 3×3, trunk → world) from a unit quaternion (w, x, y, z). */
 export function matrixFromQuaternion(out: Float64Array, q: Float64Array): Float64Array {
   const w = q[0], x = q[1], y = q[2], z = q[3];

@@ -32,6 +32,12 @@ export class TrunkState {
     for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) this.inertiaBody[3 * r + c] = robot.trunk.inertia_kgm2[r][c];
   }
 
+  /** Rotation and world angular velocity only (what the governor's error state needs). */
+  updateRotation(obs: Observation): void {
+    matrixFromQuaternion(this.rotation, obs.trunkQuaternion);
+    rotate(this.angularVelocityWorld, 0, this.rotation, obs.trunkAngularVelocity_radps, 0);
+  }
+
   update(obs: Observation, hipsBody: Float64Array): void {
     const rot = matrixFromQuaternion(this.rotation, obs.trunkQuaternion);
     rotate(this.angularVelocityWorld, 0, rot, obs.trunkAngularVelocity_radps, 0);
@@ -135,6 +141,8 @@ export class TrunkPD {
    * small integer give that object's fields a generalised representation, and reads then box.
    */
   private readonly postureGains = new Float64Array(4);
+  /** Rotation vector of the attitude error (kept in an array: see postureGains). */
+  private readonly attitudeError = new Float64Array(3);
 
   constructor(robot: RobotParams, gravity: readonly number[], options: ReferenceOptions) {
     this.totalMass_kg = robot.trunk.mass_kg + robot.hips_m.length * robot.foot.mass_kg;
@@ -158,29 +166,10 @@ export class TrunkPD {
    */
   evaluate(obs: Observation, trunk: TrunkState, reference: TrunkReference): void {
     const k = this.postureGains, m = this.totalMass_kg, g = this.gravity_mps2;
-    const p = obs.trunkPosition_m, v = obs.trunkVelocity_mps, w = trunk.angularVelocityWorld;
-    const q = obs.trunkQuaternion;
-    // Attitude error as a rotation vector of q_err = q_des ⊗ q̄, q_des = yaw-only reference.
-    const half = 0.5 * reference.yaw_rad;
-    const dw = Math.cos(half), dz = Math.sin(half);
-    const qw = q[0], qx = -q[1], qy = -q[2], qz = -q[3];
-    let ew = dw * qw - dz * qz;
-    let ex = dw * qx - dz * qy;
-    let ey = dw * qy + dz * qx;
-    let ez = dw * qz + dz * qw;
-    if (ew < 0) { ew = -ew; ex = -ex; ey = -ey; ez = -ez; }
-    const sine = Math.sqrt(ex * ex + ey * ey + ez * ez);
-    const scale = sine > 1e-12 ? (2 * Math.atan2(sine, ew)) / sine : 2;
-    const rx = ex * scale, ry = ey * scale, rz = ez * scale;
-
-    this.measuredRate[0] = v[0];
-    this.measuredRate[1] = v[1];
-    this.measuredRate[2] = w[2];
-    const z = this.error;
-    z[0] = p[0] - reference.position_m[0];
-    z[2] = p[1] - reference.position_m[1];
-    z[4] = -rz;
-    this.setVelocityReference(reference);
+    const v = obs.trunkVelocity_mps, w = trunk.angularVelocityWorld;
+    this.evaluateError(obs, w, reference);
+    const r = this.attitudeError, p = obs.trunkPosition_m;
+    const rx = r[0], ry = r[1];
 
     const az = k[0] * (reference.position_m[2] - p[2]) - k[1] * v[2];
     const alphaX = k[2] * rx - k[3] * w[0];
@@ -204,6 +193,38 @@ export class TrunkPD {
     c[15] = iw[2];
     c[16] = iw[5];
     c[17] = iw[8];
+  }
+
+  /**
+   * The error state z (and u) alone, from the observation and the trunk's world angular velocity:
+   * what the governor needs, without the wrench (Controller.governorUpdate uses this).
+   */
+  evaluateError(obs: Observation, angularVelocityWorld: Float64Array, reference: TrunkReference): void {
+    const p = obs.trunkPosition_m, v = obs.trunkVelocity_mps, q = obs.trunkQuaternion;
+    // Attitude error as a rotation vector of q_err = q_des ⊗ q̄, q_des = yaw-only reference.
+    const half = 0.5 * reference.yaw_rad;
+    const dw = Math.cos(half), dz = Math.sin(half);
+    const qw = q[0], qx = -q[1], qy = -q[2], qz = -q[3];
+    let ew = dw * qw - dz * qz;
+    let ex = dw * qx - dz * qy;
+    let ey = dw * qy + dz * qx;
+    let ez = dw * qz + dz * qw;
+    if (ew < 0) { ew = -ew; ex = -ex; ey = -ey; ez = -ez; }
+    const sine = Math.sqrt(ex * ex + ey * ey + ez * ez);
+    const scale = sine > 1e-12 ? (2 * Math.atan2(sine, ew)) / sine : 2;
+    const r = this.attitudeError;
+    r[0] = ex * scale;
+    r[1] = ey * scale;
+    r[2] = ez * scale;
+
+    this.measuredRate[0] = v[0];
+    this.measuredRate[1] = v[1];
+    this.measuredRate[2] = angularVelocityWorld[2];
+    const z = this.error;
+    z[0] = p[0] - reference.position_m[0];
+    z[2] = p[1] - reference.position_m[1];
+    z[4] = -r[2];
+    this.setVelocityReference(reference);
   }
 
   /**

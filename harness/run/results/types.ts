@@ -79,4 +79,9 @@ export interface ResultsFile {
   runs: RunResult[];
   /** One summary per (family, build) when the runs include family samples. */
   families?: FamilySummary[];
+  /**
+   * Optional bench figures (`footing run --bench`, harness/bench/attach.ts), in the shape of
+   * harness/bench/bench.schema.json. Typed loosely here: the results layer does not import the bench.
+   */
+  bench?: { format: 'footing-bench'; formatVersion: number; builds: unknown[]; [field: string]: unknown };
 }

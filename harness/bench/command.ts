@@ -1,0 +1,83 @@
+// `footing bench` as a function (the CLI stays thin): parse the build specs, load the scenario,
+// run the bench, print the table, optionally write the JSON. Exit codes: 0 every build measured,
+// 1 some build could not be measured (named in the output), 2 bad input.
+
+import { mkdirSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { parseBuildSpec, type BuildSpec } from '../builds/spec.js';
+import { writeFileAtomicSync } from '../run/atomic.js';
+import { prepareBuilds } from '../run/prepare.js';
+import { loadScenarioFile } from '../scenario/load.js';
+import { formatIssue } from '../scenario/issue.js';
+import { runBench } from './run.js';
+import { renderBenchTable } from './table.js';
+import type { BenchReport } from './types.js';
+
+/** The repository root (where scenarios/ and examples/ live). */
+const PACKAGE_ROOT = fileURLToPath(new URL('../../', import.meta.url));
+
+/** The bundled default scenario: flat, dry, stand → trot → stand, so every code path runs. */
+export const DEFAULT_BENCH_SCENARIO = path.join(PACKAGE_ROOT, 'scenarios', 'dry-baseline-walk.yaml');
+
+/** The standard set `npm run bench` measures: four reference builds and the Python example. */
+export function defaultBenchBuilds(): BuildSpec[] {
+  const python = path.join(PACKAGE_ROOT, 'examples', 'python', 'stand_controller.py');
+  return [
+    ...['ref:nominal', 'ref:governed', 'ref:clamped', 'ref:qp'].map((text) => parseBuildSpec(text, PACKAGE_ROOT)),
+    parseBuildSpec(`stand-py=exec:python3 ${JSON.stringify(python)}`, PACKAGE_ROOT),
+  ];
+}
+
+export interface BenchCommandArgs {
+  builds: string[];
+  scenario?: string;
+  json?: string;
+  time_ms?: number;
+  /** Folder specs and files are relative to (default process.cwd()). */
+  cwd?: string;
+}
+
+export interface BenchCommandOutcome {
+  exitCode: number;
+  lines: string[];
+  report?: BenchReport;
+}
+
+export async function runBenchCommand(args: BenchCommandArgs): Promise<BenchCommandOutcome> {
+  const cwd = args.cwd ?? process.cwd();
+  if (args.time_ms !== undefined && !(Number.isFinite(args.time_ms) && args.time_ms > 0)) {
+    return { exitCode: 2, lines: [`footing bench: --time-ms ${args.time_ms}: expected a positive number of milliseconds per task`] };
+  }
+  const parsed = args.builds.length > 0 ? prepareBuilds('bench', args.builds, cwd) : { ok: true as const, value: defaultBenchBuilds() };
+  if (!parsed.ok) return { exitCode: 2, lines: parsed.lines };
+  const builds = parsed.value;
+
+  const scenarioFile = args.scenario ? path.resolve(cwd, args.scenario) : DEFAULT_BENCH_SCENARIO;
+  const loaded = await loadScenarioFile(scenarioFile, { cwd });
+  if (!loaded.ok) return { exitCode: 2, lines: [`footing bench: --scenario ${scenarioFile}:`, ...loaded.errors.map(formatIssue)] };
+  if (loaded.scenarios.length === 0) return { exitCode: 2, lines: [`footing bench: --scenario ${scenarioFile}: the file yields no scenario`] };
+  const lines: string[] = [];
+  if (loaded.scenarios.length > 1) {
+    lines.push(`footing bench: ${scenarioFile} expands to ${loaded.scenarios.length} scenarios; benching the first, ${loaded.scenarios[0].id}`);
+  }
+
+  let report: BenchReport;
+  try {
+    report = await runBench({ scenario: loaded.scenarios[0], builds, time_ms: args.time_ms });
+  } catch (error) {
+    return { exitCode: 2, lines: [...lines, `footing bench: ${error instanceof Error ? error.message : String(error)}`] };
+  }
+  lines.push(...renderBenchTable(report));
+  if (args.json) {
+    const file = path.resolve(cwd, args.json);
+    try {
+      mkdirSync(path.dirname(file), { recursive: true });
+      writeFileAtomicSync(file, `${JSON.stringify(report, null, 2)}\n`);
+      lines.push(`bench figures written to ${file}`);
+    } catch (error) {
+      return { exitCode: 2, lines: [...lines, `footing bench: --json ${file}: cannot write it (${(error as Error).message})`], report };
+    }
+  }
+  return { exitCode: report.failures.length > 0 ? 1 : 0, lines, report };
+}

@@ -1,0 +1,90 @@
+// Observations recorded from a real run of the scenario, replayed to a build by the bench: the
+// governor and the tick are timed on the states they meet in closed loop (stand, trot, the stop),
+// not on constants. The ring is preallocated; recording copies into it, replay hands out its
+// entries in order and wraps.
+
+import { createObservation, type Action, type Observation } from '../builds/interface.js';
+import type { OpenedBuild } from '../builds/loader.js';
+
+export class ObservationRing {
+  readonly entries: Observation[];
+  /** Entries filled so far (≤ capacity). */
+  size = 0;
+  private cursor = 0;
+
+  constructor(capacity: number, footCount: number) {
+    if (!(capacity >= 1)) throw new Error(`observation ring: capacity ${capacity}, expected at least 1`);
+    this.entries = [];
+    for (let k = 0; k < capacity; k++) this.entries.push(createObservation(footCount));
+  }
+
+  get capacity(): number {
+    return this.entries.length;
+  }
+
+  /** Copies obs into the next free entry; false when the ring is full. */
+  record(obs: Observation): boolean {
+    if (this.size >= this.entries.length) return false;
+    copyObservation(this.entries[this.size], obs);
+    this.size++;
+    return true;
+  }
+
+  /** The next recorded observation, cycling through the recording. */
+  next(): Observation {
+    const obs = this.entries[this.cursor];
+    this.cursor++;
+    if (this.cursor >= this.size) this.cursor = 0;
+    return obs;
+  }
+}
+
+export function copyObservation(into: Observation, from: Observation): void {
+  into.time_s = from.time_s;
+  into.trunkPosition_m.set(from.trunkPosition_m);
+  into.trunkQuaternion.set(from.trunkQuaternion);
+  into.trunkVelocity_mps.set(from.trunkVelocity_mps);
+  into.trunkAngularVelocity_radps.set(from.trunkAngularVelocity_radps);
+  into.footPosition_m.set(from.footPosition_m);
+  into.footVelocity_mps.set(from.footVelocity_mps);
+  into.footForce_N.set(from.footForce_N);
+  into.footContact.set(from.footContact);
+  into.frictionEstimate.set(from.frictionEstimate);
+  into.command.gait = from.command.gait;
+  into.command.velocity_mps.set(from.command.velocity_mps);
+  into.command.yawRate_radps = from.command.yawRate_radps;
+}
+
+/**
+ * Wraps an opened build so that every `everyNth` tick's observation is copied into the ring before
+ * the build sees it; everything else passes through. Used for the one recording run per build.
+ */
+export function recordingBuild(build: OpenedBuild, ring: ObservationRing, everyNth: number): OpenedBuild {
+  let tick = 0;
+  return {
+    get name() {
+      return build.name;
+    },
+    get kind() {
+      return build.kind;
+    },
+    get telemetryNames() {
+      return build.telemetryNames;
+    },
+    get loopTime_us() {
+      return build.loopTime_us;
+    },
+    get reportedCompute_us() {
+      return build.reportedCompute_us;
+    },
+    get about() {
+      return build.about;
+    },
+    tick(obs: Observation, action: Action) {
+      if (tick % everyNth === 0) ring.record(obs);
+      tick++;
+      return build.tick(obs, action);
+    },
+    close: () => build.close(),
+  };
+}
