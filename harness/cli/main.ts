@@ -9,6 +9,7 @@ import { mergeResults } from '../run/merge.js';
 import { runReportCommand } from '../report/command.js';
 import { runMarginCommand } from '../margin/command.js';
 import { runBenchCommand } from '../bench/command.js';
+import { benchSuite, renderSuiteBench } from '../bench/suite.js';
 import { clearCache, printConfig, runConfiguredSuite } from '../config/commands.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
@@ -154,8 +155,19 @@ export async function main(argv: string[]): Promise<number> {
           .option('build', { alias: 'b', type: 'string', array: true, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
           .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
           .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
-          .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' }),
+          .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
+          .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' }),
       async (args) => {
+        if (args['suite-runs'] !== undefined) {
+          const runs = args['suite-runs'] as number;
+          if (!(Number.isInteger(runs) && runs > 0)) {
+            printError(`footing bench: --suite-runs ${runs}: expected a positive whole number`);
+            exitCode = EXIT.badInput;
+            return;
+          }
+          for (const line of renderSuiteBench(await benchSuite({ runs }))) print(line);
+          return;
+        }
         const outcome = await runBenchCommand({
           builds: args.build as string[],
           scenario: args.scenario as string | undefined,

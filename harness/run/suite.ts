@@ -4,6 +4,7 @@
 // where it stopped; the folder's summary files are assembled from those at the end.
 
 import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import path from 'node:path';
 import { buildManifest } from '../builds/provenance.js';
 import type { BuildSpec } from '../builds/spec.js';
@@ -239,7 +240,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
 }
 
 export function defaultJobs(): number {
-  return Math.max(1, (globalThis as { navigator?: { hardwareConcurrency?: number } }).navigator?.hardwareConcurrency ?? 1);
+  return Math.max(1, availableParallelism());
 }
 
 /** `run --bench`: the bench figures of every build on the standard bench scenario, attached to the results. */

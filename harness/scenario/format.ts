@@ -2,32 +2,19 @@
 // Optional fields are optional here exactly as in the schema; defaults.ts fills them.
 
 import type { GaitName } from '../builds/interface.js';
-import type { Vec3 } from '../plant/types.js';
+import type { RobotParams, Vec3 } from '../plant/types.js';
 
 export const SCENARIO_FORMAT = 'footing-scenario';
 export const ROBOT_FORMAT = 'footing-robot';
 
 export type Vec2 = [number, number];
 
-export interface RobotFile {
+/** A robot file is the plant's RobotParams plus the file's own header fields. */
+export interface RobotFile extends RobotParams {
   $schema?: string;
   format?: typeof ROBOT_FORMAT;
   formatVersion?: 1;
-  id: string;
-  name: string;
   description?: string;
-  trunk: { mass_kg: number; inertia_kgm2: [Vec3, Vec3, Vec3]; halfExtents_m: Vec3 };
-  hips_m: Vec3[];
-  foot: { mass_kg: number };
-  leg: {
-    minLength_m: number;
-    maxLength_m: number;
-    maxForce_N: number;
-    endStopStiffness_N_per_m: number;
-    endStopDamping_Ns_per_m: number;
-  };
-  standingHeight_m: number;
-  gait: { period_s: number; dutyFactor: number; swingApex_m: number };
 }
 
 export interface MaterialFile {
