@@ -67,8 +67,9 @@ export class Plant {
   private readonly inertia = new Float64Array(9);
   private readonly inertiaInverse = new Float64Array(9);
   private readonly halfExtents = new Float64Array(3);
-  private readonly boundingRadius: number;
   private readonly pushes: PushSchedule;
+  /** No patches and no raster: every foot always stands on the default material. */
+  private readonly uniformGround: boolean;
   private readonly contactStiffness: number;
   private readonly contactExponent: number;
   private readonly contactDamping: number;
@@ -96,6 +97,7 @@ export class Plant {
     this.totalMass_kg = this.trunkMass + n * this.footMass;
     gravityOnIncline(this.gravity_mps2, ground.incline_deg.pitch, ground.incline_deg.roll);
     this.friction = new FrictionField(ground.friction);
+    this.uniformGround = ground.friction.patches.length === 0 && ground.friction.raster === undefined;
     this.pushes = new PushSchedule(config.pushes);
     this.contactStiffness = ground.contact.stiffness_N_per_m;
     this.contactExponent = ground.contact.exponent;
@@ -104,7 +106,6 @@ export class Plant {
     this.inertia.set(robot.trunk.inertia_kgm2.flat());
     invertSymmetric3(this.inertiaInverse, this.inertia);
     this.halfExtents.set(robot.trunk.halfExtents_m);
-    this.boundingRadius = Math.hypot(...robot.trunk.halfExtents_m);
     this.hips = Float64Array.from(robot.hips_m.flat());
 
     this.footPosition_m = new Float64Array(3 * n);
@@ -291,9 +292,14 @@ export class Plant {
       torqueZ += wrench[5];
     }
 
-    // Trunk box on the ground (a fall): corners only, and only when the trunk is low enough.
+    // Trunk box on the ground (a fall): corners only, and only when the lowest corner is below the
+    // ground — its height is the centre's minus the box's support along world z (exact, 3 products).
     this.trunkGroundForce_N = 0;
-    if (p[2] < this.boundingRadius) {
+    const he0 = this.halfExtents[0];
+    const he1 = this.halfExtents[1];
+    const he2 = this.halfExtents[2];
+    const lowestCorner_m = p[2] - (Math.abs(R[6]) * he0 + Math.abs(R[7]) * he1 + Math.abs(R[8]) * he2);
+    if (lowestCorner_m < 0) {
       const he = this.halfExtents;
       for (let c = 0; c < 8; c++) {
         const bx = c & 1 ? he[0] : -he[0];
@@ -456,6 +462,7 @@ export class Plant {
   }
 
   private updateFootMaterials(): void {
+    if (this.uniformGround && this.stepCount > 0) return; // one material everywhere: nothing moves
     const mus = this.friction.materials.staticFriction;
     for (let i = 0; i < this.footCount; i++) {
       const m = this.friction.lookup(this.footPosition_m[3 * i], this.footPosition_m[3 * i + 1]);
