@@ -213,7 +213,8 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
         }
         writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(result)}\n`);
         results.set(pair.key, result);
-        progress.done(result, (performance.now() - started) / 1000);
+        // The run's own wall time (measured in its worker); queueing time is not the run's.
+        progress.done(result, result.sim?.wall_s ?? (performance.now() - started) / 1000);
       }),
     );
   } finally {
