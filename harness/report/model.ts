@@ -10,6 +10,7 @@ import { formatGateValue } from '../gate/render.js';
 import { GateInputError, type GateOutcome } from '../gate/types.js';
 import type { BuildManifest, ResultsFile, RunResult, RunStatus } from '../run/results/types.js';
 import { benchView, type BenchView } from './bench.js';
+import { familiesView, marginView, type FamilyView, type MarginView } from './margin.js';
 import { metricCells, type MetricCell } from './matrix.js';
 import {
   buildSwatch,
@@ -147,6 +148,10 @@ export interface ReportModel {
   scenarios: ScenarioView[];
   overviewAxes: { margin: SvgMarkup; slip: SvgMarkup };
   bench: BenchView;
+  /** Present only when some run carries a margin search (`footing margin`). */
+  margin: MarginView | null;
+  /** Present only when the results hold family scores. */
+  families: FamilyView[] | null;
   provenance: { scenarios: { id: string; title: string; revision: number; hash: string; file: string; anchor: string }[]; traces: { href: string; name: string }[] };
   legend: { better: string; worse: string; same: string };
 }
@@ -197,6 +202,7 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     (groups.get(key) as RunResult[]).push(run);
   }
   const anchors = new Map<string, string>();
+  const anchorByKey = new Map<string, string>();
   const scenarios: ScenarioView[] = [];
   const traces: { href: string; name: string }[] = [];
   let index = 0;
@@ -204,6 +210,7 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     const ref = runs[0].scenario;
     const anchor = `scenario-${index + 1}-${ref.id.replace(/[^A-Za-z0-9_-]/g, '-')}`;
     if (!anchors.has(ref.id)) anchors.set(ref.id, anchor);
+    anchorByKey.set(`${ref.id}\u0000${ref.hash}`, anchor);
     scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, outDir: options.outDir, traces }));
     index++;
   }
@@ -258,6 +265,8 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     scenarios,
     overviewAxes: { margin: marginAxis(), slip: slipAxis() },
     bench: benchView(options.bench),
+    margin: marginView(results, buildNames, (run) => anchorByKey.get(`${run.scenario.id}\u0000${run.scenario.hash}`) ?? ''),
+    families: familiesView(results, buildNames),
     provenance: {
       scenarios: scenarios.map((s) => ({ id: s.id, title: s.title, revision: s.revision, hash: s.hash, file: s.file, anchor: s.anchor })),
       traces,

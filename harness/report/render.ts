@@ -1,7 +1,7 @@
 // Lays the view model out with the handlebars templates of reports/templates/ (one partial per
 // section). Templates use {{ }} (escaped) for every string from results, scenarios and builds;
-// triple-stash appears only on SvgMarkup fields (built from numbers by plot/) and on our own
-// inline CSS and JS files.
+// triple-stash appears only on SvgMarkup fields (built from numbers by plot/, any results text
+// inside passed through escapeXml) and on our own inline CSS and JS files.
 
 import { readdirSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';

@@ -1,11 +1,14 @@
 // The report in a real browser: Debian's chromium driven by playwright-core, the page opened from
 // file:// as an engineer would open it on an air-gapped lab machine.
-import { existsSync, mkdirSync, mkdtempSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { renderReportHtml } from '../../harness/report/index.js';
+import type { ResultsFile } from '../../harness/run/results/types.js';
+import { withMarginData } from './margin-support.js';
 import { HOSTILE_STDERR, HOSTILE_TITLE, smallRun } from './support.js';
 
 const CHROMIUM = '/usr/bin/chromium';
@@ -28,12 +31,18 @@ describe.skipIf(!available)('report in headless chromium', () => {
   let context: BrowserContext;
   let page: Page;
   let url: string;
+  let marginUrl: string;
+  let marginResults: ResultsFile;
   const consoleErrors: string[] = [];
   const requests: string[] = [];
 
   beforeAll(async () => {
-    const { dir } = await smallRun();
+    const { dir, results } = await smallRun();
     url = pathToFileURL(path.join(dir, 'report.html')).href;
+    // The same run with hand-written margin searches and family scores (margin-support.ts).
+    marginResults = withMarginData(results);
+    writeFileSync(path.join(dir, 'margin.html'), renderReportHtml(marginResults, { outDir: dir, baseline: 'nominal' }));
+    marginUrl = pathToFileURL(path.join(dir, 'margin.html')).href;
     context = await chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), 'footing-chromium-')), {
       executablePath: CHROMIUM,
       headless: true,
@@ -122,6 +131,31 @@ describe.skipIf(!available)('report in headless chromium', () => {
     const target = (await link.getAttribute('href'))?.slice(1) ?? '';
     await link.click();
     expect(await page.locator(`[id="${target}"]`).evaluate((d) => (d as HTMLDetailsElement).open)).toBe(true);
+  });
+
+  it('draws the margin strips and family bars with one mark per probe, and filters them by build', async () => {
+    const before = consoleErrors.length;
+    const marginPage = await context.newPage();
+    const marginRequests: string[] = [];
+    marginPage.on('console', (message) => {
+      if (message.type() === 'error') consoleErrors.push(message.text());
+    });
+    marginPage.on('request', (request) => marginRequests.push(request.url()));
+    await marginPage.goto(marginUrl, { waitUntil: 'load' });
+    expect(consoleErrors.slice(before)).toEqual([]);
+    expect(marginRequests).toEqual([marginUrl]);
+    const samples = marginResults.runs.reduce((n, r) => n + (r.margin?.friction?.samples.length ?? 0) + (r.margin?.push?.samples.length ?? 0), 0);
+    expect(await marginPage.locator('#margin svg.strip path.probe').count()).toBe(samples);
+    expect(await marginPage.locator('#families svg.interval path.ci').count()).toBe(2);
+    const boxes = await marginPage.locator('#margin svg.strip').evaluateAll((svgs) => svgs.map((s) => (s as SVGGraphicsElement).getBoundingClientRect().width));
+    expect(boxes.every((w) => w > 100)).toBe(true);
+    const row = marginPage.locator('#margin .strip-row[data-build="1"]').first();
+    expect(await row.isVisible()).toBe(true);
+    mkdirSync(ARTIFACTS, { recursive: true });
+    await marginPage.locator('#margin').screenshot({ path: path.join(ARTIFACTS, 'report-margin.png') });
+    await marginPage.locator('input[data-filter="1"]').uncheck();
+    expect(await row.isVisible()).toBe(false);
+    await marginPage.close();
   });
 
   it('saves a screenshot of the page with every section open', async () => {

@@ -93,6 +93,8 @@ export class ReferenceController implements Controller {
   readonly qp: QuadraticDistributor | null;
   readonly swing: SwingPlanner;
   /** f0 (3 per leg), G (3 columns of 3 per leg), final forces, pyramid μ' per leg. */
+  /** f0 then G (views of linearForces). */
+  private readonly linearForces: Float64Array;
   readonly baseForces: Float64Array;
   readonly inputForces: Float64Array;
   readonly forces: Float64Array;
@@ -100,7 +102,6 @@ export class ReferenceController implements Controller {
   private readonly legCount: number;
   private readonly hipsBody: Float64Array;
   private readonly column = new Float64Array(6);
-  private readonly columnForces: Float64Array;
   private readonly velocityTarget = new Float64Array(GOVERNED_AXES);
   /** (trust, margin, f_min, f_max): passed as an array so no double is boxed per call. */
   private readonly band: Float64Array;
@@ -131,9 +132,9 @@ export class ReferenceController implements Controller {
       raibertGain_s: o.raibertGain_s,
       reach_m: stepReach_m(robot, o.stepReachFraction),
     });
-    this.baseForces = new Float64Array(3 * this.legCount);
-    this.inputForces = new Float64Array(3 * this.legCount * GOVERNED_AXES);
-    this.columnForces = new Float64Array(3 * this.legCount);
+    this.linearForces = new Float64Array(3 * this.legCount * (1 + GOVERNED_AXES));
+    this.baseForces = this.linearForces.subarray(0, 3 * this.legCount);
+    this.inputForces = this.linearForces.subarray(3 * this.legCount);
     this.forces = new Float64Array(3 * this.legCount);
     this.pyramid = new Float64Array(this.legCount);
     this.swingGains = new Float64Array([o.swingStiffness_N_per_m, o.swingDamping_Ns_per_m]);
@@ -221,14 +222,11 @@ export class ReferenceController implements Controller {
 
   /** f0 = D·w0 and G_j = D·B_j for the current stance set (the distribution is linear). */
   private linearise(): void {
-    const d = this.distributor, pd = this.pd, stride = 3 * this.legCount;
+    const d = this.distributor, pd = this.pd;
     d.prepare(this.scheduler.mode, this.trunk.hipArms);
-    d.solve(this.baseForces, pd.baseWrench);
-    for (let j = 0; j < GOVERNED_AXES; j++) {
-      for (let k = 0; k < 6; k++) this.column[k] = pd.inputWrench[6 * j + k];
-      d.solve(this.columnForces, this.column);
-      for (let k = 0; k < stride; k++) this.inputForces[j * stride + k] = this.columnForces[k];
-    }
+    // w0 then B's columns, packed 6 apiece (pd.wrenches), give f0 then G's columns, packed 3N
+    // apiece (this.linearForces): one call solves all four in place.
+    d.solveMany(this.linearForces, pd.wrenches, 1 + GOVERNED_AXES);
   }
 
   private composeForces(): void {

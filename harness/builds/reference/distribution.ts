@@ -11,7 +11,10 @@
 // regularisation puts on any achievable component, so a full-rank stance reproduces w to
 // rounding while the unachievable moment stays the Λ⁻¹-weighted least-squares compromise.
 
-import { choleskyInPlace, choleskySolve6 } from './linalg.js';
+import { choleskyInPlace, choleskySolve6Reciprocal } from './linalg.js';
+
+/** Right-hand sides solved side by side by solveMany (the controller has 1 + 3). */
+const BATCH = 4;
 
 export class ForceDistributor {
   readonly legCount: number;
@@ -23,9 +26,10 @@ export class ForceDistributor {
   readonly stance: Uint8Array;
   stanceCount = 0;
   private readonly factor = new Float64Array(36);
-  private readonly dual = new Float64Array(6);
-  private readonly correction = new Float64Array(6);
-  private readonly residual = new Float64Array(6);
+  private readonly inverseDiagonal = new Float64Array(6);
+  private readonly duals = new Float64Array(6 * BATCH);
+  private readonly corrections = new Float64Array(6 * BATCH);
+  private readonly residuals = new Float64Array(6 * BATCH);
 
   constructor(legCount: number, forceRegularisation: number, momentRegularisation_m2: number, refinementSteps: number) {
     this.legCount = legCount;
@@ -62,38 +66,91 @@ export class ForceDistributor {
     a[18] = 0; a[19] = -sz; a[20] = sy; a[21] = yy + zz + lt; a[22] = -xy; a[23] = -xz;
     a[24] = sz; a[25] = 0; a[26] = -sx; a[27] = -xy; a[28] = xx + zz + lt; a[29] = -yz;
     a[30] = -sy; a[31] = sx; a[32] = 0; a[33] = -xz; a[34] = -yz; a[35] = xx + yy + lt;
-    return choleskyInPlace(a, 6);
+    if (!choleskyInPlace(a, 6)) return false;
+    for (let k = 0; k < 6; k++) this.inverseDiagonal[k] = 1 / a[7 * k];
+    return true;
   }
 
   /** Forces (3 per leg, world; zero for swing legs) reproducing `wrench` (F, τ) as well as possible. */
   solve(forces: Float64Array, wrench: Float64Array): Float64Array {
     forces.fill(0);
-    if (this.stanceCount === 0) return forces;
-    choleskySolve6(this.dual, this.factor, wrench);
-    this.applyTranspose(forces, this.dual);
-    for (let pass = 0; pass < this.refinementSteps; pass++) {
-      wrenchOf(this.residual, forces, this.arms, this.stance, this.legCount);
-      for (let k = 0; k < 6; k++) this.residual[k] = wrench[k] - this.residual[k];
-      choleskySolve6(this.correction, this.factor, this.residual);
-      for (let k = 0; k < 6; k++) this.dual[k] += this.correction[k];
-      this.applyTranspose(forces, this.dual);
+    return this.solveMany(forces, wrench, 1);
+  }
+
+  /**
+   * solve() for `count` wrenches packed 6 apiece in `wrenches` (from index 0), writing each
+   * one's forces (3 per leg) packed in `forces`: the factor is shared and nothing is copied.
+   * Per right-hand side: y = (A·Aᵀ + Λ)⁻¹·w, f = Aᵀ·y, then refinementSteps passes of
+   * y += (A·Aᵀ + Λ)⁻¹·(w − A·f), f = Aᵀ·y.
+   */
+  solveMany(forces: Float64Array, wrenches: Float64Array, count: number): Float64Array {
+    const legs = this.legCount, stride = 3 * legs;
+    if (this.stanceCount === 0) {
+      forces.fill(0, 0, count * stride);
+      return forces;
+    }
+    for (let first = 0; first < count; first += BATCH) {
+      this.solveBatch(forces, wrenches, first, count - first < BATCH ? count - first : BATCH);
     }
     return forces;
   }
 
-  /** f_i = y_F + y_τ × r_i for stance legs (this is Aᵀ·y). */
-  private applyTranspose(forces: Float64Array, y: Float64Array): void {
-    const fx = y[0], fy = y[1], fz = y[2], tx = y[3], ty = y[4], tz = y[5];
+  /**
+   * Right-hand sides first … first + size − 1, phase by phase: the solves of different
+   * right-hand sides are independent, so issuing them back to back lets the processor overlap
+   * their (latency-bound) dependency chains, where one right-hand side after the other
+   * serialised them.
+   */
+  private solveBatch(forces: Float64Array, wrenches: Float64Array, first: number, size: number): void {
+    const legs = this.legCount, stride = 3 * legs;
+    const factor = this.factor, dual = this.duals, correction = this.corrections, residual = this.residuals;
+    const arms = this.arms, stance = this.stance, steps = this.refinementSteps;
+    for (let r = 0; r < size; r++) choleskySolve6Reciprocal(dual, 6 * r, factor, this.inverseDiagonal, wrenches, 6 * (first + r));
+    for (let r = 0; r < size; r++) this.applyTransposeAt(forces, (first + r) * stride, dual, 6 * r);
+    for (let pass = 0; pass < steps; pass++) {
+      for (let r = 0; r < size; r++) {
+        const fo = (first + r) * stride, wo = 6 * (first + r), ro = 6 * r;
+        let fx = 0, fy = 0, fz = 0, tx = 0, ty = 0, tz = 0;
+        for (let i = 0; i < legs; i++) {
+          if (stance[i] === 0) continue;
+          const o = 3 * i, p = fo + o;
+          const x = arms[o], y = arms[o + 1], z = arms[o + 2];
+          const px = forces[p], py = forces[p + 1], pz = forces[p + 2];
+          fx += px; fy += py; fz += pz;
+          tx += y * pz - z * py;
+          ty += z * px - x * pz;
+          tz += x * py - y * px;
+        }
+        residual[ro] = wrenches[wo] - fx;
+        residual[ro + 1] = wrenches[wo + 1] - fy;
+        residual[ro + 2] = wrenches[wo + 2] - fz;
+        residual[ro + 3] = wrenches[wo + 3] - tx;
+        residual[ro + 4] = wrenches[wo + 4] - ty;
+        residual[ro + 5] = wrenches[wo + 5] - tz;
+      }
+      for (let r = 0; r < size; r++) choleskySolve6Reciprocal(correction, 6 * r, factor, this.inverseDiagonal, residual, 6 * r);
+      for (let r = 0; r < size; r++) {
+        const ro = 6 * r;
+        for (let k = 0; k < 6; k++) dual[ro + k] += correction[ro + k];
+        this.applyTransposeAt(forces, (first + r) * stride, dual, ro);
+      }
+    }
+  }
+
+  /** f_i = y_F + y_τ × r_i for stance legs (this is Aᵀ·y), y from y[yo], f written from forces[fo] on. */
+  private applyTransposeAt(forces: Float64Array, fo: number, y: Float64Array, yo: number): void {
+    const fx = y[yo], fy = y[yo + 1], fz = y[yo + 2], tx = y[yo + 3], ty = y[yo + 4], tz = y[yo + 5];
+    const arms = this.arms, stance = this.stance;
     for (let i = 0; i < this.legCount; i++) {
-      const o = 3 * i;
-      if (this.stance[i] === 0) {
-        forces[o] = 0; forces[o + 1] = 0; forces[o + 2] = 0;
+      const o = 3 * i, p = fo + o;
+      if (stance[i] === 0) {
+        forces[p] = 0; forces[p + 1] = 0; forces[p + 2] = 0;
         continue;
       }
-      const x = this.arms[o], yy = this.arms[o + 1], z = this.arms[o + 2];
-      forces[o] = fx + (ty * z - tz * yy);
-      forces[o + 1] = fy + (tz * x - tx * z);
-      forces[o + 2] = fz + (tx * yy - ty * x);
+      const x = arms[o], yy = arms[o + 1], z = arms[o + 2];
+      forces[p] = fx + (ty * z - tz * yy);
+      forces[p + 1] = fy + (tz * x - tx * z);
+      forces[p + 2] = fz + (tx * yy - ty * x);
     }
   }
 }

@@ -141,10 +141,72 @@ export class ExplicitReferenceGovernor {
     const jumpTransposed = new Float64Array(m * n);
     for (let a = 0; a < n; a++) for (let j = 0; j < m; j++) jumpTransposed[j * n + a] = this.jump[a * m + j];
     [this.sStart, this.sIndex, this.sValue] = compressRows(jumpTransposed, m, n);
+    this.unitScale = new Uint8Array(m);
+    for (let j = 0; j < m; j++) this.unitScale[j] = this.scale[j] === 1 ? 1 : 0;
+    this.blockPattern = isBlockPattern(m, n, this.piStart, this.piIndex, this.sStart);
   }
+
+  /**
+   * True when m = 3, n = 6, P⁻¹ is block-diagonal in three full 2×2 blocks and each column of S
+   * has exactly one nonzero: the trunk governor's shape, for which refreshConstraint is written out.
+   */
+  private readonly blockPattern: boolean;
+  /** 1 where scale[j] === 1. */
+  private readonly unitScale: Uint8Array;
 
   /** Recomputes the cached denominator, Sᵀc and repulsion normal of constraint k (set kinds[k] first). */
   refreshConstraint(k: number): void {
+    if (this.blockPattern) this.refreshBlockConstraint(k);
+    else this.refreshGenericConstraint(k);
+  }
+
+  /**
+   * refreshConstraint() for the block pattern (see blockPattern), written out: the same products
+   * summed in the same order as the compressed-row loops, so the same bits.
+   */
+  private refreshBlockConstraint(k: number): void {
+    const c = this.rows, o = 6 * k, pv = this.piValue;
+    // No skipping of zero entries here: for finite c a skipped term is ±0 and s (which starts
+    // at +0) is unchanged by adding it; with an infinite or NaN entry both forms end in
+    // s = ∞ or NaN, i.e. a zero weight below. So the bits are those of the compressed loops.
+    let s = 0;
+    for (let b = 0; b < 3; b++) {
+      const ca = c[o + 2 * b], cb = c[o + 2 * b + 1], e = 4 * b;
+      s += ca * pv[e] * ca;
+      s += ca * pv[e + 1] * cb;
+      s += cb * pv[e + 2] * ca;
+      s += cb * pv[e + 3] * cb;
+    }
+    this.inverseSqrtDenominator[k] = s > 1e-300 ? 1 / Math.sqrt(s) : 0;
+    const sIndex = this.sIndex, sValue = this.sValue, scale = this.scale;
+    const instant = this.kinds[k] === INSTANT, mo = 3 * k;
+    const t0 = 0 + sValue[0] * c[o + sIndex[0]];
+    const t1 = 0 + sValue[1] * c[o + sIndex[1]];
+    const t2 = 0 + sValue[2] * c[o + sIndex[2]];
+    this.jumpRows[mo] = t0;
+    this.jumpRows[mo + 1] = t1;
+    this.jumpRows[mo + 2] = t2;
+    let n0 = this.referenceRows[mo], n1 = this.referenceRows[mo + 1], n2 = this.referenceRows[mo + 2];
+    if (instant) {
+      n0 += t0; n1 += t1; n2 += t2;
+    }
+    // x/1 = x exactly, so unit axes skip the division (same bits, fewer divisions).
+    const unit = this.unitScale;
+    if (unit[0] === 0) n0 /= scale[0];
+    if (unit[1] === 0) n1 /= scale[1];
+    if (unit[2] === 0) n2 /= scale[2];
+    let norm2 = 0;
+    norm2 += n0 * n0;
+    norm2 += n1 * n1;
+    norm2 += n2 * n2;
+    const inverseNorm = norm2 > 0 ? 1 / Math.sqrt(norm2) : 0;
+    this.repulsionInverseNorm[k] = inverseNorm;
+    this.repulsionNormal[mo] = n0 * inverseNorm;
+    this.repulsionNormal[mo + 1] = n1 * inverseNorm;
+    this.repulsionNormal[mo + 2] = n2 * inverseNorm;
+  }
+
+  private refreshGenericConstraint(k: number): void {
     const n = this.n, m = this.m, c = this.rows, o = k * n;
     const piStart = this.piStart, piIndex = this.piIndex, piValue = this.piValue;
     let s = 0;
@@ -212,6 +274,125 @@ export class ExplicitReferenceGovernor {
 
   /** One governor step: moves `applied` toward `target` given the current error state z. */
   update(z: ArrayLike<number>, target: ArrayLike<number>): void {
+    if (this.m === 3 && this.n === 6) this.update3x6(z, target);
+    else this.updateGeneric(z, target);
+  }
+
+  /**
+   * update() for m = 3, n = 6 (the trunk governor), written out. Same operations in the same
+   * order as updateGeneric (so the same bits), except that the threshold pass is folded into
+   * the repulsion pass (both only read the table) and field/scale is divided once per axis, not
+   * once per constraint (the same quotient). Profiled: the generic loops' index arithmetic and
+   * bounds checks were most of the governor's cost.
+   */
+  private update3x6(z: ArrayLike<number>, target: ArrayLike<number>): void {
+    const v = this.applied, scale = this.scale, field = this.field, last = this.last;
+    this.computeLyapunov(z);
+    const lyap = last[0];
+    const sqrtV = Math.sqrt(lyap);
+    const z0 = z[0], z1 = z[1], z2 = z[2], z3 = z[3], z4 = z[4], z5 = z[5];
+    const v0 = v[0], v1 = v[1], v2 = v[2];
+    const s0 = scale[0], s1 = scale[1], s2 = scale[2];
+
+    // Attraction, in scaled reference coordinates.
+    let f0 = (target[0] - v0) * s0, f1 = (target[1] - v1) * s1, f2 = (target[2] - v2) * s2;
+    let distance = 0;
+    distance += f0 * f0;
+    distance += f1 * f1;
+    distance += f2 * f2;
+    distance = Math.sqrt(distance);
+    const reach = distance > this.smoothing ? distance : this.smoothing;
+    f0 /= reach; f1 /= reach; f2 /= reach;
+
+    // √Γ (computeThreshold) and the repulsion from the hyperplanes within the influence zone ζ.
+    const influence = this.influence, span = influence - this.margin, count = this.count;
+    const rows = this.rows, jumpRows = this.jumpRows, normals = this.repulsionNormal, bounds = this.bounds;
+    const kinds = this.kinds, inverseNorms = this.repulsionInverseNorm;
+    const referenceRows = this.referenceRows, weights = this.inverseSqrtDenominator;
+    let best = Infinity;
+    for (let k = 0; k < count; k++) {
+      const o = 6 * k, mo = 3 * k;
+      const bound = bounds[k];
+      const e0 = referenceRows[mo], e1 = referenceRows[mo + 1], e2 = referenceRows[mo + 2];
+      const w = weights[k];
+      let marginK = bound;
+      marginK -= e0 * v0;
+      marginK -= e1 * v1;
+      marginK -= e2 * v2;
+      if (w === 0) {
+        if (marginK < 0) best = 0;
+      } else {
+        const level = marginK > 0 ? marginK * w : 0;
+        if (level < best) best = level;
+      }
+      const inverseNorm = inverseNorms[k];
+      if (inverseNorm === 0) continue;
+      let offset = bound;
+      if (kinds[k] === INSTANT) {
+        offset -= rows[o] * z0;
+        offset -= rows[o + 1] * z1;
+        offset -= rows[o + 2] * z2;
+        offset -= rows[o + 3] * z3;
+        offset -= rows[o + 4] * z4;
+        offset -= rows[o + 5] * z5;
+        offset += jumpRows[mo] * v0;
+        offset += jumpRows[mo + 1] * v1;
+        offset += jumpRows[mo + 2] * v2;
+      }
+      const n0 = normals[mo], n1 = normals[mo + 1], n2 = normals[mo + 2];
+      let value = 0;
+      value += n0 * v0 * s0;
+      value += n1 * v1 * s1;
+      value += n2 * v2 * s2;
+      const dist = offset * inverseNorm - value;
+      if (dist >= influence) continue;
+      const strength = (influence - dist) / span;
+      f0 -= strength * n0;
+      f1 -= strength * n1;
+      f2 -= strength * n2;
+    }
+    last[3] = best;
+    const sqrtGamma = best;
+    const threshold = sqrtGamma * sqrtGamma;
+    last[1] = threshold;
+    field[0] = f0; field[1] = f1; field[2] = f2;
+
+    // Dynamic safety margin, with the discrete-time and no-overshoot caps.
+    let delta = this.gain * (threshold - lyap);
+    if (!(delta > 0)) delta = 0;
+    if (delta > 0) {
+      const u0 = f0 / s0, u1 = f1 / s1, u2 = f2 / s2;
+      const jumpNorm = this.jumpNorm;
+      let beta = 0;
+      beta += Math.abs(u0) * jumpNorm[0];
+      beta += Math.abs(u1) * jumpNorm[1];
+      beta += Math.abs(u2) * jumpNorm[2];
+      let shift = 0;
+      for (let k = 0; k < count; k++) {
+        const mo = 3 * k;
+        let s = 0;
+        s += referenceRows[mo] * u0;
+        s += referenceRows[mo + 1] * u1;
+        s += referenceRows[mo + 2] * u2;
+        const t = Math.abs(s) * weights[k];
+        if (t > shift) shift = t;
+      }
+      beta += shift;
+      if (beta > 0 && sqrtGamma !== Infinity) {
+        const cap = (sqrtGamma - sqrtV) / (this.period_s * beta);
+        if (delta > cap) delta = cap > 0 ? cap : 0;
+      }
+      const noOvershoot = reach / this.period_s;
+      if (delta > noOvershoot) delta = noOvershoot;
+    }
+    last[2] = delta;
+    const step = this.period_s * delta;
+    v[0] = v0 + (step * f0) / s0;
+    v[1] = v1 + (step * f1) / s1;
+    v[2] = v2 + (step * f2) / s2;
+  }
+
+  private updateGeneric(z: ArrayLike<number>, target: ArrayLike<number>): void {
     const m = this.m, n = this.n, v = this.applied, scale = this.scale, field = this.field;
     this.computeLyapunov(z);
     this.computeThreshold();
@@ -280,6 +461,17 @@ export class ExplicitReferenceGovernor {
     const step = this.period_s * delta;
     for (let j = 0; j < m; j++) v[j] += (step * field[j]) / scale[j];
   }
+}
+
+function isBlockPattern(m: number, n: number, piStart: Int32Array, piIndex: Int32Array, sStart: Int32Array): boolean {
+  if (m !== 3 || n !== 6) return false;
+  for (let a = 0; a < n; a++) {
+    const first = a - (a % 2);
+    if (piStart[a] !== 2 * a || piStart[a + 1] !== 2 * a + 2) return false;
+    if (piIndex[2 * a] !== first || piIndex[2 * a + 1] !== first + 1) return false;
+  }
+  for (let j = 0; j < m; j++) if (sStart[j] !== j || sStart[j + 1] !== j + 1) return false;
+  return true;
 }
 
 /** Compressed rows (start, column index, value) of the nonzeros of a rows×cols row-major matrix (setup only). */

@@ -42,7 +42,8 @@ export class TrunkGovernor {
   private readonly kd: Float64Array;
   private readonly maxSpeed_mps: number;
   private readonly maxYawRate_radps: number;
-  private readonly side = new Float64Array(3);
+  /** c·G_j of the current foot, side s of axis j at [6·j + s]. */
+  private readonly sensitivity = new Float64Array(6 * GOVERNED_AXES);
 
   constructor(config: TrunkGovernorConfig) {
     this.legCount = config.legCount;
@@ -117,36 +118,43 @@ export class TrunkGovernor {
     band: Float64Array,
   ): void {
     const minNormal_N = band[2], maxNormal_N = band[3];
-    const erg = this.erg, legs = this.legCount, stride = 3 * legs, c = this.side;
+    const erg = this.erg, legs = this.legCount, stride = 3 * legs;
+    const rows = erg.rows, referenceRows = erg.referenceRows, bounds = erg.bounds, kinds = erg.kinds;
+    const kp = this.kp, kd = this.kd, sens = this.sensitivity;
     let k = 0;
     for (let i = 0; i < legs; i++) {
       if (stance[i] === 0) continue;
-      const mu = pyramid[i];
-      for (let s = 0; s < CONSTRAINTS_PER_FOOT; s++) {
-        let bound = 0;
-        if (s < 4) {
-          c[0] = s === 0 ? 1 : s === 1 ? -1 : 0;
-          c[1] = s === 2 ? 1 : s === 3 ? -1 : 0;
-          c[2] = -mu;
-        } else if (s === 4) {
-          c[0] = 0; c[1] = 0; c[2] = -1;
-          bound = -minNormal_N;
-        } else {
-          c[0] = 0; c[1] = 0; c[2] = 1;
-          bound = maxNormal_N;
-        }
-        const o = 3 * i;
-        bound -= c[0] * baseForces[o] + c[1] * baseForces[o + 1] + c[2] * baseForces[o + 2];
+      const mu = pyramid[i], minusMu = -mu;
+      const o = 3 * i;
+      const b0 = baseForces[o], b1 = baseForces[o + 1], b2 = baseForces[o + 2];
+      // The six sides c of this foot (see the header), written out with the same products and
+      // sums as c·f (zero entries included, so the bits match the generic form): first the
+      // bounds d − c·f0, then c·G_j per axis into sens[6·axis + side].
+      bounds[k] = 0 - (1 * b0 + 0 * b1 + minusMu * b2);
+      bounds[k + 1] = 0 - (-1 * b0 + 0 * b1 + minusMu * b2);
+      bounds[k + 2] = 0 - (0 * b0 + 1 * b1 + minusMu * b2);
+      bounds[k + 3] = 0 - (0 * b0 + -1 * b1 + minusMu * b2);
+      bounds[k + 4] = -minNormal_N - (0 * b0 + 0 * b1 + -1 * b2);
+      bounds[k + 5] = maxNormal_N - (0 * b0 + 0 * b1 + 1 * b2);
+      for (let axis = 0; axis < GOVERNED_AXES; axis++) {
+        const g = axis * stride + o, so = 6 * axis;
+        const gx = inputForces[g], gy = inputForces[g + 1], gz = inputForces[g + 2];
+        sens[so] = 1 * gx + 0 * gy + minusMu * gz;
+        sens[so + 1] = -1 * gx + 0 * gy + minusMu * gz;
+        sens[so + 2] = 0 * gx + 1 * gy + minusMu * gz;
+        sens[so + 3] = 0 * gx + -1 * gy + minusMu * gz;
+        sens[so + 4] = 0 * gx + 0 * gy + -1 * gz;
+        sens[so + 5] = 0 * gx + 0 * gy + 1 * gz;
+      }
+      for (let side = 0; side < CONSTRAINTS_PER_FOOT; side++) {
         const rowOffset = k * 6;
         for (let axis = 0; axis < GOVERNED_AXES; axis++) {
-          const g = axis * stride + o;
-          const sensitivity = c[0] * inputForces[g] + c[1] * inputForces[g + 1] + c[2] * inputForces[g + 2];
-          erg.rows[rowOffset + 2 * axis] = -sensitivity * this.kp[axis];
-          erg.rows[rowOffset + 2 * axis + 1] = -sensitivity * this.kd[axis];
-          erg.referenceRows[k * GOVERNED_AXES + axis] = 0;
+          const sensitivity = sens[6 * axis + side];
+          rows[rowOffset + 2 * axis] = -sensitivity * kp[axis];
+          rows[rowOffset + 2 * axis + 1] = -sensitivity * kd[axis];
+          referenceRows[k * GOVERNED_AXES + axis] = 0;
         }
-        erg.bounds[k] = bound;
-        erg.kinds[k] = INSTANT;
+        kinds[k] = INSTANT;
         erg.refreshConstraint(k);
         k++;
       }

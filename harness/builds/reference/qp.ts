@@ -60,6 +60,18 @@ export class QuadraticDistributor {
     this.order = new Int32Array(legCount);
   }
 
+  /** Whether the stance feet's forces meet all six constraints each (slack ≥ 0, as the solver tests). */
+  private feasible(forces: Float64Array, feet: number, pyramid: Float64Array, min_N: number, max_N: number): boolean {
+    for (let a = 0; a < feet; a++) {
+      const leg = this.order[a], ia = 3 * leg, mu = pyramid[leg];
+      const fx = forces[ia], fy = forces[ia + 1], fz = forces[ia + 2];
+      const cone = mu * fz;
+      if (!(cone - fx >= 0 && cone + fx >= 0 && cone - fy >= 0 && cone + fy >= 0)) return false;
+      if (!(fz - min_N >= 0 && max_N - fz >= 0)) return false;
+    }
+    return true;
+  }
+
   /**
    * Replaces `forces` (the least-squares solution on entry) by the QP solution. Returns false
    * (forces unchanged) when the solver reports a failure. pyramid: μ' per leg; band =
@@ -71,6 +83,11 @@ export class QuadraticDistributor {
     for (let i = 0; i < this.legCount; i++) if (stance[i] !== 0) this.order[feet++] = i;
     this.activeConstraints = 0;
     if (feet === 0) return true;
+    // H is positive definite, so when f_LS already satisfies every constraint it is the QP's
+    // unique minimiser (objective 0) and the solver, which starts from the unconstrained
+    // minimum, would return it with no active constraint (up to the rounding of its own
+    // factorisation). Skipping the call then saves the solver's set-up and its allocations.
+    if (this.feasible(forces, feet, pyramid, min_N, max_N)) return true;
     const problem = this.problems[feet];
     const { dmat, dvec, amat, bvec, flags } = problem;
     const w = this.momentWeight_per_m2;

@@ -124,10 +124,12 @@ export class TrunkPD {
   readonly options: ReferenceOptions;
   /** z = (e_px, e_vx, e_py, e_vy, e_ψ, e_ω) against the reference (velocity part: see setVelocityReference). */
   readonly error = new Float64Array(6);
+  /** baseWrench then inputWrench in one buffer, so the distribution solves all four at once. */
+  readonly wrenches = new Float64Array(24);
   /** Wrench without the governed axes (u = 0). */
-  readonly baseWrench = new Float64Array(6);
+  readonly baseWrench = this.wrenches.subarray(0, 6);
   /** B: wrench per unit of u_j, column j at [6j, 6j+6). */
-  readonly inputWrench = new Float64Array(18);
+  readonly inputWrench = this.wrenches.subarray(6, 24);
   /** Governed accelerations u = −K·z. */
   readonly input = new Float64Array(3);
   /** Measured velocities of the governed axes (v_x, v_y, ω_z world). */

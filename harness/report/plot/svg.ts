@@ -1,6 +1,7 @@
 // SVG text helpers. Plot markup is assembled from numbers only; the one function that may put
-// text into SVG is escapeXml, and every text it receives in this project is our own (axis units)
-// or a number. SvgMarkup marks strings built this way so templates can inline them.
+// text into SVG is escapeXml. The text it receives is our own (axis units) or a number, except
+// the margin marks' hover titles (plot/margin.ts), which quote acceptance sentences from results.
+// SvgMarkup marks strings built this way so templates can inline them.
 
 export type SvgMarkup = string & { readonly __svgFromNumbers: true };
 
