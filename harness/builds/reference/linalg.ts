@@ -84,20 +84,8 @@ export function choleskySolve6Reciprocal(x: Float64Array, xo: number, l: Float64
   x[xo] = x0; x[xo + 1] = x1; x[xo + 2] = x2; x[xo + 3] = x3; x[xo + 4] = x4; x[xo + 5] = x5;
 }
 
-/** Rotation matrix (row-major 3×3, trunk → world) from a unit quaternion (w, x, y, z). */
-export function matrixFromQuaternion(out: Float64Array, q: Float64Array): Float64Array {
-  const w = q[0], x = q[1], y = q[2], z = q[3];
-  out[0] = 1 - 2 * (y * y + z * z);
-  out[1] = 2 * (x * y - w * z);
-  out[2] = 2 * (x * z + w * y);
-  out[3] = 2 * (x * y + w * z);
-  out[4] = 1 - 2 * (x * x + z * z);
-  out[5] = 2 * (y * z - w * x);
-  out[6] = 2 * (x * z - w * y);
-  out[7] = 2 * (y * z + w * x);
-  out[8] = 1 - 2 * (x * x + y * y);
-  return out;
-}
+/** Rotation matrix (row-major 3×3, trunk → world) from a unit quaternion: the plant's helper. */
+export { matrixFromQuaternion } from '../../plant/rotation.js';
 
 /** out[o..o+3) = R · v[vo..vo+3). out must not alias v. */
 export function rotate(out: Float64Array, o: number, r: Float64Array, v: Float64Array, vo: number): void {
