@@ -77,8 +77,6 @@ export class Plant {
   // Scratch.
   private readonly rotation = new Float64Array(9);
   private readonly bodyTorque = new Float64Array(3);
-  private readonly stages = new Float64Array(28);
-  private readonly stageInput = new Float64Array(7);
   private readonly friction2 = new Float64Array(2);
   private readonly pushWrench = new Float64Array(6);
   private readonly clock = new Float64Array(1);
@@ -381,58 +379,71 @@ export class Plant {
   }
 
   /**
-   * RK4 over one step. Stage inputs go through the scratch array `stageInput` rather than as
-   * arguments: doubles passed to a call V8 does not inline are boxed, which would allocate.
+   * Classical RK4 over one step of Euler's equations I·ω̇ = τ − ω × Iω and the quaternion
+   * kinematics q̇ = ½·q ⊗ (0, ω), the body torque τ held. The four stage evaluations are written out
+   * with every value in a local variable: no stage arrays, and no double crosses a call boundary
+   * (which would box it).
    */
   private integrateRotation(): void {
     const h = this.step_s;
+    const half = 0.5 * h;
     const q = this.trunkQuaternion;
     const w = this.trunkAngularVelocity_radps;
-    const k = this.stages;
-    const x = this.stageInput;
-    for (let j = 0; j < 4; j++) x[j] = q[j];
-    for (let j = 0; j < 3; j++) x[4 + j] = w[j];
-    this.rotationDerivative(0);
-    for (let j = 0; j < 4; j++) x[j] = q[j] + 0.5 * h * k[j];
-    for (let j = 0; j < 3; j++) x[4 + j] = w[j] + 0.5 * h * k[4 + j];
-    this.rotationDerivative(7);
-    for (let j = 0; j < 4; j++) x[j] = q[j] + 0.5 * h * k[7 + j];
-    for (let j = 0; j < 3; j++) x[4 + j] = w[j] + 0.5 * h * k[11 + j];
-    this.rotationDerivative(14);
-    for (let j = 0; j < 4; j++) x[j] = q[j] + h * k[14 + j];
-    for (let j = 0; j < 3; j++) x[4 + j] = w[j] + h * k[18 + j];
-    this.rotationDerivative(21);
-    const sixth = h / 6;
-    for (let j = 0; j < 4; j++) q[j] += sixth * (k[j] + 2 * k[7 + j] + 2 * k[14 + j] + k[21 + j]);
-    for (let j = 0; j < 3; j++) w[j] += sixth * (k[4 + j] + 2 * k[11 + j] + 2 * k[18 + j] + k[25 + j]);
-    const norm = Math.sqrt(q[0] * q[0] + q[1] * q[1] + q[2] * q[2] + q[3] * q[3]);
-    q[0] /= norm;
-    q[1] /= norm;
-    q[2] /= norm;
-    q[3] /= norm;
-  }
-
-  /** Euler's equations I·ω̇ = τ − ω × Iω and q̇ = ½·q ⊗ (0, ω) at stageInput, into stages[at..at+6]. */
-  private rotationDerivative(at: number): void {
     const I = this.inertia;
     const Ii = this.inertiaInverse;
     const tb = this.bodyTorque;
-    const k = this.stages;
-    const x = this.stageInput;
-    const qw = x[0], qx = x[1], qy = x[2], qz = x[3], wx = x[4], wy = x[5], wz = x[6];
-    const lx = I[0] * wx + I[1] * wy + I[2] * wz;
-    const ly = I[3] * wx + I[4] * wy + I[5] * wz;
-    const lz = I[6] * wx + I[7] * wy + I[8] * wz;
-    const ex = tb[0] - (wy * lz - wz * ly);
-    const ey = tb[1] - (wz * lx - wx * lz);
-    const ez = tb[2] - (wx * ly - wy * lx);
-    k[at] = -0.5 * (qx * wx + qy * wy + qz * wz);
-    k[at + 1] = 0.5 * (qw * wx + qy * wz - qz * wy);
-    k[at + 2] = 0.5 * (qw * wy + qz * wx - qx * wz);
-    k[at + 3] = 0.5 * (qw * wz + qx * wy - qy * wx);
-    k[at + 4] = Ii[0] * ex + Ii[1] * ey + Ii[2] * ez;
-    k[at + 5] = Ii[3] * ex + Ii[4] * ey + Ii[5] * ez;
-    k[at + 6] = Ii[6] * ex + Ii[7] * ey + Ii[8] * ez;
+    const I0 = I[0], I1 = I[1], I2 = I[2], I3 = I[3], I4 = I[4], I5 = I[5], I6 = I[6], I7 = I[7], I8 = I[8];
+    const J0 = Ii[0], J1 = Ii[1], J2 = Ii[2], J3 = Ii[3], J4 = Ii[4], J5 = Ii[5], J6 = Ii[6], J7 = Ii[7], J8 = Ii[8];
+    const tx = tb[0], ty = tb[1], tz = tb[2];
+    const q0 = q[0], q1 = q[1], q2 = q[2], q3 = q[3], w0 = w[0], w1 = w[1], w2 = w[2];
+
+    // Stage 1 at (q, ω).
+    let lx = I0 * w0 + I1 * w1 + I2 * w2, ly = I3 * w0 + I4 * w1 + I5 * w2, lz = I6 * w0 + I7 * w1 + I8 * w2;
+    let ex = tx - (w1 * lz - w2 * ly), ey = ty - (w2 * lx - w0 * lz), ez = tz - (w0 * ly - w1 * lx);
+    const a0 = -0.5 * (q1 * w0 + q2 * w1 + q3 * w2), a1 = 0.5 * (q0 * w0 + q2 * w2 - q3 * w1);
+    const a2 = 0.5 * (q0 * w1 + q3 * w0 - q1 * w2), a3 = 0.5 * (q0 * w2 + q1 * w1 - q2 * w0);
+    const a4 = J0 * ex + J1 * ey + J2 * ez, a5 = J3 * ex + J4 * ey + J5 * ez, a6 = J6 * ex + J7 * ey + J8 * ez;
+
+    // Stage 2 at the half step along stage 1.
+    let pw = q0 + half * a0, px = q1 + half * a1, py = q2 + half * a2, pz = q3 + half * a3;
+    let vx = w0 + half * a4, vy = w1 + half * a5, vz = w2 + half * a6;
+    lx = I0 * vx + I1 * vy + I2 * vz; ly = I3 * vx + I4 * vy + I5 * vz; lz = I6 * vx + I7 * vy + I8 * vz;
+    ex = tx - (vy * lz - vz * ly); ey = ty - (vz * lx - vx * lz); ez = tz - (vx * ly - vy * lx);
+    const b0 = -0.5 * (px * vx + py * vy + pz * vz), b1 = 0.5 * (pw * vx + py * vz - pz * vy);
+    const b2 = 0.5 * (pw * vy + pz * vx - px * vz), b3 = 0.5 * (pw * vz + px * vy - py * vx);
+    const b4 = J0 * ex + J1 * ey + J2 * ez, b5 = J3 * ex + J4 * ey + J5 * ez, b6 = J6 * ex + J7 * ey + J8 * ez;
+
+    // Stage 3 at the half step along stage 2.
+    pw = q0 + half * b0; px = q1 + half * b1; py = q2 + half * b2; pz = q3 + half * b3;
+    vx = w0 + half * b4; vy = w1 + half * b5; vz = w2 + half * b6;
+    lx = I0 * vx + I1 * vy + I2 * vz; ly = I3 * vx + I4 * vy + I5 * vz; lz = I6 * vx + I7 * vy + I8 * vz;
+    ex = tx - (vy * lz - vz * ly); ey = ty - (vz * lx - vx * lz); ez = tz - (vx * ly - vy * lx);
+    const c0 = -0.5 * (px * vx + py * vy + pz * vz), c1 = 0.5 * (pw * vx + py * vz - pz * vy);
+    const c2 = 0.5 * (pw * vy + pz * vx - px * vz), c3 = 0.5 * (pw * vz + px * vy - py * vx);
+    const c4 = J0 * ex + J1 * ey + J2 * ez, c5 = J3 * ex + J4 * ey + J5 * ez, c6 = J6 * ex + J7 * ey + J8 * ez;
+
+    // Stage 4 at the full step along stage 3.
+    pw = q0 + h * c0; px = q1 + h * c1; py = q2 + h * c2; pz = q3 + h * c3;
+    vx = w0 + h * c4; vy = w1 + h * c5; vz = w2 + h * c6;
+    lx = I0 * vx + I1 * vy + I2 * vz; ly = I3 * vx + I4 * vy + I5 * vz; lz = I6 * vx + I7 * vy + I8 * vz;
+    ex = tx - (vy * lz - vz * ly); ey = ty - (vz * lx - vx * lz); ez = tz - (vx * ly - vy * lx);
+    const d0 = -0.5 * (px * vx + py * vy + pz * vz), d1 = 0.5 * (pw * vx + py * vz - pz * vy);
+    const d2 = 0.5 * (pw * vy + pz * vx - px * vz), d3 = 0.5 * (pw * vz + px * vy - py * vx);
+    const d4 = J0 * ex + J1 * ey + J2 * ez, d5 = J3 * ex + J4 * ey + J5 * ez, d6 = J6 * ex + J7 * ey + J8 * ez;
+
+    const sixth = h / 6;
+    const nw = q0 + sixth * (a0 + 2 * b0 + 2 * c0 + d0);
+    const nx = q1 + sixth * (a1 + 2 * b1 + 2 * c1 + d1);
+    const ny = q2 + sixth * (a2 + 2 * b2 + 2 * c2 + d2);
+    const nz = q3 + sixth * (a3 + 2 * b3 + 2 * c3 + d3);
+    w[0] = w0 + sixth * (a4 + 2 * b4 + 2 * c4 + d4);
+    w[1] = w1 + sixth * (a5 + 2 * b5 + 2 * c5 + d5);
+    w[2] = w2 + sixth * (a6 + 2 * b6 + 2 * c6 + d6);
+    const norm = Math.sqrt(nw * nw + nx * nx + ny * ny + nz * nz);
+    q[0] = nw / norm;
+    q[1] = nx / norm;
+    q[2] = ny / norm;
+    q[3] = nz / norm;
   }
 
   private placeFeet(feet: PlantConfig['initial']['feet']): void {
