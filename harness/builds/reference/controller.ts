@@ -13,6 +13,7 @@ import {
   SWING,
   type Action,
   type Controller,
+  type GaitName,
   type ControllerSetup,
   type Observation,
 } from '../interface.js';
@@ -36,6 +37,13 @@ export interface Variant {
   /** Option defaults this build changes (e.g. frictionTrust for the over-trusting build). */
   defaults?: Partial<ReferenceOptions>;
 }
+
+/**
+ * Below these the applied reference counts as stopped and a governed build may plant its feet
+ * (common practice: a few centimetres per second, a few degrees per second).
+ */
+const STOP_SPEED_mps = 0.03;
+const STOP_YAW_RATE_radps = 0.05;
 
 const CORE_TELEMETRY = [
   'reference.vx',
@@ -166,7 +174,7 @@ export class ReferenceController implements Controller {
     if (!reference.initialised) reference.reset(obs, this.robot.standingHeight_m);
 
     trunk.update(obs, this.hipsBody);
-    sched.update(obs.command.gait);
+    sched.update(this.gaitFor(obs));
     for (let i = 0; i < legs; i++) {
       if (sched.liftOff[i] !== 0) this.swing.captureLiftOff(i, obs.footPosition_m);
     }
@@ -200,6 +208,20 @@ export class ReferenceController implements Controller {
     this.writeLegs(obs, action);
     this.writeTelemetry(action);
     reference.advance(obs);
+  }
+
+  /**
+   * The gait to step. A governed build keeps trotting after a stop command while its applied
+   * reference (last tick's) still moves: the governor brings the reference down only as fast as the
+   * friction allows, and standing on planted feet under a still-moving trunk drags them. The other
+   * builds apply the command at once, so for them this is the command's gait.
+   */
+  private gaitFor(obs: Observation): GaitName {
+    const gait = obs.command.gait;
+    if (gait !== 'stand' || this.governor === null || !this.reference.initialised) return gait;
+    const v = this.reference.velocity_mps;
+    const moving = v[0] * v[0] + v[1] * v[1] > STOP_SPEED_mps * STOP_SPEED_mps || Math.abs(this.reference.yawRate_radps) > STOP_YAW_RATE_radps;
+    return moving ? 'trot' : gait;
   }
 
   /**
