@@ -3,7 +3,7 @@
 // not on constants. The ring is preallocated; recording copies into it, replay hands out its
 // entries in order and wraps.
 
-import { createObservation, type Action, type Observation } from '../builds/interface.js';
+import { copyObservation, createObservation, type Action, type Observation } from '../builds/interface.js';
 import type { OpenedBuild } from '../builds/loader.js';
 
 export class ObservationRing {
@@ -39,21 +39,6 @@ export class ObservationRing {
   }
 }
 
-export function copyObservation(into: Observation, from: Observation): void {
-  into.time_s = from.time_s;
-  into.trunkPosition_m.set(from.trunkPosition_m);
-  into.trunkQuaternion.set(from.trunkQuaternion);
-  into.trunkVelocity_mps.set(from.trunkVelocity_mps);
-  into.trunkAngularVelocity_radps.set(from.trunkAngularVelocity_radps);
-  into.footPosition_m.set(from.footPosition_m);
-  into.footVelocity_mps.set(from.footVelocity_mps);
-  into.footForce_N.set(from.footForce_N);
-  into.footContact.set(from.footContact);
-  into.frictionEstimate.set(from.frictionEstimate);
-  into.command.gait = from.command.gait;
-  into.command.velocity_mps.set(from.command.velocity_mps);
-  into.command.yawRate_radps = from.command.yawRate_radps;
-}
 
 /**
  * Wraps an opened build so that every `everyNth` tick's observation is copied into the ring before

@@ -111,3 +111,20 @@ export function createAction(footCount: number, telemetryCount: number): Action 
     telemetry: new Float64Array(telemetryCount),
   };
 }
+
+/** Copies every field of an observation into another of the same foot count (no allocation). */
+export function copyObservation(into: Observation, from: Observation): void {
+  into.time_s = from.time_s;
+  into.trunkPosition_m.set(from.trunkPosition_m);
+  into.trunkQuaternion.set(from.trunkQuaternion);
+  into.trunkVelocity_mps.set(from.trunkVelocity_mps);
+  into.trunkAngularVelocity_radps.set(from.trunkAngularVelocity_radps);
+  into.footPosition_m.set(from.footPosition_m);
+  into.footVelocity_mps.set(from.footVelocity_mps);
+  into.footForce_N.set(from.footForce_N);
+  into.footContact.set(from.footContact);
+  into.frictionEstimate.set(from.frictionEstimate);
+  into.command.gait = from.command.gait;
+  into.command.velocity_mps.set(from.command.velocity_mps);
+  into.command.yawRate_radps = from.command.yawRate_radps;
+}
