@@ -7,5 +7,7 @@ export default defineConfig({
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',
+    // The JSON copy feeds the one-line tally .ci/run prints ("N passed, N failed").
+    reporters: ['default', ['json', { outputFile: 'test/.artifacts/vitest-results.json' }]],
   },
 });
