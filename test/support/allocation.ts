@@ -31,3 +31,24 @@ export async function measureAllocation(
   const growth = Math.max(0, after - before);
   return { collections, newSpaceGrowth_bytes: growth, bytesPerCall: growth / iterations };
 }
+
+/**
+ * measureAllocation up to `attempts` times, returning the first clean measurement (else the last).
+ * V8 sometimes deoptimises a large function mid-measurement and runs it in the interpreter, which
+ * boxes doubles, until it re-optimises: a one-off. An allocation in the code itself shows in every
+ * attempt, so the check still fails for it.
+ */
+export async function measureSteadyAllocation(
+  iterations: number,
+  body: () => void,
+  isClean: (result: Awaited<ReturnType<typeof measureAllocation>>) => boolean,
+  attempts = 3,
+): Promise<Awaited<ReturnType<typeof measureAllocation>> & { attempts: number }> {
+  let result = await measureAllocation(iterations, body);
+  let attempt = 1;
+  while (!isClean(result) && attempt < attempts) {
+    result = await measureAllocation(iterations, body);
+    attempt++;
+  }
+  return { ...result, attempts: attempt };
+}
