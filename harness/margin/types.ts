@@ -2,7 +2,7 @@
 // `margin` object on a run, a `family` membership on its scenario, and a `families` summary list.
 // JSON Schema: harness/run/results/results.schema.json ($defs/margin, $defs/familySummary).
 
-import type { ProbeStatus, SampleRole, SearchOutcomeKind } from './search.js';
+import type { ProbeStatus, SampleRole, SearchResult } from './search.js';
 
 /** One probe of a margin search, with the metrics that explain its outcome. */
 export interface MarginSample {
@@ -16,16 +16,13 @@ export interface MarginSample {
   reasons: string[];
 }
 
-export interface MarginSearchRecord {
-  outcome: SearchOutcomeKind;
+/**
+ * A search as results.json stores it: the search's own result (search.ts) with the critical scale
+ * under its results name, the search's wall time, and flat samples.
+ */
+export interface MarginSearchRecord extends Omit<SearchResult<unknown>, 'critical' | 'samples'> {
   /** criticalFrictionScale or criticalPushScale; see docs/margin.md for range ends and null. */
   criticalScale: number | null;
-  bracket: { failing: number; passing: number } | null;
-  range: [number, number];
-  tolerance: number;
-  monotone: boolean;
-  runs: number;
-  bisectionRuns: number;
   /** Wall time of the whole search (sequential probes), s. */
   wall_s: number;
   samples: MarginSample[];
