@@ -7,9 +7,10 @@ import { displayPath } from '../scenario/paths.js';
 import { EXIT, runSuite, type ExitCode, type PreparedBuild, type SuiteRunOutcome } from '../run/suite.js';
 import { describeOrigin, itemLabel, resolveSettings, settingsErrorLines, type ResolvedBuild, type ResolvedSettings, type RunFlags } from './resolve.js';
 import type { Origin } from './types.js';
+import type { SignalExitCode } from '../run/interrupt.js';
 
 export interface CommandOutcome {
-  exitCode: ExitCode;
+  exitCode: ExitCode | SignalExitCode;
   lines: string[];
 }
 

@@ -16,7 +16,8 @@ import type { ResolvedScenario } from '../scenario/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { removeStaleTemps, writeFileAtomicSync } from './atomic.js';
 import { OUTPUT_FILES, writeOutputs } from './outputs.js';
-import { createRunPool, RunTimeoutError } from './pool.js';
+import { createRunPool, RunInterruptedError, RunTimeoutError } from './pool.js';
+import { keepOnResume, onInterrupt, resumeHint, SIGNAL_EXIT, type InterruptSignal, type SignalExitCode } from './interrupt.js';
 import { chooseProgressMode, createProgress } from './progress.js';
 import { createErrorRunResult, createResultsFile } from './results/runResult.js';
 import type { BuildManifest, ResultsFile, RunResult } from './results/types.js';
@@ -72,7 +73,7 @@ export interface SuiteRunOptions {
 }
 
 export interface SuiteRunOutcome {
-  exitCode: ExitCode;
+  exitCode: ExitCode | SignalExitCode;
   results?: ResultsFile;
   /** Lines for the person at the terminal (also passed to `log` as they happen). */
   lines: string[];
@@ -171,8 +172,8 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   const pending: Pair[] = [];
   for (const pair of pairs) {
     const previous = saved.get(pair.key);
-    // A build that could not be prepared last time is tried again, not resumed as an error.
-    const reusable = previous && previous.error?.reason !== 'build-failed';
+    // A build that could not be prepared, or a run stopped by its allowance, is tried again.
+    const reusable = previous && keepOnResume(previous.error?.reason);
     if (reusable && previous.scenario.hash === pair.scenario.hash && previous.build === pair.build.name) results.set(pair.key, previous);
     else pending.push(pair);
   }
@@ -192,6 +193,11 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   const progress = createProgress(chooseProgressMode({ quiet: options.quiet }), pending.length, log);
   const timeout = options.runTimeout ?? { base_s: 120, perSimulatedSecond: 30 };
   const pool = createRunPool(jobs);
+  let interrupted: InterruptSignal | undefined;
+  const stopWatching = onInterrupt((signal) => {
+    interrupted = signal;
+    pool.abort(signal);
+  });
   try {
     await Promise.all(
       pending.map(async (pair) => {
@@ -207,6 +213,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
               timeout.base_s + timeout.perSimulatedSecond * pair.scenario.duration_s,
             );
           } catch (error) {
+            if (error instanceof RunInterruptedError) return; // not saved: --resume runs it
             const reason = error instanceof RunTimeoutError ? 'run-timeout' : 'worker';
             result = createErrorRunResult(pair.scenario, pair.build.name, { message: (error as Error).message, reason });
           }
@@ -218,8 +225,13 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
       }),
     );
   } finally {
+    stopWatching();
     progress.stop();
     await pool.close();
+  }
+  if (interrupted !== undefined) {
+    log(resumeHint(interrupted, results.size, pairs.length, path.relative(cwd, runsDir) || runsDir));
+    return { exitCode: SIGNAL_EXIT[interrupted], lines };
   }
 
   const ordered = pairs.map((pair) => results.get(pair.key) as RunResult);
