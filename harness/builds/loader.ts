@@ -17,6 +17,7 @@ import { openProcessBuild, type ProcessBuildOptions } from './process/bridge.js'
 import { BuildFailure } from './process/failure.js';
 import type { WireEncoding } from './process/messages.js';
 import { BuildSpecError, REFERENCE_BUILD_IDS, type BuildKind, type BuildSpec } from './spec.js';
+import { checkActionModes } from './modes.js';
 
 export { BuildFailure, BUILD_FAILURE_REASONS, type BuildFailureReason } from './process/failure.js';
 
@@ -251,6 +252,8 @@ class GuardedController implements OpenedBuild {
     if (problem !== null) {
       throw new BuildFailure('non-finite', `build '${this.name}' at tick ${this.tickCount}: ${problem}`);
     }
+    const modes = checkActionModes(action, action.stiffness_N_per_m.length);
+    if (modes !== null) throw new BuildFailure(modes.reason, `build '${this.name}' at tick ${this.tickCount}: ${modes.detail}`);
     this.tickCount++;
   }
 
