@@ -7,6 +7,7 @@ import { DEFAULT_MATERIAL, defaultControlRate_Hz, defaultLoopBudget_us, defaultP
 import { polygonProblem, type Point } from './geometry.js';
 import { list, num, rec, vec } from './guards.js';
 import { pointerJoin, type Finding } from './issue.js';
+import { runSizeProblems } from './bounds.js';
 
 export interface CheckResult {
   errors: Finding[];
@@ -27,6 +28,7 @@ export function checkScenario(data: Record<string, unknown>, robot: RobotParams 
   checkPushes(data, duration, robot, errors, warnings);
   checkGround(data, errors);
   checkTiming(data, errors, warnings);
+  if (duration !== undefined) errors.push(...runSize(data, duration));
   if (robot) checkInitial(data, robot, errors);
   return { errors, warnings };
 }
@@ -239,4 +241,13 @@ function checkInitial(data: Record<string, unknown>, robot: RobotParams, errors:
       });
     }
   });
+}
+
+function runSize(data: Record<string, unknown>, duration_s: number): Finding[] {
+  const control = rec(data.control);
+  const physics = rec(data.physics);
+  const rate = num(control?.rate_Hz) ?? defaultControlRate_Hz();
+  const step = num(physics?.step_s) ?? defaultPhysicsStep_s();
+  if (!(rate > 0 && step > 0)) return []; // the schema reports it
+  return runSizeProblems(duration_s, rate, step, { rate: control && 'rate_Hz' in control ? '/control/rate_Hz' : 'the default control rate', step: physics && 'step_s' in physics ? '/physics/step_s' : '/duration_s' });
 }

@@ -2,7 +2,8 @@
 // migrate → expand the matrix → schema → physical checks → inline referenced files → defaults →
 // hash. Every problem becomes a ScenarioIssue with file, line, column and path; nothing throws.
 
-import { readFile as fsReadFile, realpath } from 'node:fs/promises';
+import { realpath } from 'node:fs/promises';
+import { readBoundedText } from '../files/bounded.js';
 import path from 'node:path';
 import { closest } from 'fastest-levenshtein';
 import type { RobotParams } from '../plant/types.js';
@@ -75,7 +76,7 @@ function makeContext(fileName: string, opts: LoadOptions): Context {
     display: displayPath(absolute, cwd),
     suiteRoot: opts.suiteRoot !== undefined ? path.resolve(cwd, opts.suiteRoot) : defaultSuiteRoot(absolute),
     cwd,
-    readFile: opts.readFile ?? ((p) => fsReadFile(p, 'utf8')),
+    readFile: opts.readFile ?? ((p) => readBoundedText(p)),
     realFiles: opts.readFile === undefined,
     cache: opts.cache ?? createLoadCache(),
   };
@@ -152,7 +153,7 @@ export async function loadScenarioFile(file: string, opts: LoadOptions = {}): Pr
   const ctx = makeContext(file, opts);
   let text: string;
   try {
-    text = await fsReadFile(ctx.absolute, 'utf8');
+    text = await readBoundedText(ctx.absolute);
   } catch (e) {
     return { ok: false, errors: [{ file: ctx.display, path: '', message: `cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})` }] };
   }
@@ -369,7 +370,7 @@ export async function loadRobotFile(file: string, opts: { cwd?: string } = {}): 
   const cwd = opts.cwd ?? process.cwd();
   const absolute = path.resolve(cwd, file);
   try {
-    return loadRobotText(await fsReadFile(absolute, 'utf8'), absolute, { cwd });
+    return loadRobotText(await readBoundedText(absolute), absolute, { cwd });
   } catch (e) {
     return { ok: false, errors: [{ file: displayPath(absolute, cwd), path: '', message: `cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})` }] };
   }

@@ -4,9 +4,9 @@
 
 import { LineCounter, isAlias, isMap, isScalar, isSeq, parseDocument, type Document } from 'yaml';
 import { pointerJoin, pointerSegments, type Finding } from './issue.js';
+import { listLengthProblem, MAX_NESTING_DEPTH, nestingProblemInText } from './bounds.js';
 
-/** Deeper nesting than any scenario needs; refusing it keeps every later walk bounded. */
-export const MAX_NESTING_DEPTH = 64;
+export { MAX_NESTING_DEPTH };
 /** Anchors/aliases beyond this are refused (guards against alias-expansion bombs). */
 const MAX_ALIAS_COUNT = 100;
 
@@ -21,6 +21,8 @@ export interface ParsedSource {
 }
 
 export function parseSource(text: string): ParsedSource {
+  const tooDeep = nestingProblemInText(text);
+  if (tooDeep !== null) return { value: null, errors: [tooDeep], warnings: [], locate: () => undefined, sourceText: () => undefined };
   const lineCounter = new LineCounter();
   // YAMLError is an Error: capturing a stack for each of a broken file's many syntax errors costs
   // more than the parse itself, and the stacks are never shown (positions come from the parser).
@@ -139,6 +141,11 @@ export function scanData(value: unknown, source: ParsedSource | undefined): { no
     }
     if (depth >= MAX_NESTING_DEPTH) {
       structural.push({ path: pointer, message: `nesting deeper than ${MAX_NESTING_DEPTH} levels is refused` });
+      return;
+    }
+    const tooLong = Array.isArray(v) ? listLengthProblem(v, pointer) : null;
+    if (tooLong !== null) {
+      structural.push(tooLong);
       return;
     }
     ancestors.add(v);
