@@ -2,6 +2,7 @@
 // for the terminal. Both list broken rules first, then every other metric that moved.
 
 import { markdownCell } from '../run/results/writeSummary.js';
+import { markdownCode } from '../text/markdown.js';
 import type { GateOutcome, GateRow, GateValue } from './types.js';
 
 const DECIMALS: Record<string, number> = {
@@ -39,8 +40,8 @@ function markdownTable(rows: GateRow[]): string[] {
   const lines = ['| scenario | builds | metric | baseline | candidate | change | rule |', '|---|---|---|---:|---:|---:|---|'];
   for (const r of rows) {
     lines.push(
-      `| ${markdownCell(r.scenario)} | ${markdownCell(builds(r))} | ${r.metric} | ${formatGateValue(r.metric, r.baseline)} | ` +
-        `${formatGateValue(r.metric, r.candidate)} | ${markdownCell(r.change)} | ${r.rule === null ? '(info)' : markdownCell(r.rule)}${r.broken ? ' ❌' : ''} |`,
+      `| ${markdownCell(r.scenario)} | ${markdownCell(builds(r))} | ${markdownCell(r.metric)} | ${markdownCell(formatGateValue(r.metric, r.baseline))} | ` +
+        `${markdownCell(formatGateValue(r.metric, r.candidate))} | ${markdownCell(r.change)} | ${r.rule === null ? '(info)' : markdownCell(r.rule)}${r.broken ? ' ❌' : ''} |`,
     );
   }
   return lines;
@@ -51,11 +52,11 @@ export function renderGateMarkdown(outcome: GateOutcome): string {
   const moved = outcome.rows.filter((r) => !r.broken);
   const lines = [`### Footing gate: ${outcome.verdict === 'block' ? '❌' : '✅'} ${headline(outcome)}`, ''];
   if (outcome.buildPairs.length > 0) {
-    lines.push(`Builds compared (baseline → candidate): ${outcome.buildPairs.map(([b, c]) => `\`${b}\` → \`${c}\``).join(', ')}`, '');
+    lines.push(`Builds compared (baseline → candidate): ${outcome.buildPairs.map(([b, c]) => `${markdownCode(b)} → ${markdownCode(c)}`).join(', ')}`, '');
   }
   if (broken.length > 0) {
     lines.push('**Broken rules**', '');
-    for (const r of broken) lines.push(`- \`${r.scenario}\` (${markdownCell(builds(r))}): ${r.reason ?? r.metric}`);
+    for (const r of broken) lines.push(`- ${markdownCode(r.scenario)} (${markdownCell(builds(r))}): ${markdownCell(r.reason ?? r.metric)}`);
     lines.push('', ...markdownTable(broken), '');
   }
   if (moved.length > 0) {
@@ -63,15 +64,15 @@ export function renderGateMarkdown(outcome: GateOutcome): string {
   }
   if (outcome.notComparable.length > 0) {
     lines.push('**Not comparable** (not compared, see why)', '');
-    for (const n of outcome.notComparable) lines.push(`- \`${n.scenario}\` (${markdownCell(n.baselineBuild)} → ${markdownCell(n.candidateBuild)}): ${markdownCell(n.reason)}`);
+    for (const n of outcome.notComparable) lines.push(`- ${markdownCode(n.scenario)} (${markdownCell(n.baselineBuild)} → ${markdownCell(n.candidateBuild)}): ${markdownCell(n.reason)}`);
     lines.push('');
   }
   if (outcome.unpaired.length > 0) {
     lines.push('**Unpaired**', '');
-    for (const u of outcome.unpaired) lines.push(`- ${u.side} \`${u.build}\`${u.scenario === null ? '' : ` \`${u.scenario}\``}: ${markdownCell(u.reason)}`);
+    for (const u of outcome.unpaired) lines.push(`- ${u.side} ${markdownCode(u.build)}${u.scenario === null ? '' : ` ${markdownCode(u.scenario)}`}: ${markdownCell(u.reason)}`);
     lines.push('');
   }
-  for (const w of outcome.warnings) lines.push(`> ${w}`, '');
+  for (const w of outcome.warnings) lines.push(`> ${markdownCell(w)}`, '');
   return lines.join('\n');
 }
 

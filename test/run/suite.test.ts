@@ -10,6 +10,7 @@ import { mergeResults } from '../../harness/run/merge.js';
 import { validateResults } from '../../harness/run/results/validate.js';
 import type { ResultsFile, RunResult } from '../../harness/run/results/types.js';
 import { EXIT, runSuite } from '../../harness/run/suite.js';
+import { expectStrictJunit } from '../support/junit.js';
 
 const MINI = 'test/run/fixtures/mini';
 const fresh = (name: string) => mkdtempSync(path.join(tmpdir(), `footing-${name}-`));
@@ -47,6 +48,7 @@ describe('footing run, end to end', () => {
     const suites = [xml.testsuites.testsuite].flat();
     expect(suites.map((s: Record<string, string>) => s['@_name'])).toEqual(['governed', 'overtrusting']);
     for (const s of suites) expect([s.testcase].flat()).toHaveLength(2);
+    expectStrictJunit(out);
 
     // The over-trusting build asks for more tangential force than the floor gives: the gate names
     // friction margin. Baseline and candidate are the two builds of one results file.

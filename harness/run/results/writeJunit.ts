@@ -3,6 +3,7 @@
 
 import { XMLBuilder } from 'fast-xml-parser';
 import { writeFileAtomicSync } from '../atomic.js';
+import { xmlSafeTree } from '../../text/xml.js';
 import { runsByBuild } from './buildOrder.js';
 import type { ResultsFile, RunResult } from './types.js';
 
@@ -85,6 +86,8 @@ export function renderJunitXml(results: ResultsFile): string {
     format: true,
     indentBy: '  ',
     suppressEmptyNode: true,
+    // Default true writes value="true" as a bare `value`, which is not XML (only HTML has boolean attributes).
+    suppressBooleanAttributes: false,
   });
   const document = {
     '?xml': { '@_version': '1.0', '@_encoding': 'UTF-8' },
@@ -97,7 +100,8 @@ export function renderJunitXml(results: ResultsFile): string {
       testsuite: suites,
     },
   };
-  return builder.build(document) as string;
+  // Build-supplied text (stderr, messages) may hold characters XML 1.0 cannot (harness/text/xml.ts).
+  return builder.build(xmlSafeTree(document)) as string;
 }
 
 export function writeJunitXml(file: string, results: ResultsFile): void {
