@@ -17,6 +17,7 @@ import { TOOL_VERSION } from '../version.js';
 import { removeStaleTemps, writeFileAtomicSync } from './atomic.js';
 import { OUTPUT_FILES, writeOutputs } from './outputs.js';
 import { createRunPool, RunInterruptedError, RunTimeoutError } from './pool.js';
+import { lockOutputFolder, OutputFolderError, realFolder } from './outputLock.js';
 import { keepOnResume, onInterrupt, resumeHint, SIGNAL_EXIT, type InterruptSignal, type SignalExitCode } from './interrupt.js';
 import { chooseProgressMode, createProgress } from './progress.js';
 import { createErrorRunResult, createResultsFile } from './results/runResult.js';
@@ -158,13 +159,18 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
 
   const outDir = path.resolve(cwd, options.outDir);
   const runsDir = path.join(outDir, RUNS_FOLDER);
-  mkdirSync(runsDir, { recursive: true });
+  let releaseLock: () => void;
+  try {
+    releaseLock = lockOutputFolder(outDir, log);
+    realFolder(runsDir);
+    if (options.trace) realFolder(path.join(outDir, 'traces'));
+  } catch (error) {
+    if (error instanceof OutputFolderError) return badInput(error.message);
+    throw error;
+  }
   removeStaleTemps(outDir);
   removeStaleTemps(runsDir);
-  if (options.trace) {
-    mkdirSync(path.join(outDir, 'traces'), { recursive: true });
-    removeStaleTemps(path.join(outDir, 'traces'));
-  }
+  if (options.trace) removeStaleTemps(path.join(outDir, 'traces'));
 
   const saved = options.resume ? readSavedRuns(runsDir) : new Map<string, RunResult>();
   if (!options.resume) clearSavedRuns(runsDir);
@@ -231,6 +237,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   }
   if (interrupted !== undefined) {
     log(resumeHint(interrupted, results.size, pairs.length, path.relative(cwd, runsDir) || runsDir));
+    releaseLock();
     return { exitCode: SIGNAL_EXIT[interrupted], lines };
   }
 
@@ -249,6 +256,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
     log(`gate against ${options.baseline}: ${gateOutcome.verdict === 'hold' ? 'holds' : 'BLOCKS'} (${path.relative(cwd, path.join(outDir, OUTPUT_FILES.gate))})`);
     if (gateOutcome.verdict === 'block') exitCode = EXIT.fail;
   }
+  releaseLock();
   return { exitCode, results: resultsFile, lines };
 }
 
