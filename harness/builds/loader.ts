@@ -18,12 +18,15 @@ import { BuildFailure } from './process/failure.js';
 import type { WireEncoding } from './process/messages.js';
 import { BuildSpecError, REFERENCE_BUILD_IDS, type BuildKind, type BuildSpec } from './spec.js';
 import { checkActionModes } from './modes.js';
+import { openIsolatedModule } from './isolated/open.js';
 
 export { BuildFailure, BUILD_FAILURE_REASONS, type BuildFailureReason } from './process/failure.js';
 
 export interface OpenBuildOptions extends ProcessBuildOptions {
   /** Replaces the bundled registry harness/builds/reference/index.ts (tests, plug-ins). */
   referenceBuilds?: Record<string, ControllerFactory>;
+  /** 'thread': a module build runs in a thread of its own, out of reach of the caller's (isolated/open.ts). */
+  isolation?: 'thread';
 }
 
 export interface OpenedBuild extends Controller {
@@ -60,6 +63,7 @@ export async function openBuild(
       return await openProcessBuild(program, merged, options);
     }
     case 'module': {
+      if (options.isolation === 'thread') return await openIsolatedModule(spec, merged);
       const factory = await loadModuleFactory(spec);
       return guardController(await createGuarded(spec, factory, merged), spec.name, 'module');
     }

@@ -59,13 +59,13 @@ describe('a run\'s thread is its own', () => {
     const [leaky, nominal] = outcome.results!.runs;
     expect(leaky.build).toBe('leaky');
     expect(leaky.status).toBe('error');
-    expect(leaky.error!.reason).toBe('worker');
-    expect(leaky.error!.message).toMatch(/worker thread failed.*deliberately unhandled/);
+    expect(leaky.error!.reason).toBe('threw');
+    expect(leaky.error!.message).toMatch(/uncaught in the build's thread: deliberately unhandled/);
     expect(nominal.status).toBe('pass');
   });
 
-  it('a build patching Array.prototype.push and Math.sqrt changes no other pair\'s result', async () => {
-    const clean = await runSuite({ paths: [MINI], builds: ['ref:nominal', 'ref:governed'], outDir: fresh('clean'), jobs: 1, quiet: true });
+  it('a build patching Array.prototype.push and Math.sqrt changes no pair\'s result, its own included', async () => {
+    const clean = await runSuite({ paths: [MINI], builds: ['patcher=test/run/fixtures/leaky_module.mjs', 'ref:nominal', 'ref:governed'], outDir: fresh('clean'), jobs: 1, quiet: true });
     const patched = await runSuite({
       paths: [MINI],
       builds: ['patcher=test/run/fixtures/leaky_module.mjs?leak=prototype', 'ref:nominal', 'ref:governed'],
@@ -73,10 +73,25 @@ describe('a run\'s thread is its own', () => {
       jobs: 1,
       quiet: true,
     });
-    // The patch is real: it breaks the patcher's own run (its thread's harness code uses push).
-    expect(patched.results!.runs.find((r) => r.build === 'patcher')!.status).toBe('error');
-    const others = patched.results!.runs.filter((r) => r.build !== 'patcher');
+    // Not even the patcher's own run changes: the patch stays in its build's thread. (Before
+    // module builds had threads of their own, the same patch broke its own run with an error.)
     const strip = (r: RunResult) => ({ status: r.status, reasons: r.reasons, slip_m: r.metrics?.slipDistance_m, fall: r.metrics?.fallReason, margin: r.metrics?.frictionMargin });
-    expect(others.map(strip)).toEqual(clean.results!.runs.map(strip));
+    expect(patched.results!.runs.map(strip)).toEqual(clean.results!.runs.map(strip));
+  });
+
+  it('a module build patching the harness\'s slip and fall trackers cannot change the score of its own run', async () => {
+    // Its own thread (harness/builds/isolated/): the patched classes are that thread's copies.
+    const outcome = await runSuite({
+      paths: [`${MINI}/short-stand.yaml`],
+      builds: ['plain=test/run/fixtures/leaky_module.mjs', 'cheat=test/run/fixtures/leaky_module.mjs?leak=scorer'],
+      outDir: fresh('scorer'),
+      jobs: 2,
+      quiet: true,
+    });
+    const [plain, cheat] = outcome.results!.runs;
+    // Zero forces: the robot falls, and the cheat's run says so too.
+    expect(plain.metrics!.fell).toBe(true);
+    const scored = (r: RunResult) => ({ status: r.status, reasons: r.reasons, fell: r.metrics?.fell, slip_m: r.metrics?.slipDistance_m, margin: r.metrics?.frictionMargin });
+    expect(scored(cheat)).toEqual(scored(plain));
   });
 });
