@@ -3,7 +3,7 @@
 // (runs/<key>.json, atomically), so a killed run leaves no truncated file and --resume picks up
 // where it stopped; the folder's summary files are assembled from those at the end.
 
-import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { readdirSync, readFileSync, rmSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import path from 'node:path';
 import { buildManifest } from '../builds/provenance.js';

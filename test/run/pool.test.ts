@@ -65,9 +65,9 @@ describe('a run\'s thread is its own', () => {
   });
 
   it('a build patching Array.prototype.push and Math.sqrt changes no pair\'s result, its own included', async () => {
-    const clean = await runSuite({ paths: [MINI], builds: ['patcher=test/run/fixtures/leaky_module.mjs', 'ref:nominal', 'ref:governed'], outDir: fresh('clean'), jobs: 1, quiet: true });
+    const clean = await runSuite({ paths: [BRIEF], builds: ['patcher=test/run/fixtures/leaky_module.mjs', 'ref:nominal', 'ref:governed'], outDir: fresh('clean'), jobs: 1, quiet: true });
     const patched = await runSuite({
-      paths: [MINI],
+      paths: [BRIEF],
       builds: ['patcher=test/run/fixtures/leaky_module.mjs?leak=prototype', 'ref:nominal', 'ref:governed'],
       outDir: fresh('patched'),
       jobs: 1,
