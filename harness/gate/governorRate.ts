@@ -46,6 +46,7 @@ export function governorRateRows(
 ): GateRow[] {
   const rows: GateRow[] = [];
   const drop = rules.governorRateDrop;
+  if (drop === null) return rows;
   const percent = Math.round(drop * 100);
   const baseMachine = machineOf(baseline), candMachine = machineOf(candidate);
   for (const [baseBuild, candBuild] of buildPairs) {

@@ -61,10 +61,14 @@ function valueAt(root: unknown, segments: readonly string[]): unknown {
 function expectation(error: ErrorObject): string {
   const p = error.params as Record<string, unknown>;
   switch (error.keyword) {
-    case 'type':
-      if (p.type === 'boolean') return 'expected true or false';
-      if (p.type === 'object') return 'expected a mapping (key: value lines)';
-      return `expected a ${p.type}`;
+    case 'type': {
+      // Rules accept null (off), so their type is a list: name the useful type, then null.
+      const types = String(p.type).split(',');
+      const orOff = types.includes('null') ? ', or null to switch the rule off' : '';
+      if (types.includes('boolean')) return `expected true or false${orOff}`;
+      if (types.includes('object')) return 'expected a mapping (key: value lines)';
+      return `expected a ${types.filter((t) => t !== 'null').join(' or ')}${orOff}`;
+    }
     case 'minimum':
       return `expected a number ≥ ${p.limit}`;
     case 'maximum':

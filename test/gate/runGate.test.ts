@@ -23,7 +23,10 @@ describe('runGate', () => {
   it('exits 0 when the candidate holds, reading folders', async () => {
     candidate(4);
     const result = await runGate({ baseline: join(dir, 'main'), candidate: join(dir, 'branch') });
-    expect(result).toEqual({ exitCode: 0, text: 'gate: hold — no rule broken in 1 compared run' });
+    expect(result).toEqual({
+      exitCode: 0,
+      text: 'gate: hold — nothing the candidate changed breaks a rule in 1 compared run\n  Runs: 0 new failures, 0 still failing, 0 fixed, 1 passing.',
+    });
   });
 
   it('exits 1 naming friction margin when a rule breaks, and writes gate.md', async () => {
@@ -31,9 +34,13 @@ describe('runGate', () => {
     const out = join(dir, 'report');
     const result = await runGate({ baseline: join(dir, 'main', 'results.json'), candidate: join(dir, 'branch'), out });
     expect(result.exitCode).toBe(1);
-    expect(result.text).toContain('broken: ice-walk (ref:governed → ref:trusting): friction margin min fell by 0.250 (0.750 → 0.500)');
+    // The verdict line names the first blocking rule, its scenario and builds.
+    expect(result.text.split('\n')[0]).toBe(
+      'gate: block — ice-walk (ref:governed → ref:trusting): friction margin min fell by 0.250 (0.750 → 0.500), more than the 0.02 allowed (and 1 more blocking)',
+    );
+    expect(result.text).toContain('blocking: ice-walk (ref:governed → ref:trusting): friction margin p05 fell by 0.250');
     const markdown = readFileSync(join(out, 'gate.md'), 'utf8');
-    expect(markdown).toContain('### Footing gate: ❌ block — 2 rules broken in 1 compared run');
+    expect(markdown).toContain('### Footing gate: ❌ block — ice-walk (ref:governed → ref:trusting): friction margin min fell by 0.250');
     expect(markdown).toContain('| ice-walk | ref:governed → ref:trusting | frictionMargin.min | 0.750 | 0.500 | −0.250 | loss ≤ 0.02 ❌ |');
   });
 
