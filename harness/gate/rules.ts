@@ -2,6 +2,7 @@
 // its metric moved or its rule is broken; informational metrics return a row when they moved.
 
 import { fallSentence } from '../score/acceptance.js';
+import { firstReason } from '../run/results/runResult.js';
 import type { RunResult } from '../run/results/types.js';
 import type { ScoreMetrics } from '../score/types.js';
 import type { GateRules } from './defaults.js';
@@ -134,12 +135,6 @@ function loopRule(at: RowBase, base: ScoreMetrics, cand: ScoreMetrics, rules: Ga
     metric: 'loopTime_us.p99', baseline: b, candidate: c, change, rule: `single-pass growth ≤ +${percent} %`, broken,
     ...(broken ? { reason: `loop time p99 of one pass grew from ${fmt(b, 1)} µs to ${c.toFixed(1)} µs, more than +${percent} %` } : {}),
   });
-}
-
-/** First reason a run gave (acceptance sentence or error message), for verdict lines. */
-export function firstReason(run: RunResult): string {
-  if (run.status === 'error') return `errored: ${run.error?.message ?? run.reasons[0] ?? 'no reason given'}`;
-  return run.reasons[0] ?? run.status;
 }
 
 /**

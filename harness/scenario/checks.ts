@@ -7,6 +7,7 @@ import { DEFAULT_MATERIAL, defaultControlRate_Hz, defaultLoopBudget_us, defaultP
 import { polygonProblem, type Point } from './geometry.js';
 import { list, num, rec, vec } from './guards.js';
 import { pointerJoin, type Finding } from './issue.js';
+import { checkPlausibility } from './plausibility.js';
 
 export interface CheckResult {
   errors: Finding[];
@@ -28,6 +29,7 @@ export function checkScenario(data: Record<string, unknown>, robot: RobotParams 
   checkGround(data, errors);
   checkTiming(data, errors, warnings);
   if (robot) checkInitial(data, robot, errors);
+  warnings.push(...checkPlausibility(data, robot));
   return { errors, warnings };
 }
 

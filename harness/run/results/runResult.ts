@@ -96,3 +96,9 @@ export function createResultsFile(header: {
   if (families.length > 0) results.families = families;
   return results;
 }
+
+/** A run's first reason (acceptance sentence or error message), for one-line summaries. */
+export function firstReason(run: Pick<RunResult, 'status' | 'reasons' | 'error'>): string {
+  if (run.status === 'error') return `errored: ${run.error?.message ?? run.reasons[0] ?? 'no reason given'}`;
+  return run.reasons[0] ?? run.status;
+}
