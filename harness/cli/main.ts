@@ -3,14 +3,14 @@
 
 import yargs, { type Argv } from 'yargs';
 import { checkPaths } from '../scenario/index.js';
-import { runGate } from '../gate/runGate.js';
+import { runGate } from '../commands/gate.js';
 import { DEFAULT_SCENARIO_PATHS, EXIT } from '../run/suite.js';
-import { mergeResults } from '../run/merge.js';
-import { runReportCommand } from '../report/command.js';
-import { runMarginCommand } from '../margin/command.js';
-import { runBenchCommand } from '../bench/command.js';
-import { benchSuite, renderSuiteBench } from '../bench/suite.js';
-import { clearCache, printConfig, runConfiguredSuite } from '../config/commands.js';
+import { mergeResults } from '../results/merge.js';
+import { runReportCommand } from '../commands/report.js';
+import { runMarginCommand } from '../commands/margin.js';
+import { runBenchCommand } from '../commands/bench.js';
+import { benchSuite, renderSuiteBench } from '../commands/benchSuite.js';
+import { clearCache, printConfig, runConfiguredSuite } from '../commands/config.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
 import { TOOL_VERSION } from '../version.js';

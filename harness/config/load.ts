@@ -12,8 +12,8 @@ import type { GatePolicy } from '../gate/defaults.js';
 import { formatPolicyIssue, parsePolicy, POLICY_SCHEMA_URL } from '../gate/policy.js';
 import { locate } from '../gate/yamlLocation.js';
 import { displayPath } from '../scenario/paths.js';
-import { kindOf, showValue } from '../scenario/issue.js';
-import { didYouMean } from './suggest.js';
+import { kindOf, showValue } from '../files/issue.js';
+import { didYouMean } from '../files/suggest.js';
 import { CONFIG_FILE_NAMES, type ConfigData, type ConfigIssue, type GitBuildData } from './types.js';
 
 export const CONFIG_SCHEMA_URL = new URL('./config.schema.json', import.meta.url);

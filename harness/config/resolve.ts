@@ -15,7 +15,7 @@ import { displayPath } from '../scenario/paths.js';
 import { DEFAULT_BUILDS, DEFAULT_CACHE_DIR, DEFAULT_OUT_DIR, DEFAULT_SCENARIO_PATHS } from './defaults.js';
 import { expandGlob, isGlob } from './glob.js';
 import { ConfigError, findConfigFile, gitRefOfSpec, loadConfig, recipeOf, type LoadedConfig } from './load.js';
-import { didYouMean } from './suggest.js';
+import { didYouMean } from '../files/suggest.js';
 import type { ConfigIssue, GitBuildData, Origin, Sourced, SuiteData } from './types.js';
 
 /** The flags of `footing run` (and `config --print`, `cache --clear`) as plain data. */

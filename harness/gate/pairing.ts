@@ -3,8 +3,8 @@
 // pair by scenario id, compared only when the scenario hash is equal.
 
 import { compareIdentity } from '../scenario/identity.js';
-import { buildNames } from '../run/results/buildOrder.js';
-import type { ResultsFile, RunResult } from '../run/results/types.js';
+import { buildNames } from '../results/buildOrder.js';
+import type { ResultsFile, RunResult } from '../results/types.js';
 import { GateInputError, type NotComparable, type Unpaired } from './types.js';
 
 export interface RunPair {

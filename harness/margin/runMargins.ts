@@ -9,10 +9,10 @@ import path from 'node:path';
 import { buildManifest } from '../builds/provenance.js';
 import type { BuildSpec } from '../builds/spec.js';
 import { createRunPool, RunTimeoutError, type RunPool } from '../run/pool.js';
-import { createErrorRunResult, createResultsFile } from '../run/results/runResult.js';
-import type { BuildManifest, ResultsFile, RunResult } from '../run/results/types.js';
-import { writeFileAtomicSync } from '../run/atomic.js';
-import { OUTPUT_FILES, writeOutputs } from '../run/outputs.js';
+import { createErrorRunResult, createResultsFile } from '../results/runResult.js';
+import type { BuildManifest, ResultsFile, RunResult } from '../results/types.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { OUTPUT_FILES, writeOutputs } from '../commands/outputs.js';
 import { prepareBuilds, prepareScenarios } from '../run/prepare.js';
 import { EXIT, defaultJobs, type ExitCode } from '../run/suite.js';
 import type { ResolvedScenario } from '../scenario/types.js';
@@ -20,7 +20,7 @@ import { lowestStaticFriction, peakPushForce_N, scaleFriction, scalePushes } fro
 import { TOOL_VERSION } from '../version.js';
 import { renderMarginLines, renderMarginMarkdown } from './render.js';
 import { searchBoundary, type SearchOptions, type SearchResult } from './search.js';
-import type { FrictionMarginRecord, MarginSample, MarginSearchRecord, PushMarginRecord, RunMargin } from './types.js';
+import type { FrictionMarginRecord, MarginSample, MarginSearchRecord, PushMarginRecord, RunMargin } from '../results/margin.js';
 
 /**
  * Search settings, the one place these defaults live. Tolerance 0.01 of the scenario's own

@@ -2,15 +2,15 @@
 // CSS, inline SVG plots, a small optional script; no network) from a results set and the series
 // files beside it. See docs/report.md.
 
-import type { ResultsFile } from '../run/results/types.js';
+import type { ResultsFile } from '../results/types.js';
 import { buildReportModel, type ReportOptions } from './model.js';
 import { renderModel } from './render.js';
 
 export type { ReportOptions } from './model.js';
 export { buildReportModel } from './model.js';
-export { runReportCommand } from './command.js';
-export { createSeriesRecorder } from './series/recorder.js';
-export { seriesPath, readSeriesFor, writeSeriesFile } from './series/file.js';
+export { runReportCommand } from '../commands/report.js';
+export { createSeriesRecorder } from '../score/series/recorder.js';
+export { seriesPath, readSeriesFor, writeSeriesFile } from '../score/series/file.js';
 
 export function renderReportHtml(results: ResultsFile, options: ReportOptions): string {
   return renderModel(buildReportModel(results, options));

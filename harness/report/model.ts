@@ -8,7 +8,7 @@ import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
 import { gateWithinResults } from '../gate/gate.js';
 import { formatGateValue } from '../gate/render.js';
 import { GateInputError, type GateOutcome } from '../gate/types.js';
-import type { BuildManifest, ResultsFile, RunResult, RunStatus } from '../run/results/types.js';
+import type { BuildManifest, ResultsFile, RunResult, RunStatus } from '../results/types.js';
 import { benchView, type BenchView } from './bench.js';
 import { familiesView, marginView, type FamilyView, type MarginView } from './margin.js';
 import { metricCells, type MetricCell } from './matrix.js';
@@ -32,8 +32,8 @@ import {
 import { buildStyle, type BuildStyle } from './plot/palette.js';
 import { niceCeil } from './plot/scale.js';
 import { asSvg, label, type SvgMarkup } from './plot/svg.js';
-import { readSeriesFor } from './series/file.js';
-import type { RunSeries } from './series/types.js';
+import { readSeriesFor } from '../score/series/file.js';
+import type { RunSeries } from '../score/series/types.js';
 
 export interface ReportOptions {
   /** Folder the report is written to (links are relative to it). */

@@ -12,7 +12,7 @@ import { Plant } from '../plant/plant.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { createTickSample, type TickSample } from '../score/sample.js';
 import { createScorer, type RunMetrics, type Scorer } from '../score/scorer.js';
-import type { RunError } from './results/types.js';
+import type { RunError } from '../results/types.js';
 import { CommandSchedule } from './commands.js';
 import { SensorModel } from './sensing.js';
 

@@ -4,7 +4,7 @@
 
 import { Piscina } from 'piscina';
 import type { RunTask } from './runOne.js';
-import type { RunResult } from './results/types.js';
+import type { RunResult } from '../results/types.js';
 
 const WORKER_URL = new URL('./workerEntry.mjs', import.meta.url);
 

@@ -2,7 +2,7 @@
 // otherwise (CI logs, pipes, --quiet prints only the end).
 
 import cliProgress from 'cli-progress';
-import type { RunResult } from './results/types.js';
+import type { RunResult } from '../results/types.js';
 
 export type ProgressMode = 'bar' | 'lines' | 'quiet';
 

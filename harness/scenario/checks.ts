@@ -6,7 +6,7 @@ import type { RobotParams } from '../plant/types.js';
 import { DEFAULT_MATERIAL, defaultControlRate_Hz, defaultLoopBudget_us, defaultPhysicsStep_s } from './defaults.js';
 import { polygonProblem, type Point } from './geometry.js';
 import { list, num, rec, vec } from './guards.js';
-import { pointerJoin, type Finding } from './issue.js';
+import { pointerJoin, type Finding } from '../files/issue.js';
 
 export interface CheckResult {
   errors: Finding[];

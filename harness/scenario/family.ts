@@ -18,7 +18,7 @@
 
 import { SeededRandom } from '../plant/random.js';
 import type { Push } from '../plant/types.js';
-import type { Finding } from './issue.js';
+import type { Finding } from '../files/issue.js';
 import type { FamilyMembership, ResolvedScenario } from './types.js';
 import {
   cloneScenario,

@@ -1,7 +1,7 @@
 // Public API of the scenario layer: load, validate, migrate, expand and hash scenario files.
 
-export type { ScenarioIssue, LoadResult } from './issue.js';
-export { formatIssue } from './issue.js';
+export type { ScenarioIssue, LoadResult } from '../files/issue.js';
+export { formatIssue } from '../files/issue.js';
 export type { LoadOptions, LoadCache, RobotLoadResult } from './load.js';
 export { loadScenarioFile, loadScenarioText, loadRobotFile, loadRobotText, createLoadCache, defaultSuiteRoot } from './load.js';
 export type { SuiteFileReport, SuiteResult, SuiteOptions } from './suite.js';

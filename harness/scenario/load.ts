@@ -11,7 +11,7 @@ import { checkScenario } from './checks.js';
 import { fillScenarioDefaults, resolveRobot, type InlinedReferences } from './defaults.js';
 import { ROBOT_FORMAT, SCENARIO_FORMAT, type RobotFile, type ScenarioFile } from './format.js';
 import { list, num, rec } from './guards.js';
-import { formatIssue, kindOf, showValue, type Finding, type LoadResult, type ScenarioIssue } from './issue.js';
+import { formatIssue, kindOf, showValue, type Finding, type LoadResult, type ScenarioIssue } from '../files/issue.js';
 import { expandFamily, type FamilyFile } from './family.js';
 import { expandMatrix } from './matrix.js';
 import { CURRENT_ROBOT_VERSION, CURRENT_SCENARIO_VERSION, migrateScenario, type PathMap } from './migrate.js';
@@ -19,7 +19,7 @@ import { displayPath, isInside, resolveReference, suiteRelative } from './paths.
 import { checkRobot } from './robot.js';
 import { validateAgainst } from './schema.js';
 import { parseRasterCsv, parseSeriesCsv } from './series.js';
-import { isRecord, parseSource, scanData, type ParsedSource } from './source.js';
+import { isRecord, parseSource, scanData, type ParsedSource } from '../files/source.js';
 import type { ResolvedScenario } from './types.js';
 
 export interface LoadOptions {

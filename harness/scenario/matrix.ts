@@ -14,8 +14,8 @@
 //       - { mu_s: 0.6, mu_k: 0.45 }
 
 import { closest } from 'fastest-levenshtein';
-import { pointerJoin, type Finding } from './issue.js';
-import { isRecord } from './source.js';
+import { pointerJoin, type Finding } from '../files/issue.js';
+import { isRecord } from '../files/source.js';
 
 export type MatrixValue = number | string | boolean;
 /** More scenarios from one file than this is almost surely a mistake. */

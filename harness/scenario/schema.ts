@@ -4,7 +4,7 @@
 import { readFileSync } from 'node:fs';
 import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
 import { closest, distance } from 'fastest-levenshtein';
-import { kindOf, pointerJoin, pointerSegments, showValue, type Finding } from './issue.js';
+import { kindOf, pointerJoin, pointerSegments, showValue, type Finding } from '../files/issue.js';
 
 export const SCENARIO_SCHEMA_ID = 'https://schemas.footing.invalid/scenario.schema.json';
 export const ROBOT_SCHEMA_ID = 'https://schemas.footing.invalid/robot.schema.json';

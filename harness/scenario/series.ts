@@ -4,7 +4,7 @@
 import { parse } from 'csv-parse/sync';
 import { closest } from 'fastest-levenshtein';
 import type { Vec3 } from '../plant/types.js';
-import type { Finding } from './issue.js';
+import type { Finding } from '../files/issue.js';
 
 /** Bounds that keep a mistaken file from eating the machine; far above any real recording. */
 export const MAX_SERIES_ROWS = 1_000_000;

@@ -4,10 +4,10 @@
 import { readdir, readFile, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { ROBOT_FORMAT, SCENARIO_FORMAT } from './format.js';
-import { formatIssue, type ScenarioIssue } from './issue.js';
+import { formatIssue, type ScenarioIssue } from '../files/issue.js';
 import { createLoadCache, defaultSuiteRoot, loadRobotText, loadScenarioText, peekFormat, type LoadOptions } from './load.js';
 import { displayPath } from './paths.js';
-import { parseSource } from './source.js';
+import { parseSource } from '../files/source.js';
 import type { ResolvedScenario } from './types.js';
 
 export const SCENARIO_EXTENSIONS = ['.yaml', '.yml', '.json'];

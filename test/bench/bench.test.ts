@@ -8,15 +8,15 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { attachBench } from '../../harness/bench/attach.js';
-import { DEFAULT_BENCH_SCENARIO, runBenchCommand } from '../../harness/bench/command.js';
+import { DEFAULT_BENCH_SCENARIO, runBenchCommand } from '../../harness/commands/bench.js';
 import { runBench } from '../../harness/bench/run.js';
 import { renderBenchTable } from '../../harness/bench/table.js';
 import type { BenchReport } from '../../harness/bench/types.js';
 import { validateBench } from '../../harness/bench/validate.js';
 import { parseBuildSpec } from '../../harness/builds/spec.js';
 import { governorRateRows } from '../../harness/gate/governorRate.js';
-import { createResultsFile } from '../../harness/run/results/runResult.js';
-import { validateResults } from '../../harness/run/results/validate.js';
+import { createResultsFile } from '../../harness/results/runResult.js';
+import { validateResults } from '../../harness/results/validate.js';
 import { loadScenarioFile } from '../../harness/scenario/load.js';
 import type { ResolvedScenario } from '../../harness/scenario/types.js';
 

@@ -2,7 +2,7 @@ import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { printConfig } from '../../harness/config/commands.js';
+import { printConfig } from '../../harness/commands/config.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../../harness/config/defaults.js';
 import { expandGlob, globToRegExp } from '../../harness/config/glob.js';
 import { ConfigError, loadConfig } from '../../harness/config/load.js';

@@ -2,8 +2,8 @@ import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'nod
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { parsePairs, runGate } from '../../harness/gate/runGate.js';
-import { writeResultsJson } from '../../harness/run/results/writeJson.js';
+import { parsePairs, runGate } from '../../harness/commands/gate.js';
+import { writeResultsJson } from '../../harness/results/writeJson.js';
 import { results, scoredRun, walk, walkChanged } from './fixtures.js';
 
 let dir: string;

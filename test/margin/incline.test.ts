@@ -6,11 +6,11 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runGate } from '../../harness/gate/runGate.js';
-import { runMarginCommand } from '../../harness/margin/command.js';
+import { runGate } from '../../harness/commands/gate.js';
+import { runMarginCommand } from '../../harness/commands/margin.js';
 import { runMargins } from '../../harness/margin/runMargins.js';
-import { validateResults } from '../../harness/run/results/validate.js';
-import type { ResultsFile } from '../../harness/run/results/types.js';
+import { validateResults } from '../../harness/results/validate.js';
+import type { ResultsFile } from '../../harness/results/types.js';
 
 const INCLINE = 'test/margin/fixtures/scenarios/incline-stand.yaml';
 const STAND = 'stand=test/margin/fixtures/stand-parallel.ts';

@@ -4,11 +4,11 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { XMLParser } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
-import { runGate } from '../../harness/gate/runGate.js';
-import { isAtomicTempName } from '../../harness/run/atomic.js';
-import { mergeResults } from '../../harness/run/merge.js';
-import { validateResults } from '../../harness/run/results/validate.js';
-import type { ResultsFile, RunResult } from '../../harness/run/results/types.js';
+import { runGate } from '../../harness/commands/gate.js';
+import { isAtomicTempName } from '../../harness/files/atomic.js';
+import { mergeResults } from '../../harness/results/merge.js';
+import { validateResults } from '../../harness/results/validate.js';
+import type { ResultsFile, RunResult } from '../../harness/results/types.js';
 import { EXIT, runSuite } from '../../harness/run/suite.js';
 
 const MINI = 'test/run/fixtures/mini';

@@ -2,9 +2,9 @@
 // (no scenario or build text ever enters these strings; labels are ours). Long series are merged
 // down to about the plot's pixel width with the min/max rule of series/buckets.ts, so peaks stay.
 
-import { groupRanges } from '../series/buckets.js';
+import { groupRanges } from '../../score/series/buckets.js';
 import type { FrictionMap } from '../../plant/types.js';
-import type { MinMaxSeries, RunSeries, SlipSegment } from '../series/types.js';
+import type { MinMaxSeries, RunSeries, SlipSegment } from '../../score/series/types.js';
 import { bandsPath, envelopePath, linePath, markerPath } from './path.js';
 import { CONE_COLOUR, GRID, INK, muColour, SLIP_COLOUR, STANCE_SHADE, type BuildStyle } from './palette.js';
 import { linearScale, niceCeil, niceTicks, type Scale } from './scale.js';

@@ -7,8 +7,8 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { XMLParser } from 'fast-xml-parser';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { ResultsFile } from '../../../harness/run/results/types.js';
-import { validateResults } from '../../../harness/run/results/validate.js';
+import type { ResultsFile } from '../../../harness/results/types.js';
+import { validateResults } from '../../../harness/results/validate.js';
 import { createControllerRepo, FOOTING_COMMAND, FOOTING_ROOT, type ControllerRepo } from './repo.js';
 
 const CI = path.join(FOOTING_ROOT, 'ci');

@@ -2,9 +2,9 @@ import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cacheKey, checkRefName, clearGitCache, GitRefError, prepareGitBuild, resolveRef, type GitBuildRecipe } from '../../../harness/builds/git.js';
-import { clearCache, runConfiguredSuite } from '../../../harness/config/commands.js';
-import { validateResults } from '../../../harness/run/results/validate.js';
-import type { ResultsFile } from '../../../harness/run/results/types.js';
+import { clearCache, runConfiguredSuite } from '../../../harness/commands/config.js';
+import { validateResults } from '../../../harness/results/validate.js';
+import type { ResultsFile } from '../../../harness/results/types.js';
 import { EXIT } from '../../../harness/run/suite.js';
 import { BUILD_COMMAND, CONFIG_TEXT, createControllerRepo, git } from './repo.js';
 

@@ -2,11 +2,11 @@
 // tool versions, and one scenario id that carries different content hashes in different shards.
 
 import path from 'node:path';
-import { readResultsFile, ResultsReadError } from './results/read.js';
-import { createResultsFile } from './results/runResult.js';
-import type { BuildManifest, ResultsFile, RunResult } from './results/types.js';
-import { writeOutputs } from './outputs.js';
-import { EXIT, type ExitCode } from './suite.js';
+import { readResultsFile, ResultsReadError } from './read.js';
+import { createResultsFile } from './runResult.js';
+import type { BuildManifest, ResultsFile, RunResult } from './types.js';
+import { writeOutputs } from '../commands/outputs.js';
+import { EXIT, type ExitCode } from '../run/suite.js';
 
 export function mergeResultSets(sets: { file: string; results: ResultsFile }[]): ResultsFile {
   if (sets.length === 0) throw new MergeError('nothing to merge: name at least one results folder');

@@ -5,8 +5,8 @@
 import { clearGitCache, GitRefError, prepareGitBuild, resolveRef } from '../builds/git.js';
 import { displayPath } from '../scenario/paths.js';
 import { EXIT, runSuite, type ExitCode, type PreparedBuild, type SuiteRunOutcome } from '../run/suite.js';
-import { describeOrigin, itemLabel, resolveSettings, settingsErrorLines, type ResolvedBuild, type ResolvedSettings, type RunFlags } from './resolve.js';
-import type { Origin } from './types.js';
+import { describeOrigin, itemLabel, resolveSettings, settingsErrorLines, type ResolvedBuild, type ResolvedSettings, type RunFlags } from '../config/resolve.js';
+import type { Origin } from '../config/types.js';
 
 export interface CommandOutcome {
   exitCode: ExitCode;

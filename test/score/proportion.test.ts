@@ -1,6 +1,6 @@
 import { errorFunction } from 'simple-statistics';
 import { describe, expect, it } from 'vitest';
-import { differenceInterval, normalQuantile, twoSidedZ, wilsonInterval } from '../../harness/margin/proportion.js';
+import { differenceInterval, normalQuantile, twoSidedZ, wilsonInterval } from '../../harness/score/proportion.js';
 
 /** Two-sided z from a standard normal table (any statistics handbook), 6 decimals. */
 const Z_TABLE: Record<number, number> = { 0.8: 1.281552, 0.95: 1.959964, 0.99: 2.575829 };

@@ -2,7 +2,7 @@
 // produces (a JSON pointer and a message); the loader turns it into a ScenarioIssue by adding the
 // file name and the line/column of the node the pointer names.
 
-import type { ResolvedScenario } from './types.js';
+import type { ResolvedScenario } from '../scenario/types.js';
 
 export interface ScenarioIssue {
   /** File the problem is in, relative to the working directory when inside it. */

@@ -2,13 +2,13 @@
 // return the exit code and the text to print. 0 = hold, 1 = a rule broken, 2 = bad input.
 
 import { join } from 'node:path';
-import { writeFileAtomicSync } from '../run/atomic.js';
-import { readResultsFile, ResultsReadError } from '../run/results/read.js';
-import { defaultPolicy, type GatePolicy } from './defaults.js';
-import { gate } from './gate.js';
-import { loadPolicy, PolicyError } from './policy.js';
-import { renderGateMarkdown, renderGateText } from './render.js';
-import { GateInputError } from './types.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { readResultsFile, ResultsReadError } from '../results/read.js';
+import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
+import { gate } from '../gate/gate.js';
+import { loadPolicy, PolicyError } from '../gate/policy.js';
+import { renderGateMarkdown, renderGateText } from '../gate/render.js';
+import { GateInputError } from '../gate/types.js';
 
 export const GATE_EXIT = { hold: 0, block: 1, badInput: 2 } as const;
 export const GATE_REPORT_NAME = 'gate.md';

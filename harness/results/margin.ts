@@ -1,8 +1,8 @@
 // What the margin search and scenario families add to results.json (format version 2): a
 // `margin` object on a run, a `family` membership on its scenario, and a `families` summary list.
-// JSON Schema: harness/run/results/results.schema.json ($defs/margin, $defs/familySummary).
+// JSON Schema: harness/results/results.schema.json ($defs/margin, $defs/familySummary).
 
-import type { ProbeStatus, SampleRole, SearchResult } from './search.js';
+import type { ProbeStatus, SampleRole, SearchResult } from '../margin/search.js';
 
 /** One probe of a margin search, with the metrics that explain its outcome. */
 export interface MarginSample {

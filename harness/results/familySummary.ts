@@ -3,9 +3,9 @@
 // assembled (createResultsFile), so shards and merges summarise what they hold.
 
 import { createHash } from 'node:crypto';
-import type { RunResult } from '../run/results/types.js';
-import { wilsonInterval } from './proportion.js';
-import type { FamilySummary, Spread } from './types.js';
+import type { RunResult } from './types.js';
+import { wilsonInterval } from '../score/proportion.js';
+import type { FamilySummary, Spread } from './margin.js';
 
 /** Confidence of the intervals stored in results.json (the gate recomputes at its policy's). */
 export const FAMILY_CONFIDENCE = 0.95;

@@ -6,9 +6,9 @@ import type { Action } from '../../builds/interface.js';
 import { STANCE } from '../../builds/interface.js';
 import type { EpisodeStart, TickObserver } from '../../run/episode.js';
 import type { ResolvedScenario } from '../../scenario/types.js';
-import { frictionMargin } from '../../score/frictionMargin.js';
-import type { TickSample } from '../../score/sample.js';
-import { DEFAULT_SLIP_SPEED_mps, loadedThreshold_N } from '../../score/thresholds.js';
+import { frictionMargin } from '../frictionMargin.js';
+import type { TickSample } from '../sample.js';
+import { DEFAULT_SLIP_SPEED_mps, loadedThreshold_N } from '../thresholds.js';
 import { MinMaxBuckets, round, ticksPerBucket } from './buckets.js';
 import { compactFrictionMap } from './frictionMapData.js';
 import {

@@ -6,13 +6,13 @@ import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseBuildSpec, type BuildSpec } from '../builds/spec.js';
-import { writeFileAtomicSync } from '../run/atomic.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
 import { prepareBuilds } from '../run/prepare.js';
 import { loadScenarioFile } from '../scenario/load.js';
-import { formatIssue } from '../scenario/issue.js';
-import { runBench } from './run.js';
-import { renderBenchTable } from './table.js';
-import type { BenchReport } from './types.js';
+import { formatIssue } from '../files/issue.js';
+import { runBench } from '../bench/run.js';
+import { renderBenchTable } from '../bench/table.js';
+import type { BenchReport } from '../bench/types.js';
 
 /** The repository root (where scenarios/ and examples/ live). */
 const PACKAGE_ROOT = fileURLToPath(new URL('../../', import.meta.url));

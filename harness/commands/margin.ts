@@ -6,7 +6,7 @@
 // errors as written (its margins are still measured where possible), 2 bad input, 3 internal.
 
 import { EXIT } from '../run/suite.js';
-import { runMargins, type MarginQuantity } from './runMargins.js';
+import { runMargins, type MarginQuantity } from '../margin/runMargins.js';
 
 export interface MarginCommandArgs {
   paths?: string[];

@@ -4,12 +4,12 @@
 
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { writeFileAtomicSync } from '../run/atomic.js';
-import { mergeResultSets, MergeError } from '../run/merge.js';
-import { readResultsFile, ResultsReadError } from '../run/results/read.js';
-import type { ResultsFile } from '../run/results/types.js';
-import { buildReportModel } from './model.js';
-import { renderModel } from './render.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { mergeResultSets, MergeError } from '../results/merge.js';
+import { readResultsFile, ResultsReadError } from '../results/read.js';
+import type { ResultsFile } from '../results/types.js';
+import { buildReportModel } from '../report/model.js';
+import { renderModel } from '../report/render.js';
 
 export interface ReportCommandArgs {
   results: string[];

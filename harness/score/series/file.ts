@@ -4,7 +4,7 @@
 
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
-import { writeFileAtomicSync } from '../../run/atomic.js';
+import { writeFileAtomicSync } from '../../files/atomic.js';
 import { SERIES_FORMAT, SERIES_FORMAT_VERSION, type RunSeries } from './types.js';
 
 export const SERIES_FOLDER = 'series';

@@ -2,7 +2,7 @@
 // scenario; acceptance failures as <failure> with the reasons, error runs as <error>.
 
 import { XMLBuilder } from 'fast-xml-parser';
-import { writeFileAtomicSync } from '../atomic.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
 import { runsByBuild } from './buildOrder.js';
 import type { ResultsFile, RunResult } from './types.js';
 

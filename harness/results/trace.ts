@@ -2,8 +2,8 @@
 // close, so memory does not grow with the run and a killed run leaves no truncated trace.
 // Columns are fixed-point with a stated resolution (TRACE_DECIMALS) to keep files compact.
 
-import { createAtomicStream, type AtomicStream } from '../atomic.js';
-import type { TickSample } from '../../score/sample.js';
+import { createAtomicStream, type AtomicStream } from '../files/atomic.js';
+import type { TickSample } from '../score/sample.js';
 
 /** Decimals per column family: time 1 µs, position 1 µm, velocity 10 µm/s, force 0.1 mN. */
 export const TRACE_DECIMALS = { time: 6, position: 6, velocity: 5, force: 4, friction: 4 } as const;

@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { createAction, STANCE, SWING } from '../../harness/builds/interface.js';
-import { createSeriesRecorder, LOOP_BIN_RATIO, LOOP_BIN_START_us } from '../../harness/report/series/recorder.js';
-import { MAX_SERIES_POINTS } from '../../harness/report/series/types.js';
-import type { ResolvedScenario } from '../../harness/scenario/types.js';
-import { createTickSample, type TickSample } from '../../harness/score/sample.js';
-import { loadedThreshold_N } from '../../harness/score/thresholds.js';
-import { plantConfig } from '../support/robots.js';
+import { createAction, STANCE, SWING } from '../../../harness/builds/interface.js';
+import { createSeriesRecorder, LOOP_BIN_RATIO, LOOP_BIN_START_us } from '../../../harness/score/series/recorder.js';
+import { MAX_SERIES_POINTS } from '../../../harness/score/series/types.js';
+import type { ResolvedScenario } from '../../../harness/scenario/types.js';
+import { createTickSample, type TickSample } from '../../../harness/score/sample.js';
+import { loadedThreshold_N } from '../../../harness/score/thresholds.js';
+import { plantConfig } from '../../support/robots.js';
 
 function scenario(duration_s: number, rate_Hz: number): ResolvedScenario {
   return {

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { decimateMinMax, MinMaxBuckets, rebucket, ticksPerBucket } from '../../harness/report/series/buckets.js';
-import { envelopePath, linePath } from '../../harness/report/plot/path.js';
-import { escapeXml, num } from '../../harness/report/plot/svg.js';
-import { niceTicks } from '../../harness/report/plot/scale.js';
+import { decimateMinMax, MinMaxBuckets, rebucket, ticksPerBucket } from '../../../harness/score/series/buckets.js';
+import { envelopePath, linePath } from '../../../harness/report/plot/path.js';
+import { escapeXml, num } from '../../../harness/report/plot/svg.js';
+import { niceTicks } from '../../../harness/report/plot/scale.js';
 
 describe('min/max decimation', () => {
   it('keeps at most 2 × maxBuckets points for any length', () => {

@@ -1,10 +1,10 @@
 // Result sets made by really scoring hand-made samples (no hand-typed metric objects).
 
-import { createErrorRunResult, createResultsFile, createRunResult } from '../../../harness/run/results/runResult.js';
-import type { ResultsFile, RunResult } from '../../../harness/run/results/types.js';
-import { createScorer } from '../../../harness/score/scorer.js';
-import type { ResolvedScenario } from '../../../harness/scenario/types.js';
-import { drive, makeScenario, standingSample } from '../../score/fixtures.js';
+import { createErrorRunResult, createResultsFile, createRunResult } from '../../harness/results/runResult.js';
+import type { ResultsFile, RunResult } from '../../harness/results/types.js';
+import { createScorer } from '../../harness/score/scorer.js';
+import type { ResolvedScenario } from '../../harness/scenario/types.js';
+import { drive, makeScenario, standingSample } from '../score/fixtures.js';
 
 export const MACHINE = { cores: 2, nodeVersion: 'v20.0.0', platform: 'linux', arch: 'x64', cpuModel: 'test cpu' };
 

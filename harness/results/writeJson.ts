@@ -1,7 +1,7 @@
 // results.json: validated against its schema before it is written, so a file on disk always
 // passes `validateResults`.
 
-import { writeFileAtomicSync } from '../atomic.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
 import type { ResultsFile } from './types.js';
 import { formatResultsIssues, validateResults } from './validate.js';
 

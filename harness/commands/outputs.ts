@@ -4,11 +4,11 @@
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { renderReportHtml, type ReportOptions } from '../report/index.js';
-import { writeFileAtomicSync } from './atomic.js';
-import { writeJunitXml } from './results/writeJunit.js';
-import { writeResultsJson } from './results/writeJson.js';
-import { writeSummaryMarkdown } from './results/writeSummary.js';
-import { RESULTS_FILE_NAME, type ResultsFile } from './results/types.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { writeJunitXml } from '../results/writeJunit.js';
+import { writeResultsJson } from '../results/writeJson.js';
+import { writeSummaryMarkdown } from '../results/writeSummary.js';
+import { RESULTS_FILE_NAME, type ResultsFile } from '../results/types.js';
 
 export const OUTPUT_FILES = {
   results: RESULTS_FILE_NAME,

@@ -3,7 +3,7 @@ import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSy
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { createAtomicStream, isAtomicTempName, removeStaleTemps, writeFileAtomicSync } from '../../../harness/run/atomic.js';
+import { createAtomicStream, isAtomicTempName, removeStaleTemps, writeFileAtomicSync } from '../../harness/files/atomic.js';
 
 let dir: string;
 beforeEach(() => {
@@ -34,7 +34,7 @@ describe('atomic writes', () => {
 
   it('leave the target untouched and only a sweepable temporary when the writer is SIGKILLed', async () => {
     const file = join(dir, 'trace.csv');
-    const moduleUrl = new URL('../../../harness/run/atomic.ts', import.meta.url).href;
+    const moduleUrl = new URL('../../harness/files/atomic.ts', import.meta.url).href;
     const script = `
       import { createAtomicStream } from ${JSON.stringify(moduleUrl)};
       const s = createAtomicStream(${JSON.stringify(file)}, 16);

@@ -12,7 +12,7 @@ export interface Interval {
 /**
  * Standard normal quantile Φ⁻¹(p), by Acklam's rational approximation (relative error below
  * 1.2·10⁻⁹ over (0, 1); coefficients as published by P. J. Acklam, 2003). Checked against
- * simple-statistics' probit in test/margin/proportion.test.ts.
+ * simple-statistics' probit in test/score/proportion.test.ts.
  */
 export function normalQuantile(p: number): number {
   if (!(p > 0 && p < 1)) {

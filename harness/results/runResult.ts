@@ -2,10 +2,10 @@
 // error run keeps whatever was scored before it broke off.
 
 import { availableParallelism, cpus } from 'node:os';
-import type { ResolvedScenario } from '../../scenario/types.js';
-import { summarizeFamilies } from '../../margin/familySummary.js';
-import { evaluateAcceptance } from '../../score/acceptance.js';
-import type { RunMetrics } from '../../score/types.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import { summarizeFamilies } from './familySummary.js';
+import { evaluateAcceptance } from '../score/acceptance.js';
+import type { RunMetrics } from '../score/types.js';
 import {
   RESULTS_FORMAT,
   RESULTS_FORMAT_VERSION,

@@ -2,9 +2,9 @@
 // tool, machine and builds. JSON Schema: results.schema.json (validate.ts). Bump
 // RESULTS_FORMAT_VERSION on any incompatible change.
 
-import type { FamilySummary, RunMargin } from '../../margin/types.js';
-import type { FamilyMembership } from '../../scenario/types.js';
-import type { ScoreMetrics, SimMetrics } from '../../score/types.js';
+import type { FamilySummary, RunMargin } from './margin.js';
+import type { FamilyMembership } from '../scenario/types.js';
+import type { ScoreMetrics, SimMetrics } from '../score/types.js';
 
 export const RESULTS_FORMAT = 'footing-results';
 /** 2 added the optional run `margin`, scenario `family` and top-level `families` (migrate.ts reads 1). */

@@ -1,7 +1,7 @@
 // summary.md: a short Markdown digest for a merge-request comment — totals per build, the failing
 // runs with their reasons, and the full table folded away.
 
-import { writeFileAtomicSync } from '../atomic.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
 import { runsByBuild } from './buildOrder.js';
 import type { ResultsFile, RunResult } from './types.js';
 
