@@ -12,7 +12,8 @@
 //   angular momentum to ~1e-12 over seconds at the default step.
 // - friction: the per-foot implicit stick/slide solve of contact.ts.
 
-import type { Action } from '../builds/interface.js';
+import type { RobotState } from '../contract/state.js';
+import type { Action } from '../contract/tick.js';
 import { footFriction, huntCrossleyNormal_N } from './contact.js';
 import { PlantDivergedError } from './errors.js';
 import { FrictionField } from './frictionMap.js';
@@ -356,17 +357,7 @@ export class Plant {
   }
 
   /** Copies the plant's truth into an observation (the run layer adds noise and estimates). */
-  fillObservation(obs: {
-    time_s: number;
-    trunkPosition_m: Float64Array;
-    trunkQuaternion: Float64Array;
-    trunkVelocity_mps: Float64Array;
-    trunkAngularVelocity_radps: Float64Array;
-    footPosition_m: Float64Array;
-    footVelocity_mps: Float64Array;
-    footForce_N: Float64Array;
-    footContact: Uint8Array;
-  }): void {
+  fillObservation(obs: RobotState): void {
     obs.time_s = this.time_s;
     obs.trunkPosition_m.set(this.trunkPosition_m);
     obs.trunkQuaternion.set(this.trunkQuaternion);

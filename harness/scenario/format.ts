@@ -1,7 +1,7 @@
 // The shape of a version-1 file once it has passed scenario.schema.json / robot.schema.json.
 // Optional fields are optional here exactly as in the schema; defaults.ts fills them.
 
-import type { GaitName } from '../builds/interface.js';
+import type { GaitName } from '../contract/tick.js';
 import type { RobotParams, Vec3 } from '../plant/types.js';
 
 export const SCENARIO_FORMAT = 'footing-scenario';

@@ -2,12 +2,11 @@
 // as it goes (memory does not grow with the run; nothing is allocated per tick except the rare
 // foothold or slip-segment record), and hands back a RunSeries at the end.
 
-import type { Action } from '../../builds/interface.js';
-import { STANCE } from '../../builds/interface.js';
-import type { EpisodeStart, TickObserver } from '../../run/episode.js';
+import { STANCE, type Action } from '../../contract/tick.js';
 import type { ResolvedScenario } from '../../scenario/types.js';
 import { frictionMargin } from '../frictionMargin.js';
-import type { TickSample } from '../sample.js';
+import type { EpisodeStart, TickObserver, TickSample } from '../sample.js';
+import { SlipTracker } from '../slip.js';
 import { DEFAULT_SLIP_SPEED_mps, loadedThreshold_N } from '../thresholds.js';
 import { MinMaxBuckets, round, ticksPerBucket } from './buckets.js';
 import { compactFrictionMap } from './frictionMapData.js';
@@ -46,6 +45,8 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
   const bucketCount = Math.ceil(expectedTicks / bucketTicks);
   const slipSpeed_mps = options.slipSpeed_mps ?? DEFAULT_SLIP_SPEED_mps;
   let threshold_N = loadedThreshold_N(scenario.plant.robot);
+  // The scorer's slip law itself (score/slip.ts): loaded feet, distance and the slip-speed test.
+  let slip = new SlipTracker(n, threshold_N, slipSpeed_mps);
 
   const use = Array.from({ length: n }, () => new MinMaxBuckets(bucketCount));
   const normal = Array.from({ length: n }, () => new MinMaxBuckets(bucketCount));
@@ -55,7 +56,6 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
   const bucketTicksSeen = new Uint32Array(bucketCount);
   const t = new Float64Array(bucketCount);
   const trunk = new Float64Array(4 * bucketCount);
-  const distance_m = new Float64Array(n);
   const wasLoaded = new Uint8Array(n);
   const slipStart = new Float64Array(3 * n); // t, x, y
   const slipFrom = new Float64Array(n);
@@ -83,13 +83,14 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
       end_s: round(end_s, DIGITS + 1),
       from_m: [round(slipStart[3 * i + 1], DIGITS), round(slipStart[3 * i + 2], DIGITS)],
       to_m: [round(lastFoot[2 * i], DIGITS), round(lastFoot[2 * i + 1], DIGITS)],
-      distance_m: round(distance_m[i] - slipFrom[i], DIGITS),
+      distance_m: round(slip.distancePerFoot_m[i] - slipFrom[i], DIGITS),
     });
   };
 
   return {
     onStart(info: EpisodeStart): void {
       threshold_N = info.loadedThreshold_N;
+      slip = new SlipTracker(n, threshold_N, slipSpeed_mps);
       governorPairs = [];
       const names = info.telemetryNames;
       names.forEach((name, index) => {
@@ -113,23 +114,19 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
       trunk[4 * b + 3] = s.referencePosition_m[1];
       const f = s.footForce_N;
       const p = s.footPosition_m;
-      const v = s.footVelocity_mps;
+      slip.record(s);
       for (let i = 0; i < n; i++) {
         const fz = f[3 * i + 2];
-        const loaded = fz > threshold_N;
+        const loaded = slip.loaded[i] === 1;
         const x = p[3 * i];
         const y = p[3 * i + 1];
         lastFoot[2 * i] = x;
         lastFoot[2 * i + 1] = y;
         normal[i].add(b, fz);
         if (s.mode[i] === STANCE) stanceTicks[i * bucketCount + b]++;
-        let slidingNow = false;
+        const slidingNow = slip.sliding[i] === 1;
         if (loaded) {
           use[i].add(b, 1 - frictionMargin(f[3 * i], f[3 * i + 1], fz, s.footStaticFriction[i]));
-          // Same law and threshold as the scorer's SlipTracker (score/slip.ts).
-          const speed_mps = Math.sqrt(v[3 * i] * v[3 * i] + v[3 * i + 1] * v[3 * i + 1]);
-          distance_m[i] += speed_mps * s.dt_s;
-          slidingNow = speed_mps > slipSpeed_mps;
           if (!wasLoaded[i]) {
             if (footholds.length < MAX_FOOTHOLDS) footholds.push({ foot: i, t_s: round(s.time_s, DIGITS + 1), x_m: round(x, DIGITS), y_m: round(y, DIGITS) });
             else dropped.footholds++;
@@ -143,12 +140,12 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
             slipStart[3 * i] = s.time_s;
             slipStart[3 * i + 1] = x;
             slipStart[3 * i + 2] = y;
-            slipFrom[i] = distance_m[i];
+            slipFrom[i] = slip.distancePerFoot_m[i];
           }
         } else if (inSlip[i]) {
           closeSlip(i, s.time_s);
         }
-        slipDistance[i * bucketCount + b] = distance_m[i];
+        slipDistance[i * bucketCount + b] = slip.distancePerFoot_m[i];
       }
       for (let k = 0; k < governorPairs.length; k++) {
         const g = governorPairs[k];
