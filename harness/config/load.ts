@@ -5,7 +5,7 @@
 
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
-import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
+import type { ErrorObject } from 'ajv/dist/2020.js';
 import { LineCounter, parseDocument, stringify, type Document } from 'yaml';
 import { BuildSpecError, parseBuildSpec } from '../builds/spec.js';
 import type { GatePolicy } from '../gate/defaults.js';
@@ -13,6 +13,7 @@ import { formatPolicyIssue, parsePolicy, POLICY_SCHEMA_URL } from '../gate/polic
 import { locate } from '../gate/yamlLocation.js';
 import { displayPath } from '../scenario/paths.js';
 import { kindOf, showValue } from '../files/issue.js';
+import { schemaValidator } from '../files/schema.js';
 import { didYouMean } from '../files/suggest.js';
 import { CONFIG_FILE_NAMES, type ConfigData, type ConfigIssue, type GitBuildData } from './types.js';
 
@@ -39,15 +40,7 @@ export interface LoadedConfig {
   inlinePolicy?: GatePolicy;
 }
 
-let compiled: ValidateFunction | undefined;
-function validator(): ValidateFunction {
-  if (compiled === undefined) {
-    const ajv = new Ajv2020({ allErrors: true, strict: true, strictTypes: false, verbose: true });
-    ajv.addSchema(JSON.parse(readFileSync(POLICY_SCHEMA_URL, 'utf8')));
-    compiled = ajv.compile(JSON.parse(readFileSync(CONFIG_SCHEMA_URL, 'utf8')));
-  }
-  return compiled;
-}
+const validator = () => schemaValidator(CONFIG_SCHEMA_URL, { references: [POLICY_SCHEMA_URL] });
 
 /** The config file to use: `--config FILE`, else footing.config.yaml in `cwd`; null when there is none. */
 export function findConfigFile(cwd: string, given?: string): string | null {

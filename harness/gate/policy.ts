@@ -3,8 +3,9 @@
 // for misspelt keys.
 
 import { readFileSync } from 'node:fs';
-import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
-import { closest, distance } from 'fastest-levenshtein';
+import type { ErrorObject } from 'ajv/dist/2020.js';
+import { schemaValidator } from '../files/schema.js';
+import { suggestName } from '../files/suggest.js';
 import { LineCounter, parseDocument } from 'yaml';
 import { DEFAULT_GATE_RULES, GATE_RULE_NAMES, type GatePolicy, type GateRules } from './defaults.js';
 import { locate } from './yamlLocation.js';
@@ -32,20 +33,13 @@ export function formatPolicyIssue(issue: PolicyIssue): string {
   return `${where}: ${issue.path === '' ? '(top level)' : issue.path}: ${issue.message}`;
 }
 
-let compiled: ValidateFunction | undefined;
-function validator(): ValidateFunction {
-  if (compiled === undefined) {
-    const ajv = new Ajv2020({ allErrors: true, strict: true, strictTypes: false });
-    compiled = ajv.compile(JSON.parse(readFileSync(POLICY_SCHEMA_URL, 'utf8')));
-  }
-  return compiled;
-}
+const validator = () => schemaValidator(POLICY_SCHEMA_URL);
 
 const TOP_LEVEL_KEYS: readonly string[] = [...GATE_RULE_NAMES, 'version', 'overrides'];
 
 function didYouMean(key: string, allowed: readonly string[]): string {
-  const guess = closest(key, allowed as string[]);
-  return distance(key, guess) <= Math.max(2, Math.floor(guess.length / 3)) ? `; did you mean "${guess}"?` : '';
+  const guess = suggestName(key, allowed);
+  return guess === undefined ? '' : `; did you mean "${guess}"?`;
 }
 
 function show(value: unknown): string {

@@ -1,23 +1,13 @@
 // Validation of a results.json against results.schema.json (JSON Schema 2020-12, ajv).
 
-import { readFileSync } from 'node:fs';
-import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
+import type { ErrorObject } from 'ajv/dist/2020.js';
+import { schemaValidator } from '../files/schema.js';
 import type { ResultsFile } from './types.js';
 
 export const RESULTS_SCHEMA_URL = new URL('./results.schema.json', import.meta.url);
 
-let compiled: ValidateFunction | undefined;
-
-function validator(): ValidateFunction {
-  if (compiled === undefined) {
-    const schema = JSON.parse(readFileSync(RESULTS_SCHEMA_URL, 'utf8'));
-    // `format` keywords are annotations here (ajv-formats is not installed); the date is checked below.
-    // strictRequired/strictTypes are off because if/then/else branches name fields declared outside them.
-    const ajv = new Ajv2020({ allErrors: true, strict: true, strictRequired: false, strictTypes: false, validateFormats: false });
-    compiled = ajv.compile(schema);
-  }
-  return compiled;
-}
+// `format` keywords are annotations (files/schema.ts); the start date is checked below.
+const validator = () => schemaValidator(RESULTS_SCHEMA_URL);
 
 export interface ResultsIssue {
   /** JSON pointer of the offending value, e.g. /runs/3/metrics/slipDistance_m. */
