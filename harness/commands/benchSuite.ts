@@ -6,10 +6,11 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { defaultJobs, runSuite } from '../run/suite.js';
+import { DEFAULT_BUILDS } from '../builds/spec.js';
+import { defaultJobs } from '../run/pool.js';
+import { runSuite } from './run.js';
 
 const LIBRARY = fileURLToPath(new URL('../../scenarios/', import.meta.url));
-const REFERENCE = ['ref:nominal', 'ref:governed', 'ref:clamped', 'ref:qp'];
 
 export interface SuiteBenchFigures {
   runs: number;
@@ -23,7 +24,7 @@ export interface SuiteBenchFigures {
 
 export async function benchSuite(options: { runs: number; jobs?: number; log?: (line: string) => void }): Promise<SuiteBenchFigures> {
   const runs = Math.max(1, Math.floor(options.runs));
-  const buildCount = Math.min(REFERENCE.length, runs);
+  const buildCount = Math.min(DEFAULT_BUILDS.length, runs);
   const scenarioCount = Math.ceil(runs / buildCount);
   const folder = mkdtempSync(path.join(tmpdir(), 'footing-suite-bench-'));
   try {
@@ -36,7 +37,7 @@ export async function benchSuite(options: { runs: number; jobs?: number; log?: (
       const text = template.replace(/^id:.*$/m, `id: suite-bench-${k}`).replace(/^seed:.*$/m, `seed: ${k + 1}`);
       writeFileSync(path.join(folder, `suite-bench-${k}.yaml`), text);
     }
-    const builds = REFERENCE.slice(0, buildCount).map((spec, i) => `b${i}=${spec}`);
+    const builds = DEFAULT_BUILDS.slice(0, buildCount).map((spec, i) => `b${i}=${spec}`);
     const started = performance.now();
     const outcome = await runSuite({ paths: [folder], builds, outDir: path.join(folder, 'out'), jobs: options.jobs, quiet: true, log: options.log });
     const wall_s = (performance.now() - started) / 1000;

@@ -1,5 +1,5 @@
-// The gate command without the CLI: read both result sets and the policy, gate, write gate.md,
-// return the exit code and the text to print. 0 = hold, 1 = a rule broken, 2 = bad input.
+// `footing gate`: read both result sets and the policy, gate, write gate.md, return the exit code
+// and the lines to print. 0 = hold, 1 = a rule broken, 2 = bad input.
 
 import { join } from 'node:path';
 import { writeFileAtomicSync } from '../files/atomic.js';
@@ -8,10 +8,11 @@ import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
 import { gate } from '../gate/gate.js';
 import { loadPolicy, PolicyError } from '../gate/policy.js';
 import { renderGateMarkdown, renderGateText } from '../gate/render.js';
+import { parsePairs } from '../gate/pairing.js';
 import { GateInputError } from '../gate/types.js';
-
-export const GATE_EXIT = { hold: 0, block: 1, badInput: 2 } as const;
-export const GATE_REPORT_NAME = 'gate.md';
+import { EXIT, type ExitCode } from './exit.js';
+import { OUTPUT_FILES } from './outputs.js';
+import type { CommandOutcome } from './skeleton.js';
 
 export interface RunGateArgs {
   /** results.json or a folder holding one. */
@@ -24,26 +25,9 @@ export interface RunGateArgs {
   out?: string;
 }
 
-export interface RunGateResult {
-  exitCode: 0 | 1 | 2;
-  text: string;
-}
-
-export function parsePairs(pairs: readonly string[]): [string, string][] {
-  return pairs.map((text) => {
-    const at = text.indexOf('=');
-    const base = text.slice(0, at).trim();
-    const cand = text.slice(at + 1).trim();
-    if (at < 0 || base === '' || cand === '' || cand.includes('=')) {
-      throw new GateInputError(`--pair "${text}": expected BASE=CAND, two build names joined by "="`);
-    }
-    return [base, cand];
-  });
-}
-
-export async function runGate(args: RunGateArgs): Promise<RunGateResult> {
+export async function runGate(args: RunGateArgs): Promise<CommandOutcome> {
   let text: string;
-  let exitCode: 0 | 1;
+  let exitCode: ExitCode;
   try {
     const policy: GatePolicy = args.policyFile === undefined ? defaultPolicy() : loadPolicy(args.policyFile);
     const pairs = parsePairs(args.pairs ?? []);
@@ -55,23 +39,20 @@ export async function runGate(args: RunGateArgs): Promise<RunGateResult> {
         ...outcome.notComparable.map((n) => `  not comparable: ${n.scenario}: ${n.reason}`),
         ...outcome.unpaired.map((u) => `  unpaired: ${u.side} ${u.build}${u.scenario === null ? '' : ` ${u.scenario}`}: ${u.reason}`),
       ];
-      return {
-        exitCode: GATE_EXIT.badInput,
-        text: [`gate: nothing to compare between ${baseline.file} and ${candidate.file}`, ...why].join('\n'),
-      };
+      return { exitCode: EXIT.badInput, lines: [`gate: nothing to compare between ${baseline.file} and ${candidate.file}`, ...why] };
     }
     text = renderGateText(outcome);
-    exitCode = outcome.verdict === 'block' ? GATE_EXIT.block : GATE_EXIT.hold;
+    exitCode = outcome.verdict === 'block' ? EXIT.fail : EXIT.pass;
     if (args.out !== undefined) {
-      const file = join(args.out, GATE_REPORT_NAME);
+      const file = join(args.out, OUTPUT_FILES.gate);
       writeFileAtomicSync(file, renderGateMarkdown(outcome));
       text += `\nwrote ${file}`;
     }
   } catch (error) {
     if (error instanceof PolicyError || error instanceof ResultsReadError || error instanceof GateInputError) {
-      return { exitCode: GATE_EXIT.badInput, text: `gate: ${error.message}` };
+      return { exitCode: EXIT.badInput, lines: [`gate: ${error.message}`] };
     }
     throw error;
   }
-  return { exitCode, text };
+  return { exitCode, lines: text.split('\n') };
 }

@@ -1,5 +1,5 @@
 // Everything a results folder holds, written atomically: results.json, junit.xml, summary.md,
-// report.html, and gate.md when a baseline build was named.
+// report.html, gate.md when a baseline build was named, margin.md for `footing margin`.
 
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
@@ -16,6 +16,7 @@ export const OUTPUT_FILES = {
   summary: 'summary.md',
   report: 'report.html',
   gate: 'gate.md',
+  margin: 'margin.md',
 } as const;
 
 /** Report options beyond the folder (baseline build, gate outcome, policy, shard folders). */

@@ -10,6 +10,8 @@ import { readResultsFile, ResultsReadError } from '../results/read.js';
 import type { ResultsFile } from '../results/types.js';
 import { buildReportModel } from '../report/model.js';
 import { renderModel } from '../report/render.js';
+import { EXIT, exitCodeOfRuns } from './exit.js';
+import type { CommandOutcome } from './skeleton.js';
 
 export interface ReportCommandArgs {
   results: string[];
@@ -20,13 +22,13 @@ export interface ReportCommandArgs {
   cwd?: string;
 }
 
-export async function runReportCommand(args: ReportCommandArgs): Promise<{ exitCode: 0 | 1 | 2; lines: string[] }> {
+export async function runReportCommand(args: ReportCommandArgs): Promise<CommandOutcome> {
   const cwd = args.cwd ?? process.cwd();
-  if (args.results.length === 0) return { exitCode: 2, lines: ['footing report: name at least one results.json or results folder'] };
-  if (!args.out) return { exitCode: 2, lines: ['footing report: --out FILE is required (the HTML file to write)'] };
+  if (args.results.length === 0) return { exitCode: EXIT.badInput, lines: ['footing report: name at least one results.json or results folder'] };
+  if (!args.out) return { exitCode: EXIT.badInput, lines: ['footing report: --out FILE is required (the HTML file to write)'] };
   const out = path.resolve(cwd, args.out);
   if (!out.endsWith('.html') && !out.endsWith('.htm')) {
-    return { exitCode: 2, lines: [`footing report: --out ${args.out}: expected an .html file name`] };
+    return { exitCode: EXIT.badInput, lines: [`footing report: --out ${args.out}: expected an .html file name`] };
   }
   let sets: { file: string; results: ResultsFile }[];
   let results: ResultsFile;
@@ -34,12 +36,12 @@ export async function runReportCommand(args: ReportCommandArgs): Promise<{ exitC
     sets = args.results.map((p) => readResultsFile(path.resolve(cwd, p)));
     results = sets.length === 1 ? sets[0].results : mergeResultSets(sets);
   } catch (error) {
-    if (error instanceof ResultsReadError || error instanceof MergeError) return { exitCode: 2, lines: [error.message] };
+    if (error instanceof ResultsReadError || error instanceof MergeError) return { exitCode: EXIT.badInput, lines: [error.message] };
     throw error;
   }
   const names = new Set(results.runs.map((r) => r.build));
   if (args.baseline !== undefined && !names.has(args.baseline)) {
-    return { exitCode: 2, lines: [`footing report: --baseline ${args.baseline}: no build of that name in the results (builds: ${[...names].join(', ')})`] };
+    return { exitCode: EXIT.badInput, lines: [`footing report: --baseline ${args.baseline}: no build of that name in the results (builds: ${[...names].join(', ')})`] };
   }
   let bench: unknown;
   if (args.bench) {
@@ -47,7 +49,7 @@ export async function runReportCommand(args: ReportCommandArgs): Promise<{ exitC
     try {
       bench = JSON.parse(readFileSync(file, 'utf8'));
     } catch (error) {
-      return { exitCode: 2, lines: [`footing report: --bench ${file}: cannot read it as JSON (${(error as Error).message})`] };
+      return { exitCode: EXIT.badInput, lines: [`footing report: --bench ${file}: cannot read it as JSON (${(error as Error).message})`] };
     }
   }
   const html = renderModel(buildReportModel(results, {
@@ -57,9 +59,8 @@ export async function runReportCommand(args: ReportCommandArgs): Promise<{ exitC
     sourceDirs: sets.map((s) => path.dirname(s.file)),
   }));
   writeFileAtomicSync(out, html);
-  const failed = results.runs.some((r) => r.status !== 'pass');
   return {
-    exitCode: failed ? 1 : 0,
+    exitCode: exitCodeOfRuns(results.runs),
     lines: [`report of ${results.runs.length} runs from ${sets.length} results set${sets.length === 1 ? '' : 's'} → ${path.relative(cwd, out) || out} (${Math.round(html.length / 1024)} KB)`],
   };
 }

@@ -2,8 +2,6 @@
 // produces (a JSON pointer and a message); the loader turns it into a ScenarioIssue by adding the
 // file name and the line/column of the node the pointer names.
 
-import type { ResolvedScenario } from '../scenario/types.js';
-
 export interface ScenarioIssue {
   /** File the problem is in, relative to the working directory when inside it. */
   file: string;
@@ -16,10 +14,6 @@ export interface ScenarioIssue {
   /** A suggestion such as `did you mean "stribeckVelocity_mps"?`. */
   hint?: string;
 }
-
-export type LoadResult =
-  | { ok: true; scenarios: ResolvedScenario[]; warnings: ScenarioIssue[] }
-  | { ok: false; errors: ScenarioIssue[] };
 
 /** What a check reports before the loader knows positions. */
 export interface Finding {

@@ -117,3 +117,16 @@ function scenarioChange(base: RunResult, cand: RunResult): string {
   if (identity.kind === 'changedWithoutRevision') return `warning: ${identity.message}`;
   return `scenario changed (revision ${base.scenario.revision} → ${cand.scenario.revision}, hash ${base.scenario.hash.slice(0, 12)} → ${cand.scenario.hash.slice(0, 12)})`;
 }
+
+/** `--pair BASE=CAND` texts as build-name pairs; a malformed one is a GateInputError. */
+export function parsePairs(pairs: readonly string[]): [string, string][] {
+  return pairs.map((text) => {
+    const at = text.indexOf('=');
+    const base = text.slice(0, at).trim();
+    const cand = text.slice(at + 1).trim();
+    if (at < 0 || base === '' || cand === '' || cand.includes('=')) {
+      throw new GateInputError(`--pair "${text}": expected BASE=CAND, two build names joined by "="`);
+    }
+    return [base, cand];
+  });
+}

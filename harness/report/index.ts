@@ -1,4 +1,4 @@
-// The report entry point the runner and `footing merge` call: one self-contained HTML file (inline
+// The report entry point the run, merge and margin commands call: one self-contained HTML file (inline
 // CSS, inline SVG plots, a small optional script; no network) from a results set and the series
 // files beside it. See docs/report.md.
 
@@ -8,9 +8,6 @@ import { renderModel } from './render.js';
 
 export type { ReportOptions } from './model.js';
 export { buildReportModel } from './model.js';
-export { runReportCommand } from '../commands/report.js';
-export { createSeriesRecorder } from '../score/series/recorder.js';
-export { seriesPath, readSeriesFor, writeSeriesFile } from '../score/series/file.js';
 
 export function renderReportHtml(results: ResultsFile, options: ReportOptions): string {
   return renderModel(buildReportModel(results, options));

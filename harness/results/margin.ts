@@ -2,7 +2,37 @@
 // `margin` object on a run, a `family` membership on its scenario, and a `families` summary list.
 // JSON Schema: harness/results/results.schema.json ($defs/margin, $defs/familySummary).
 
-import type { ProbeStatus, SampleRole, SearchResult } from '../margin/search.js';
+// The search's own result shape (harness/margin/search.ts fills it) lives here, below the search,
+// so that the result file types need nothing of the margin engine.
+export type ProbeStatus = 'pass' | 'fail' | 'error';
+
+export type SampleRole = 'nominal' | 'end' | 'bisection' | 'check';
+
+export interface SearchSample<D> {
+  scale: number;
+  status: ProbeStatus;
+  role: SampleRole;
+  detail: D;
+}
+
+export type SearchOutcomeKind = 'found' | 'passesWholeRange' | 'failsWholeRange';
+
+export interface SearchResult<D> {
+  outcome: SearchOutcomeKind;
+  /** Conservative critical scale (rules in the header of harness/margin/search.ts); at a range end for 'passesWholeRange'; null for 'failsWholeRange'. */
+  critical: number | null;
+  /** Closest failing and passing scales around the critical one; null unless 'found'. */
+  bracket: { failing: number; passing: number } | null;
+  /** The half of the search range that was searched. */
+  range: [number, number];
+  tolerance: number;
+  monotone: boolean;
+  /** Probes made (= samples.length). */
+  runs: number;
+  bisectionRuns: number;
+  /** Every probe, sorted by scale. */
+  samples: SearchSample<D>[];
+}
 
 /** One probe of a margin search, with the metrics that explain its outcome. */
 export interface MarginSample {

@@ -1,12 +1,9 @@
-// `footing merge DIR... --out DIR`: shard outputs combined into one results set. Refuses mixed
-// tool versions, and one scenario id that carries different content hashes in different shards.
+// Result sets combined into one (shards by `footing merge`, several sets by `footing report`).
+// Refuses mixed tool versions, and one scenario id that carries different content hashes in
+// different sets.
 
-import path from 'node:path';
-import { readResultsFile, ResultsReadError } from './read.js';
 import { createResultsFile } from './runResult.js';
 import type { BuildManifest, ResultsFile, RunResult } from './types.js';
-import { writeOutputs } from '../commands/outputs.js';
-import { EXIT, type ExitCode } from '../run/suite.js';
 
 export function mergeResultSets(sets: { file: string; results: ResultsFile }[]): ResultsFile {
   if (sets.length === 0) throw new MergeError('nothing to merge: name at least one results folder');
@@ -40,19 +37,6 @@ export function mergeResultSets(sets: { file: string; results: ResultsFile }[]):
 }
 
 export class MergeError extends Error {}
-
-export function mergeResults(dirs: string[], outDir: string): { exitCode: ExitCode; lines: string[] } {
-  try {
-    const sets = dirs.map((dir) => readResultsFile(dir));
-    const merged = mergeResultSets(sets);
-    writeOutputs(path.resolve(outDir), merged, { sourceDirs: dirs.map((dir) => path.resolve(dir)) });
-    const failed = merged.runs.some((r) => r.status !== 'pass');
-    return { exitCode: failed ? EXIT.fail : EXIT.pass, lines: [`merged ${dirs.length} result sets, ${merged.runs.length} runs → ${outDir}`] };
-  } catch (error) {
-    if (error instanceof MergeError || error instanceof ResultsReadError) return { exitCode: EXIT.badInput, lines: [error.message] };
-    throw error;
-  }
-}
 
 function compare(a: string, b: string): number {
   return a < b ? -1 : a > b ? 1 : 0;

@@ -4,14 +4,14 @@
 
 import { readFile as fsReadFile, realpath } from 'node:fs/promises';
 import path from 'node:path';
-import { closest } from 'fastest-levenshtein';
 import type { RobotParams } from '../plant/types.js';
 import { scenarioHash } from './canonical.js';
 import { checkScenario } from './checks.js';
 import { fillScenarioDefaults, resolveRobot, type InlinedReferences } from './defaults.js';
 import { ROBOT_FORMAT, SCENARIO_FORMAT, type RobotFile, type ScenarioFile } from './format.js';
 import { list, num, rec } from './guards.js';
-import { formatIssue, kindOf, showValue, type Finding, type LoadResult, type ScenarioIssue } from '../files/issue.js';
+import { formatIssue, kindOf, showValue, type Finding, type ScenarioIssue } from '../files/issue.js';
+import { hintFor } from '../files/suggest.js';
 import { expandFamily, type FamilyFile } from './family.js';
 import { expandMatrix } from './matrix.js';
 import { CURRENT_ROBOT_VERSION, CURRENT_SCENARIO_VERSION, migrateScenario, type PathMap } from './migrate.js';
@@ -21,6 +21,11 @@ import { validateAgainst } from './schema.js';
 import { parseRasterCsv, parseSeriesCsv } from './series.js';
 import { isRecord, parseSource, scanData, type ParsedSource } from '../files/source.js';
 import type { ResolvedScenario } from './types.js';
+
+export type LoadResult =
+  | { ok: true; scenarios: ResolvedScenario[]; warnings: ScenarioIssue[] }
+  | { ok: false; errors: ScenarioIssue[] };
+
 
 export interface LoadOptions {
   /**
@@ -135,7 +140,7 @@ function checkHeader(data: unknown, expected: string, currentVersion: number, is
         : `this is a scenario (format: ${SCENARIO_FORMAT}), not a robot description`,
     });
   } else if (data.format !== expected) {
-    const hint = typeof data.format === 'string' ? `did you mean "${closest(data.format, [expected, other])}"?` : undefined;
+    const hint = typeof data.format === 'string' ? hintFor(data.format, [expected, other]) : undefined;
     errors.push({ path: '/format', message: `${showValue(data.format)} is not a Footing file format (expected format: ${expected})`, hint });
   }
   if (!('formatVersion' in data)) {

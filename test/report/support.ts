@@ -4,7 +4,7 @@
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { runSuite } from '../../harness/run/suite.js';
+import { runSuite } from '../../harness/commands/run.js';
 import type { ResultsFile } from '../../harness/results/types.js';
 
 export const FIXTURES = 'test/report/fixtures';
