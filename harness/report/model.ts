@@ -28,7 +28,7 @@ import {
   slipAxis,
   slipDistancePlot,
   slipDots,
-} from './plot/charts.js';
+} from './plot/timeSeries.js';
 import { buildStyle, type BuildStyle } from './plot/palette.js';
 import { niceCeil } from './plot/scale.js';
 import { asSvg, label, type SvgMarkup } from './plot/svg.js';
