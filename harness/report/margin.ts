@@ -4,7 +4,7 @@
 
 import type { FamilySummary, FrictionMarginRecord, MarginSearchRecord, PushMarginRecord } from '../results/margin.js';
 import type { ResultsFile, RunResult } from '../results/types.js';
-import { buildSwatch } from './plot/timeSeries.js';
+import { buildSwatch } from './plot/overview.js';
 import { boundaryStrip, intervalBar, probeLegend, stripAxisMax } from './plot/margin.js';
 import { buildStyle } from './plot/palette.js';
 import { label, type SvgMarkup } from './plot/svg.js';

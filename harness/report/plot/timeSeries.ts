@@ -1,6 +1,8 @@
-// The report's plots, each a function from plot data to an SVG string built from numbers only
-// (no scenario or build text ever enters these strings; labels are ours). Long series are merged
-// down to about the plot's pixel width with the min/max rule of series/buckets.ts, so peaks stay.
+// The report's time-series plots (friction use, normal force, slip distance, governor, loop time),
+// each a function from plot data to an SVG string built from numbers only (no scenario or build
+// text ever enters these strings; labels are ours). Long series are merged down to about the
+// plot's pixel width with the min/max rule of score/series/buckets.ts, so peaks stay. The floor
+// map is floor.ts, the suite overview's dot rows overview.ts.
 
 import { groupRanges } from '../../score/series/buckets.js';
 import type { FrictionMap } from '../../plant/types.js';
@@ -13,8 +15,6 @@ import { asSvg, label, num, type SvgMarkup } from './svg.js';
 export const PLOT_WIDTH = 320;
 /** Buckets drawn per time plot: about one per 1.5 px of the plot's data area. */
 export const PLOT_BUCKETS = 160;
-/** Slip segments drawn per floor panel (the longest ones; the rest are counted in the caption). */
-export const MAX_DRAWN_SLIPS = 60;
 const LEFT = 54;
 const RIGHT = 8;
 
@@ -174,7 +174,8 @@ export function slipDistancePlot(runs: { series: RunSeries; style: BuildStyle }[
   return asSvg(out);
 }
 
-function evenSample(n: number, target: number): number[] {
+/** About `target` indices spread evenly over 0 … n − 1, both ends included. */
+export function evenSample(n: number, target: number): number[] {
   const step = Math.max(1, Math.ceil(n / target));
   const out: number[] = [];
   for (let k = 0; k < n; k += step) out.push(k);
@@ -267,242 +268,4 @@ export function loopTimePlot(series: RunSeries): SvgMarkup {
     out += `<path d="M${num(x(p))} ${bottom}v3" stroke="${INK}"/><text x="${num(x(p))}" y="${bottom + 12}" text-anchor="${anchor}">${text}</text>`;
   }
   return asSvg(out + '</svg>');
-}
-
-// ---- Top view of the floor ----------------------------------------------------------------
-
-export interface FloorExtent {
-  x0: number;
-  x1: number;
-  y0: number;
-  y1: number;
-}
-
-/** The smallest floor rectangle holding every build's trunk path and footholds, padded 0.4 m. */
-export function floorExtent(all: RunSeries[]): FloorExtent {
-  let x0 = Infinity;
-  let x1 = -Infinity;
-  let y0 = Infinity;
-  let y1 = -Infinity;
-  const take = (x: number, y: number) => {
-    if (!Number.isFinite(x) || !Number.isFinite(y)) return;
-    x0 = Math.min(x0, x);
-    x1 = Math.max(x1, x);
-    y0 = Math.min(y0, y);
-    y1 = Math.max(y1, y);
-  };
-  for (const s of all) {
-    s.trunk.x_m.forEach((x, k) => take(x, s.trunk.y_m[k]));
-    for (const f of s.footholds) take(f.x_m, f.y_m);
-  }
-  if (!Number.isFinite(x0)) return { x0: -1, x1: 1, y0: -1, y1: 1 };
-  const pad = 0.4;
-  return { x0: x0 - pad, x1: x1 + pad, y0: y0 - pad, y1: y1 + pad };
-}
-
-interface FloorFrame {
-  s: number;
-  px: (x: number) => number;
-  py: (y: number) => number;
-  width: number;
-  height: number;
-  tx: number;
-  ty: number;
-}
-
-const FLOOR_PAD = 6;
-
-function floorFrame(extent: FloorExtent): FloorFrame {
-  const inner = PLOT_WIDTH - 2 * FLOOR_PAD;
-  const spanX = extent.x1 - extent.x0;
-  const spanY = extent.y1 - extent.y0;
-  // Equal scale on both axes (a map); tall floors are limited to a square panel.
-  const s = Math.min(inner / spanX, inner / spanY);
-  const height = spanY * s + 2 * FLOOR_PAD + 14;
-  const tx = FLOOR_PAD - s * extent.x0;
-  const ty = FLOOR_PAD + s * extent.y1;
-  return { s, px: (x) => tx + s * x, py: (y) => ty - s * y, width: PLOT_WIDTH, height, tx, ty };
-}
-
-/** The friction map in world metres, drawn once per scenario and placed by each floor panel. */
-export function floorDefinition(map: FrictionMap, id: string): SvgMarkup {
-  let out = `<g id="${id}" shape-rendering="crispEdges">`;
-  const raster = map.raster;
-  if (raster) {
-    const nx = raster.staticFriction.length;
-    for (let i = 0; i < nx; i++) {
-      const column = raster.staticFriction[i];
-      let j = 0;
-      while (j < column.length) {
-        let k = j;
-        while (k + 1 < column.length && column[k + 1] === column[j]) k++;
-        const x = raster.origin_m[0] + i * raster.cell_m;
-        const y = raster.origin_m[1] + j * raster.cell_m;
-        out += `<rect x="${coord(x)}" y="${coord(y)}" width="${coord(raster.cell_m)}" height="${coord((k - j + 1) * raster.cell_m)}" fill="${muColour(column[j])}"/>`;
-        j = k + 1;
-      }
-    }
-  }
-  for (const patch of map.patches) {
-    const fill = muColour(patch.material.staticFriction);
-    const edge = ` fill="${fill}" stroke="${INK}" stroke-opacity="0.35" stroke-width="1" vector-effect="non-scaling-stroke"`;
-    const shape = patch.shape;
-    if (shape.kind === 'rect') {
-      const xa = Math.min(shape.min_m[0], shape.max_m[0]);
-      const ya = Math.min(shape.min_m[1], shape.max_m[1]);
-      out += `<rect x="${coord(xa)}" y="${coord(ya)}" width="${coord(Math.abs(shape.max_m[0] - shape.min_m[0]))}" height="${coord(Math.abs(shape.max_m[1] - shape.min_m[1]))}"${edge}/>`;
-    } else if (shape.kind === 'circle') {
-      out += `<circle cx="${coord(shape.center_m[0])}" cy="${coord(shape.center_m[1])}" r="${coord(shape.radius_m)}"${edge}/>`;
-    } else {
-      out += `<path d="M${shape.vertices_m.map(([x, y]) => `${coord(x)} ${coord(y)}`).join('L')}Z"${edge}/>`;
-    }
-  }
-  return asSvg(out + '</g>');
-}
-
-/** World coordinates in metres keep 4 decimals (0.1 mm) so small patches stay exact. */
-function coord(value: number): string {
-  if (!Number.isFinite(value)) return '0';
-  const r = Math.round(value * 1e4) / 1e4;
-  return r === 0 ? '0' : String(r);
-}
-
-/** One build's top view: friction map, commanded path, trunk path, footholds, slip segments. */
-export function floorPlot(series: RunSeries, extent: FloorExtent, definitionId: string, clipId: string, fell: boolean): { svg: SvgMarkup; slipsDrawn: number; slipsTotal: number; longest: SlipSegment | null } {
-  const f = floorFrame(extent);
-  const mapBottom = f.height - 14;
-  let out = `<svg class="plot floor" viewBox="0 0 ${f.width} ${num(f.height)}" width="${f.width}" height="${num(f.height)}" role="img">`;
-  out += `<defs><clipPath id="${clipId}"><rect x="${FLOOR_PAD}" y="${FLOOR_PAD}" width="${num(f.width - 2 * FLOOR_PAD)}" height="${num(mapBottom - FLOOR_PAD)}"/></clipPath></defs>`;
-  out += `<g clip-path="url(#${clipId})">`;
-  out += `<rect x="0" y="0" width="${f.width}" height="${num(f.height)}" fill="${muColour(series.friction.default.staticFriction)}"/>`;
-  out += `<use href="#${definitionId}" transform="matrix(${num4(f.s)} 0 0 ${num4(-f.s)} ${num(f.tx)} ${num(f.ty)})"/>`;
-  const indices = evenSample(series.trunk.x_m.length, 220);
-  const ref = linePath(indices.map((k) => f.px(series.trunk.referenceX_m[k])), indices.map((k) => f.py(series.trunk.referenceY_m[k])));
-  const path = linePath(indices.map((k) => f.px(series.trunk.x_m[k])), indices.map((k) => f.py(series.trunk.y_m[k])));
-  out += `<path class="reference" d="${ref}" fill="none" stroke="#fff" stroke-width="1.2" stroke-dasharray="3 3" opacity="0.9"/>`;
-  out += `<path d="${path}" fill="none" stroke="#fff" stroke-width="3.4" stroke-linejoin="round" opacity="0.85"/>`;
-  out += `<path class="series trunk" d="${path}" fill="none" stroke="${INK}" stroke-width="1.5" stroke-linejoin="round"/>`;
-  // Footholds as rings: zero-length round-capped strokes, ink then white (2 short paths for all).
-  let holds = '';
-  for (const h of series.footholds) holds += `M${num(f.px(h.x_m))} ${num(f.py(h.y_m))}h0`;
-  if (holds) out += `<path class="footholds" d="${holds}" stroke="${INK}" stroke-width="4.2" stroke-linecap="round"/><path d="${holds}" stroke="#fff" stroke-width="2.4" stroke-linecap="round"/>`;
-  const slips = [...series.slips].sort((a, b) => b.distance_m - a.distance_m).slice(0, MAX_DRAWN_SLIPS);
-  let slipD = '';
-  for (const s of slips) slipD += `M${num(f.px(s.from_m[0]))} ${num(f.py(s.from_m[1]))}L${num(f.px(s.to_m[0]))} ${num(f.py(s.to_m[1]))}`;
-  if (slipD) out += `<path d="${slipD}" stroke="#fff" stroke-width="5.5" stroke-linecap="round"/><path class="slips" d="${slipD}" stroke="${SLIP_COLOUR}" stroke-width="3.2" stroke-linecap="round"/>`;
-  const longest = slips[0];
-  if (longest) {
-    const lx = f.px(longest.to_m[0]);
-    const ly = f.py(longest.to_m[1]);
-    out += `<g class="slip-mark"><title>longest slip: foot ${longest.foot}, ${label(longest.distance_m * 1000, 1)} mm, ${label(longest.start_s, 2)}–${label(longest.end_s, 2)} s</title><circle cx="${num(lx)}" cy="${num(ly)}" r="6" fill="none" stroke="${SLIP_COLOUR}" stroke-width="1.4"/></g>`;
-  }
-  const n = series.trunk.x_m.length;
-  if (n > 0) {
-    out += `<path d="${markerPath('square', f.px(series.trunk.x_m[0]), f.py(series.trunk.y_m[0]), 3)}" fill="#fff" stroke="${INK}"><title>start</title></path>`;
-    const ex = f.px(series.trunk.x_m[n - 1]);
-    const ey = f.py(series.trunk.y_m[n - 1]);
-    out += fell
-      ? `<path d="${markerPath('cross', ex, ey, 6)}" fill="${SLIP_COLOUR}" stroke="#fff" stroke-width="0.8" transform="rotate(45 ${num(ex)} ${num(ey)})"><title>fell here</title></path>`
-      : `<path d="${markerPath('triangle', ex, ey, 3.6)}" fill="${INK}" stroke="#fff" stroke-width="0.7"><title>end</title></path>`;
-  }
-  out += '</g>';
-  // Scale bar: the largest of 2, 1, 0.5, 0.2, 0.1 m that fits in a third of the panel.
-  const bar_m = [2, 1, 0.5, 0.2, 0.1].find((m) => m * f.s <= f.width / 3) ?? 0.1;
-  const y = f.height - 6;
-  out += `<path d="M${FLOOR_PAD} ${num(y)}h${num(bar_m * f.s)}" stroke="${INK}" stroke-width="2"/><text x="${num(FLOOR_PAD + bar_m * f.s + 4)}" y="${num(y + 3)}">${label(bar_m, 1)} m</text>`;
-  out += `<text x="${f.width - FLOOR_PAD}" y="${num(y + 3)}" text-anchor="end" class="unit">x →, y ↑</text>`;
-  return { svg: asSvg(out + '</svg>'), slipsDrawn: slips.length, slipsTotal: series.slips.length + series.dropped.slips, longest: longest ?? null };
-}
-
-function num4(value: number): string {
-  return String(Math.round(value * 1e4) / 1e4);
-}
-
-/** The μs legend: the ramp in steps from 0 to 1.2, with the floor's materials marked. */
-export function muLegend(present: number[]): SvgMarkup {
-  const width = 260;
-  const height = 34;
-  const x = linearScale(0, 1.2, 10, width - 10);
-  let out = `<svg class="legend mu" viewBox="0 0 ${width} ${height}" width="${width}" height="${height}" role="img">`;
-  for (let k = 0; k < 24; k++) {
-    const mu = (k + 0.5) * 0.05;
-    out += `<rect x="${num(x(k * 0.05))}" y="6" width="${num(x(0.05) - x(0) + 0.3)}" height="10" fill="${muColour(mu)}"/>`;
-  }
-  out += `<rect x="${num(x(0))}" y="6" width="${num(x(1.2) - x(0))}" height="10" fill="none" stroke="${INK}" stroke-width="0.5"/>`;
-  for (const t of [0, 0.2, 0.4, 0.6, 0.8, 1.0, 1.2]) out += `<text x="${num(x(t))}" y="28" text-anchor="middle">${label(t, 1)}</text>`;
-  for (const mu of present) out += `<path d="M${num(x(Math.min(1.2, mu)))} 16l-3.5 -5h7z" fill="${INK}"><title>μs ${label(mu, 3)}</title></path>`;
-  return asSvg(out + '</svg>');
-}
-
-// ---- Suite overview: one row per scenario, one marker per build -------------------------------
-
-export interface DotValue {
-  value: number | null;
-  style: BuildStyle;
-}
-
-export const OVERVIEW_WIDTH = 220;
-
-/**
- * Friction margin min of every build on one line from MARGIN_AXIS[0] to [1], the cone (0) marked
- * and the far side shaded. The axis is cut where the interesting values are (a walking robot's
- * worst margin sits in −0.25 … 0.5); values beyond are drawn hollow at the edge.
- */
-export const MARGIN_AXIS: [number, number] = [-0.25, 0.5];
-export function marginDots(values: DotValue[]): SvgMarkup {
-  const x = linearScale(MARGIN_AXIS[0], MARGIN_AXIS[1], 8, OVERVIEW_WIDTH - 8);
-  let out = `<svg class="dots margin" viewBox="0 0 ${OVERVIEW_WIDTH} 22" width="${OVERVIEW_WIDTH}" height="22" role="img">`;
-  const [lo, hi] = MARGIN_AXIS;
-  out += `<rect x="${num(x(lo))}" y="3" width="${num(x(0) - x(lo))}" height="16" fill="#f6dccb"/>`;
-  out += `<path d="M${num(x(lo))} 11H${num(x(hi))}" stroke="${GRID}"/><path d="M${num(x(0))} 2V20" stroke="${CONE_COLOUR}" stroke-dasharray="2 1.5"/>`;
-  for (const t of [-0.2, -0.1, 0.1, 0.2, 0.3, 0.4, 0.5]) out += `<path d="M${num(x(t))} 8V14" stroke="${GRID}"/>`;
-  for (const v of values) {
-    if (v.value === null) continue;
-    const inside = v.value >= lo && v.value <= hi;
-    const at = x(Math.max(lo, Math.min(hi, v.value)));
-    out += inside
-      ? `<path class="dot" d="${markerPath(v.style.shape, at, 11, 4.2)}" fill="${v.style.colour}" fill-opacity="0.9" stroke="#fff" stroke-width="0.8"/>`
-      : `<path class="dot" d="${markerPath(v.style.shape, at, 11, 4.2)}" fill="#fff" stroke="${v.style.colour}" stroke-width="1.6"/>`;
-  }
-  return asSvg(out + '</svg>');
-}
-
-/** Slip distance of every build on a log axis from 1 mm to 1 m (beyond: at the edges). */
-export function slipDots(values: DotValue[]): SvgMarkup {
-  const x = linearScale(-3, 0, 8, OVERVIEW_WIDTH - 8);
-  const at = (m: number) => x(Math.max(-3, Math.min(0, Math.log10(Math.max(m, 1e-3)))));
-  let out = `<svg class="dots slip" viewBox="0 0 ${OVERVIEW_WIDTH} 22" width="${OVERVIEW_WIDTH}" height="22" role="img">`;
-  out += `<path d="M${num(x(-3))} 11H${num(x(0))}" stroke="${GRID}"/>`;
-  for (const t of [-3, -2, -1, 0]) out += `<path d="M${num(x(t))} 7V15" stroke="${GRID}"/>`;
-  for (const v of values) {
-    if (v.value === null) continue;
-    out += `<path class="dot" d="${markerPath(v.style.shape, at(v.value), 11, 4.2)}" fill="${v.style.colour}" fill-opacity="0.9" stroke="#fff" stroke-width="0.8"/>`;
-  }
-  return asSvg(out + '</svg>');
-}
-
-/** Axis captions for the overview columns (numbers only). */
-export function marginAxis(): SvgMarkup {
-  const x = linearScale(MARGIN_AXIS[0], MARGIN_AXIS[1], 8, OVERVIEW_WIDTH - 8);
-  let out = `<svg class="dots-axis" viewBox="0 0 ${OVERVIEW_WIDTH} 14" width="${OVERVIEW_WIDTH}" height="14" aria-hidden="true">`;
-  for (const t of [-0.2, 0, 0.2, 0.4]) out += `<text x="${num(x(t))}" y="11" text-anchor="middle">${label(t, 1)}</text>`;
-  return asSvg(out + '</svg>');
-}
-
-export function slipAxis(): SvgMarkup {
-  const x = linearScale(-3, 0, 8, OVERVIEW_WIDTH - 8);
-  let out = `<svg class="dots-axis" viewBox="0 0 ${OVERVIEW_WIDTH} 14" width="${OVERVIEW_WIDTH}" height="14" aria-hidden="true">`;
-  const names = ['1 mm', '1 cm', '10 cm', '1 m'];
-  const anchors = ['start', 'middle', 'middle', 'end'];
-  [-3, -2, -1, 0].forEach((t, k) => (out += `<text x="${num(x(t))}" y="11" text-anchor="${anchors[k]}">${names[k]}</text>`));
-  return asSvg(out + '</svg>');
-}
-
-/** A legend swatch for a build: its marker and dash, no text (the name is HTML beside it). */
-export function buildSwatch(style: BuildStyle): SvgMarkup {
-  return asSvg(
-    `<svg class="swatch" viewBox="0 0 34 14" width="34" height="14" aria-hidden="true">` +
-      `<path d="M1 7H33" stroke="${style.colour}" stroke-width="2"${style.dash ? ` stroke-dasharray="${style.dash}"` : ''}/>` +
-      `<path d="${markerPath(style.shape, 17, 7, 4.2)}" fill="${style.colour}" stroke="#fff" stroke-width="0.8"/></svg>`,
-  );
 }
