@@ -1,7 +1,7 @@
 // Finding, parsing and validating footing.config.yaml. Errors name the file, line, column and
 // dotted path, the value and what is expected, with a did-you-mean for misspelt keys and names —
 // the same form as the gate policy's (harness/gate/policy.ts) and located with the same helper
-// (harness/gate/yamlLocation.ts).
+// (positionOf, harness/files/source.ts).
 
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -10,17 +10,18 @@ import { LineCounter, parseDocument, stringify, type Document } from 'yaml';
 import { BuildSpecError, parseBuildSpec } from '../builds/spec.js';
 import type { GatePolicy } from '../gate/defaults.js';
 import { formatPolicyIssue, parsePolicy, POLICY_SCHEMA_URL } from '../gate/policy.js';
-import { locate } from '../gate/yamlLocation.js';
 import { displayPath } from '../scenario/paths.js';
 import { kindOf, showValue } from '../files/issue.js';
 import { schemaValidator } from '../files/schema.js';
+import { positionOf } from '../files/source.js';
 import { didYouMean } from '../files/suggest.js';
-import { CONFIG_FILE_NAMES, type ConfigData, type ConfigIssue, type GitBuildData } from './types.js';
+import type { FileIssue } from '../files/issue.js';
+import { CONFIG_FILE_NAMES, type ConfigData, type GitBuildData } from './types.js';
 
 export const CONFIG_SCHEMA_URL = new URL('./config.schema.json', import.meta.url);
 
 export class ConfigError extends Error {
-  constructor(readonly issues: ConfigIssue[]) {
+  constructor(readonly issues: FileIssue[]) {
     super(issues.map(formatPolicyIssue).join('\n'));
     this.name = 'ConfigError';
   }
@@ -72,13 +73,13 @@ export function parseConfig(text: string, file: string, cwd = process.cwd()): Lo
     throw new ConfigError(
       doc.errors.map((e) => {
         const pos = e.linePos?.[0];
-        return { file: display, line: pos?.line, col: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
+        return { file: display, line: pos?.line, column: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
       }),
     );
   }
   const value: unknown = doc.toJS() ?? {};
   const where = (segments: readonly (string | number)[], options: { key?: boolean } = {}) => {
-    const pos = locate(doc, lineCounter, segments.map(String), options);
+    const pos = positionOf(doc, lineCounter, segments.map(String), options.key ? 'key' : 'value');
     return { line: pos?.line, col: pos?.col, label: pos ? `${display}:${pos.line}:${pos.col}` : display };
   };
   const validate = validator();
@@ -95,12 +96,12 @@ export function parseConfig(text: string, file: string, cwd = process.cwd()): Lo
 }
 
 /** Names used across sections must exist: suite builds, baselines, and what git:REF builds need. */
-function checkReferences(config: LoadedConfig): ConfigIssue[] {
+function checkReferences(config: LoadedConfig): FileIssue[] {
   const { data, display } = config;
-  const issues: ConfigIssue[] = [];
+  const issues: FileIssue[] = [];
   const issue = (segments: (string | number)[], message: string, key = false) => {
     const pos = config.where(segments, { key });
-    issues.push({ file: display, line: pos.line, col: pos.col, path: segments.join('.'), message });
+    issues.push({ file: display, line: pos.line, column: pos.col, path: segments.join('.'), message });
   };
   const buildNames = Object.keys(data.builds ?? {});
   const known = (name: string) => buildNames.includes(name);
@@ -184,12 +185,12 @@ function knownKeys(schema: unknown): string[] {
   return properties ? Object.keys(properties) : [];
 }
 
-function translate(errors: ErrorObject[], value: unknown, doc: Document, lineCounter: LineCounter, file: string): ConfigIssue[] {
-  const issues: ConfigIssue[] = [];
+function translate(errors: ErrorObject[], value: unknown, doc: Document, lineCounter: LineCounter, file: string): FileIssue[] {
+  const issues: FileIssue[] = [];
   const seen = new Set<string>();
   const push = (segments: string[], message: string, key = false) => {
-    const pos = locate(doc, lineCounter, segments, { key });
-    const issue = { file, line: pos?.line, col: pos?.col, path: segments.join('.'), message };
+    const pos = positionOf(doc, lineCounter, segments, key ? 'key' : 'value');
+    const issue = { file, line: pos?.line, column: pos?.col, path: segments.join('.'), message };
     const text = formatPolicyIssue(issue);
     if (!seen.has(text)) {
       seen.add(text);
@@ -253,6 +254,6 @@ function translate(errors: ErrorObject[], value: unknown, doc: Document, lineCou
   return issues;
 }
 
-function sortIssues(issues: ConfigIssue[]): ConfigIssue[] {
-  return [...issues].sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.col ?? 0) - (b.col ?? 0));
+function sortIssues(issues: FileIssue[]): FileIssue[] {
+  return [...issues].sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.column ?? 0) - (b.column ?? 0));
 }

@@ -1,8 +1,9 @@
-// Problems found in a scenario or robot file, and how they are printed. A Finding is what a check
-// produces (a JSON pointer and a message); the loader turns it into a ScenarioIssue by adding the
-// file name and the line/column of the node the pointer names.
+// Problems found in a file footing reads (scenario, robot, CSV series, gate policy, config,
+// results), and how they are printed. A Finding is what a check produces (a JSON pointer and a
+// message); a loader turns it into a FileIssue, the one issue type, by adding the file name and
+// the line/column of the node the pointer names.
 
-export interface ScenarioIssue {
+export interface FileIssue {
   /** File the problem is in, relative to the working directory when inside it. */
   file: string;
   /** 1-based line and column of the offending node (absent when no position is known). */
@@ -29,7 +30,7 @@ export interface Finding {
 }
 
 /** `file:line:column /path: message (hint)`, the one line shown to people. */
-export function formatIssue(issue: ScenarioIssue): string {
+export function formatIssue(issue: FileIssue): string {
   const where =
     issue.line !== undefined ? `${issue.file}:${issue.line}:${issue.column ?? 1}` : issue.file;
   const hint = issue.hint ? ` (${issue.hint})` : '';

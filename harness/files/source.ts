@@ -62,46 +62,61 @@ export function parseSource(text: string): ParsedSource {
     }
   }
 
-  const locateNode = (pointer: string, at: 'key' | 'value') => {
-    let node: unknown = doc.contents;
-    let keyNode: unknown = null;
-    let last: unknown = node;
-    for (const segment of pointerSegments(pointer)) {
-      if (isAlias(node)) node = node.resolve(doc as Document);
-      if (isMap(node)) {
-        const pair = node.items.find((p) => keyText(p.key) === segment);
-        if (!pair) return { node: last, complete: false };
-        keyNode = pair.key;
-        node = pair.value;
-        last = node ?? keyNode;
-      } else if (isSeq(node)) {
-        const index = Number(segment);
-        const item = Number.isInteger(index) ? node.items[index] : undefined;
-        if (item === undefined) return { node: last, complete: false };
-        keyNode = null;
-        node = item;
-        last = item;
-      } else {
-        return { node: last, complete: false };
-      }
-    }
-    return { node: at === 'key' && keyNode ? keyNode : last, complete: true };
-  };
-
   return {
     value,
     errors,
     warnings,
     locate(pointer, at = 'value') {
-      const { node } = locateNode(pointer, at);
-      const range = (node as { range?: [number, number, number] } | null)?.range;
-      return range ? position(range[0]) : undefined;
+      const found = positionOf(doc, lineCounter, pointerSegments(pointer), at);
+      return found && { line: found.line, column: found.col };
     },
     sourceText(pointer) {
-      const { node, complete } = locateNode(pointer, 'value');
+      const { node, complete } = findNode(doc, pointerSegments(pointer), 'value');
       return complete && isScalar(node) ? (node as { source?: string }).source : undefined;
     },
   };
+}
+
+/**
+ * The node a path of keys names (aliases followed), or its deepest existing ancestor when the
+ * path goes further than the document (`complete` false). `at: 'key'` gives the key of the last
+ * segment instead of its value (for unknown fields).
+ */
+function findNode(doc: Document, segments: readonly string[], at: 'key' | 'value'): { node: unknown; complete: boolean } {
+  let node: unknown = doc.contents;
+  let keyNode: unknown = null;
+  let last: unknown = node;
+  for (const segment of segments) {
+    if (isAlias(node)) node = node.resolve(doc);
+    if (isMap(node)) {
+      const pair = node.items.find((p) => keyText(p.key) === segment);
+      if (!pair) return { node: last, complete: false };
+      keyNode = pair.key;
+      node = pair.value;
+      last = node ?? keyNode;
+    } else if (isSeq(node)) {
+      const index = Number(segment);
+      const item = Number.isInteger(index) ? node.items[index] : undefined;
+      if (item === undefined) return { node: last, complete: false };
+      keyNode = null;
+      node = item;
+      last = item;
+    } else {
+      return { node: last, complete: false };
+    }
+  }
+  return { node: at === 'key' && keyNode ? keyNode : last, complete: true };
+}
+
+/**
+ * Line and column (1-based) of the node a path of keys names in a parsed YAML/JSON document, for
+ * messages of the form `file:line:column: path: problem`; the one locator of every file footing
+ * reads (scenarios through parseSource, gate policies and configs directly).
+ */
+export function positionOf(doc: Document, lineCounter: LineCounter, segments: readonly string[], at: 'key' | 'value' = 'value'): { line: number; col: number } | undefined {
+  const { node } = findNode(doc, segments, at);
+  const range = (node as { range?: [number, number, number] } | null)?.range;
+  return range ? lineCounter.linePos(range[0]) : undefined;
 }
 
 function keyText(key: unknown): string {

@@ -4,32 +4,25 @@
 
 import { readFileSync } from 'node:fs';
 import type { ErrorObject } from 'ajv/dist/2020.js';
+import type { FileIssue } from '../files/issue.js';
 import { schemaValidator } from '../files/schema.js';
+import { positionOf } from '../files/source.js';
 import { suggestName } from '../files/suggest.js';
 import { LineCounter, parseDocument } from 'yaml';
 import { DEFAULT_GATE_RULES, GATE_RULE_NAMES, type GatePolicy, type GateRules } from './defaults.js';
-import { locate } from './yamlLocation.js';
 
 export const POLICY_SCHEMA_URL = new URL('./policy.schema.json', import.meta.url);
 
-export interface PolicyIssue {
-  file: string;
-  line?: number;
-  col?: number;
-  /** Dotted path, e.g. overrides.ice-walk.frictionMarginMinLoss. */
-  path: string;
-  message: string;
-}
-
 export class PolicyError extends Error {
-  constructor(readonly issues: PolicyIssue[]) {
+  constructor(readonly issues: FileIssue[]) {
     super(issues.map(formatPolicyIssue).join('\n'));
     this.name = 'PolicyError';
   }
 }
 
-export function formatPolicyIssue(issue: PolicyIssue): string {
-  const where = issue.line === undefined ? issue.file : `${issue.file}:${issue.line}:${issue.col}`;
+/** `file:line:column: dotted.path: message`, the form of policy and config issues (paths as keys). */
+export function formatPolicyIssue(issue: FileIssue): string {
+  const where = issue.line === undefined ? issue.file : `${issue.file}:${issue.line}:${issue.column}`;
   return `${where}: ${issue.path === '' ? '(top level)' : issue.path}: ${issue.message}`;
 }
 
@@ -74,7 +67,7 @@ function decodePointer(pointer: string): string[] {
   return pointer === '' ? [] : pointer.slice(1).split('/').map((s) => s.replace(/~1/g, '/').replace(/~0/g, '~'));
 }
 
-function dedupeAndSort(issues: PolicyIssue[]): PolicyIssue[] {
+function dedupeAndSort(issues: FileIssue[]): FileIssue[] {
   const seen = new Set<string>();
   const unique = issues.filter((issue) => {
     const text = formatPolicyIssue(issue);
@@ -82,7 +75,7 @@ function dedupeAndSort(issues: PolicyIssue[]): PolicyIssue[] {
     seen.add(text);
     return true;
   });
-  return unique.sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.col ?? 0) - (b.col ?? 0));
+  return unique.sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.column ?? 0) - (b.column ?? 0));
 }
 
 /** Parses policy YAML text; `file` is used in messages. An empty document is the default policy. */
@@ -93,27 +86,27 @@ export function parsePolicy(text: string, file: string): GatePolicy {
     throw new PolicyError(
       doc.errors.map((e) => {
         const pos = e.linePos?.[0];
-        return { file, line: pos?.line, col: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
+        return { file, line: pos?.line, column: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
       }),
     );
   }
   const value: unknown = doc.toJS() ?? {};
   const validate = validator();
   if (!validate(value)) {
-    const issues: PolicyIssue[] = [];
+    const issues: FileIssue[] = [];
     for (const error of validate.errors ?? []) {
       const segments = decodePointer(error.instancePath);
       if (error.keyword === 'unevaluatedProperties' || error.keyword === 'additionalProperties') {
         const key = String((error.params as Record<string, unknown>).unevaluatedProperty ?? (error.params as Record<string, unknown>).additionalProperty);
         const allowed = segments.length === 0 ? TOP_LEVEL_KEYS : GATE_RULE_NAMES;
-        const pos = locate(doc, lineCounter, [...segments, key], { key: true });
-        issues.push({ file, line: pos?.line, col: pos?.col, path: [...segments, key].join('.'), message: `unknown key${didYouMean(key, allowed)}` });
+        const pos = positionOf(doc, lineCounter, [...segments, key], 'key');
+        issues.push({ file, line: pos?.line, column: pos?.col, path: [...segments, key].join('.'), message: `unknown key${didYouMean(key, allowed)}` });
       } else if (error.keyword === '$ref') {
         continue;
       } else {
-        const pos = locate(doc, lineCounter, segments);
+        const pos = positionOf(doc, lineCounter, segments);
         const v = valueAt(value, segments);
-        issues.push({ file, line: pos?.line, col: pos?.col, path: segments.join('.'), message: `${show(v)}: ${expectation(error)}` });
+        issues.push({ file, line: pos?.line, column: pos?.col, path: segments.join('.'), message: `${show(v)}: ${expectation(error)}` });
       }
     }
     throw new PolicyError(dedupeAndSort(issues));

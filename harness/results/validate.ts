@@ -1,6 +1,7 @@
 // Validation of a results.json against results.schema.json (JSON Schema 2020-12, ajv).
 
 import type { ErrorObject } from 'ajv/dist/2020.js';
+import type { Finding } from '../files/issue.js';
 import { schemaValidator } from '../files/schema.js';
 import type { ResultsFile } from './types.js';
 
@@ -9,15 +10,10 @@ export const RESULTS_SCHEMA_URL = new URL('./results.schema.json', import.meta.u
 // `format` keywords are annotations (files/schema.ts); the start date is checked below.
 const validator = () => schemaValidator(RESULTS_SCHEMA_URL);
 
-export interface ResultsIssue {
-  /** JSON pointer of the offending value, e.g. /runs/3/metrics/slipDistance_m. */
-  path: string;
-  message: string;
-}
+export type ResultsValidation = { ok: true; value: ResultsFile } | { ok: false; issues: Finding[] };
 
-export type ResultsValidation = { ok: true; value: ResultsFile } | { ok: false; issues: ResultsIssue[] };
-
-function describe(error: ErrorObject): ResultsIssue {
+/** An ajv error as a finding at the JSON pointer of the offending value (e.g. /runs/3/metrics/slipDistance_m). */
+function describe(error: ErrorObject): Finding {
   const path = error.instancePath === '' ? '/' : error.instancePath;
   switch (error.keyword) {
     case 'additionalProperties':
@@ -48,7 +44,7 @@ export function validateResults(value: unknown): ResultsValidation {
   return { ok: true, value: results };
 }
 
-export function formatResultsIssues(file: string, issues: ResultsIssue[], limit = 10): string {
+export function formatResultsIssues(file: string, issues: Finding[], limit = 10): string {
   const lines = issues.slice(0, limit).map((issue) => `${file}: ${issue.path}: ${issue.message}`);
   if (issues.length > limit) lines.push(`${file}: … and ${issues.length - limit} more`);
   return lines.join('\n');

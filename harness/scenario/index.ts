@@ -1,6 +1,6 @@
 // Public API of the scenario layer: load, validate, migrate, expand and hash scenario files.
 
-export type { ScenarioIssue } from '../files/issue.js';
+export type { FileIssue } from '../files/issue.js';
 export { formatIssue } from '../files/issue.js';
 export type { LoadOptions, LoadCache, LoadResult, RobotLoadResult } from './load.js';
 export { loadScenarioFile, loadScenarioText, loadRobotFile, loadRobotText, createLoadCache, defaultSuiteRoot } from './load.js';

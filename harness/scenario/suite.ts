@@ -4,7 +4,7 @@
 import { readdir, readFile, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { ROBOT_FORMAT, SCENARIO_FORMAT } from './format.js';
-import type { ScenarioIssue } from '../files/issue.js';
+import type { FileIssue } from '../files/issue.js';
 import { createLoadCache, defaultSuiteRoot, loadRobotText, loadScenarioText, peekFormat, type LoadOptions } from './load.js';
 import { displayPath } from './paths.js';
 import { parseSource } from '../files/source.js';
@@ -18,8 +18,8 @@ export interface SuiteFileReport {
   /** As shown in messages (relative to the working directory when inside it). */
   file: string;
   kind: 'scenario' | 'robot' | 'unknown';
-  errors: ScenarioIssue[];
-  warnings: ScenarioIssue[];
+  errors: FileIssue[];
+  warnings: FileIssue[];
   /** Ids of the scenarios the file produced (several for a matrix). */
   scenarioIds: string[];
 }
@@ -28,7 +28,7 @@ export interface SuiteResult {
   scenarios: ResolvedScenario[];
   files: SuiteFileReport[];
   /** Problems not tied to one file's content (a path that does not exist, an empty folder). */
-  errors: ScenarioIssue[];
+  errors: FileIssue[];
   ok: boolean;
 }
 
@@ -39,7 +39,7 @@ interface Entry {
   suiteRoot: string;
 }
 
-async function collect(paths: string[], opts: SuiteOptions, errors: ScenarioIssue[], cwd: string): Promise<Entry[]> {
+async function collect(paths: string[], opts: SuiteOptions, errors: FileIssue[], cwd: string): Promise<Entry[]> {
   const out = new Map<string, Entry>();
   for (const p of paths) {
     const absolute = path.resolve(cwd, p);
@@ -83,7 +83,7 @@ async function walk(folder: string): Promise<string[]> {
  */
 export async function loadSuite(paths: string[], opts: SuiteOptions = {}): Promise<SuiteResult> {
   const cwd = opts.cwd ?? process.cwd();
-  const errors: ScenarioIssue[] = [];
+  const errors: FileIssue[] = [];
   const entries = await collect(paths, opts, errors, cwd);
   const cache = createLoadCache();
   const files: SuiteFileReport[] = [];
