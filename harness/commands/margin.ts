@@ -14,30 +14,23 @@ import { renderMarginMarkdown } from '../margin/render.js';
 import { checkMarginSettings, MARGIN_DEFAULTS, searchMargins, type MarginQuantity, type MarginSettings } from '../margin/runMargins.js';
 import { createResultsFile } from '../results/runResult.js';
 import type { ResultsFile } from '../results/types.js';
-import type { RunTimeout } from '../run/pool.js';
 import { buildManifests } from '../run/prepare.js';
 import { TOOL_VERSION } from '../version.js';
 import { EXIT, exitCodeOfRuns } from './exit.js';
 import { OUTPUT_FILES, writeOutputs } from './outputs.js';
-import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome } from './skeleton.js';
+import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
 
 /** What `footing margin` uses when not told otherwise. */
 export const MARGIN_COMMAND_DEFAULTS = Object.freeze({ out: 'reports/out/margin', tolerance: MARGIN_DEFAULTS.tolerance });
 
-export interface MarginRunOptions {
-  paths?: string[];
+export interface MarginRunOptions extends SuiteCommandOptions {
   builds: string[];
-  outDir: string;
-  jobs?: number;
   tolerance?: number;
   frictionRange?: readonly [number, number];
   pushRange?: readonly [number, number];
   checks?: number;
   /** Which searches to run (default both). */
   quantities?: readonly MarginQuantity[];
-  runTimeout?: RunTimeout;
-  cwd?: string;
-  log?: (line: string) => void;
 }
 
 export interface MarginRunOutcome extends CommandOutcome {

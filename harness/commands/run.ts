@@ -26,23 +26,20 @@ import { TOOL_VERSION } from '../version.js';
 import { resolveForCommand } from './config.js';
 import { EXIT, exitCodeOfRuns, type ExitCode } from './exit.js';
 import { OUTPUT_FILES, writeOutputs } from './outputs.js';
-import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome } from './skeleton.js';
+import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
 
 export type { PreparedBuild } from '../run/prepare.js';
 
 /** Time per bench task with `run --bench`: shorter than `footing bench`, enough for the gate's ±30 %. */
 const SUITE_BENCH_TIME_ms = 400;
 
-export interface SuiteRunOptions {
-  paths?: string[];
+export interface SuiteRunOptions extends SuiteCommandOptions {
   /** Spec texts (`--build`) or builds prepared elsewhere, in the order results list them. */
   builds: (string | PreparedBuild)[];
   /** Replaces every scenario's control.loopBudget_us (a machine's budget, not the scenario's content). */
   loopBudget_us?: number;
-  outDir: string;
   trace?: boolean;
   traceEveryNth?: number;
-  jobs?: number;
   shard?: string;
   baseline?: string;
   policyFile?: string;
@@ -52,9 +49,6 @@ export interface SuiteRunOptions {
   quiet?: boolean;
   /** Measure every build with the bench (governor rate, tick time, real-time factor) and attach it. */
   bench?: boolean;
-  runTimeout?: RunTimeout;
-  cwd?: string;
-  log?: (line: string) => void;
 }
 
 export interface SuiteRunOutcome extends CommandOutcome {

@@ -3,6 +3,7 @@
 // commands (run, margin) prepare their builds and scenarios the same way.
 
 import type { BuildSpec } from '../builds/spec.js';
+import type { RunTimeout } from '../run/pool.js';
 import { prepareBuilds, prepareScenarios } from '../run/prepare.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { EXIT, type ExitCode } from './exit.js';
@@ -11,6 +12,20 @@ import { EXIT, type ExitCode } from './exit.js';
 export interface CommandOutcome {
   exitCode: ExitCode;
   lines: string[];
+}
+
+/** What every suite-shaped command (run, margin) is given besides its builds and own settings. */
+export interface SuiteCommandOptions {
+  /** Scenario files or folders (default scenario/paths.ts DEFAULT_SCENARIO_PATHS). */
+  paths?: string[];
+  /** Results folder, relative to cwd. */
+  outDir: string;
+  jobs?: number;
+  runTimeout?: RunTimeout;
+  /** Folder specs, paths and outDir are relative to (default process.cwd()). */
+  cwd?: string;
+  /** Called with each line as it happens; the lines are returned too. */
+  log?: (line: string) => void;
 }
 
 export interface CommandLog {

@@ -6,16 +6,15 @@
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import type { ErrorObject } from 'ajv/dist/2020.js';
-import { LineCounter, parseDocument, stringify, type Document } from 'yaml';
+import { stringify, type Document, type LineCounter } from 'yaml';
 import { BuildSpecError, parseBuildSpec } from '../builds/spec.js';
 import type { GatePolicy } from '../gate/defaults.js';
 import { formatPolicyIssue, parsePolicy, POLICY_SCHEMA_URL } from '../gate/policy.js';
 import { displayPath } from '../scenario/paths.js';
-import { kindOf, showValue } from '../files/issue.js';
 import { schemaValidator } from '../files/schema.js';
-import { positionOf } from '../files/source.js';
+import { parseSettingsYaml, positionOf, valueAt } from '../files/source.js';
 import { didYouMean } from '../files/suggest.js';
-import type { FileIssue } from '../files/issue.js';
+import { kindOf, pointerSegments, showValue, type FileIssue } from '../files/issue.js';
 import { CONFIG_FILE_NAMES, type ConfigData, type GitBuildData } from './types.js';
 
 export const CONFIG_SCHEMA_URL = new URL('./config.schema.json', import.meta.url);
@@ -67,16 +66,8 @@ export function loadConfig(file: string, cwd = process.cwd()): LoadedConfig {
 /** Parses config text; `file` (absolute) names it in messages and anchors its relative paths. */
 export function parseConfig(text: string, file: string, cwd = process.cwd()): LoadedConfig {
   const display = displayPath(file, cwd);
-  const lineCounter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
-  if (doc.errors.length > 0) {
-    throw new ConfigError(
-      doc.errors.map((e) => {
-        const pos = e.linePos?.[0];
-        return { file: display, line: pos?.line, column: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
-      }),
-    );
-  }
+  const { doc, lineCounter, issues: syntax } = parseSettingsYaml(text, display);
+  if (syntax.length > 0) throw new ConfigError(syntax);
   const value: unknown = doc.toJS() ?? {};
   const where = (segments: readonly (string | number)[], options: { key?: boolean } = {}) => {
     const pos = positionOf(doc, lineCounter, segments.map(String), options.key ? 'key' : 'value');
@@ -170,16 +161,6 @@ export function recipeOf(data: ConfigData, build: Partial<GitBuildData>): GitBui
 
 // --- ajv errors → issues -------------------------------------------------------------------
 
-function decodePointer(pointer: string): string[] {
-  return pointer === '' ? [] : pointer.slice(1).split('/').map((s) => s.replace(/~1/g, '/').replace(/~0/g, '~'));
-}
-
-function valueAt(root: unknown, segments: readonly string[]): unknown {
-  let value = root;
-  for (const s of segments) value = value !== null && typeof value === 'object' ? (value as Record<string, unknown>)[s] : undefined;
-  return value;
-}
-
 function knownKeys(schema: unknown): string[] {
   const properties = (schema as { properties?: Record<string, unknown> } | undefined)?.properties;
   return properties ? Object.keys(properties) : [];
@@ -198,7 +179,7 @@ function translate(errors: ErrorObject[], value: unknown, doc: Document, lineCou
     }
   };
   for (const error of errors) {
-    const segments = decodePointer(error.instancePath);
+    const segments = pointerSegments(error.instancePath);
     const params = error.params as Record<string, unknown>;
     const v = valueAt(value, segments);
     switch (error.keyword) {

@@ -3,7 +3,7 @@
 // document is kept so a JSON pointer can be mapped back to the node it names.
 
 import { LineCounter, isAlias, isMap, isScalar, isSeq, parseDocument, type Document } from 'yaml';
-import { pointerJoin, pointerSegments, type Finding } from './issue.js';
+import { pointerJoin, pointerSegments, type FileIssue, type Finding } from './issue.js';
 
 /** Deeper nesting than any scenario needs; refusing it keeps every later walk bounded. */
 export const MAX_NESTING_DEPTH = 64;
@@ -117,6 +117,28 @@ export function positionOf(doc: Document, lineCounter: LineCounter, segments: re
   const { node } = findNode(doc, segments, at);
   const range = (node as { range?: [number, number, number] } | null)?.range;
   return range ? lineCounter.linePos(range[0]) : undefined;
+}
+
+/**
+ * A settings file (gate policy, project config) parsed with positions: plain YAML with unique
+ * keys, its syntax errors as issues of `file` (first line of the parser's message, position
+ * from the parser).
+ */
+export function parseSettingsYaml(text: string, file: string): { doc: Document.Parsed; lineCounter: LineCounter; issues: FileIssue[] } {
+  const lineCounter = new LineCounter();
+  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
+  const issues = doc.errors.map((e): FileIssue => {
+    const pos = e.linePos?.[0];
+    return { file, line: pos?.line, column: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
+  });
+  return { doc, lineCounter, issues };
+}
+
+/** The value a path of keys names in parsed data (undefined past its end). */
+export function valueAt(root: unknown, segments: readonly string[]): unknown {
+  let value = root;
+  for (const s of segments) value = value !== null && typeof value === 'object' ? (value as Record<string, unknown>)[s] : undefined;
+  return value;
 }
 
 function keyText(key: unknown): string {

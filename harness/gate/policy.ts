@@ -4,11 +4,10 @@
 
 import { readFileSync } from 'node:fs';
 import type { ErrorObject } from 'ajv/dist/2020.js';
-import type { FileIssue } from '../files/issue.js';
+import { pointerSegments, type FileIssue } from '../files/issue.js';
 import { schemaValidator } from '../files/schema.js';
-import { positionOf } from '../files/source.js';
+import { parseSettingsYaml, positionOf, valueAt } from '../files/source.js';
 import { suggestName } from '../files/suggest.js';
-import { LineCounter, parseDocument } from 'yaml';
 import { DEFAULT_GATE_RULES, GATE_RULE_NAMES, type GatePolicy, type GateRules } from './defaults.js';
 
 export const POLICY_SCHEMA_URL = new URL('./policy.schema.json', import.meta.url);
@@ -39,12 +38,6 @@ function show(value: unknown): string {
   return typeof value === 'string' ? JSON.stringify(value) : JSON.stringify(value) ?? String(value);
 }
 
-function valueAt(root: unknown, segments: readonly string[]): unknown {
-  let value = root;
-  for (const s of segments) value = value !== null && typeof value === 'object' ? (value as Record<string, unknown>)[s] : undefined;
-  return value;
-}
-
 function expectation(error: ErrorObject): string {
   const p = error.params as Record<string, unknown>;
   switch (error.keyword) {
@@ -63,10 +56,6 @@ function expectation(error: ErrorObject): string {
   }
 }
 
-function decodePointer(pointer: string): string[] {
-  return pointer === '' ? [] : pointer.slice(1).split('/').map((s) => s.replace(/~1/g, '/').replace(/~0/g, '~'));
-}
-
 function dedupeAndSort(issues: FileIssue[]): FileIssue[] {
   const seen = new Set<string>();
   const unique = issues.filter((issue) => {
@@ -80,22 +69,14 @@ function dedupeAndSort(issues: FileIssue[]): FileIssue[] {
 
 /** Parses policy YAML text; `file` is used in messages. An empty document is the default policy. */
 export function parsePolicy(text: string, file: string): GatePolicy {
-  const lineCounter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
-  if (doc.errors.length > 0) {
-    throw new PolicyError(
-      doc.errors.map((e) => {
-        const pos = e.linePos?.[0];
-        return { file, line: pos?.line, column: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
-      }),
-    );
-  }
+  const { doc, lineCounter, issues: syntax } = parseSettingsYaml(text, file);
+  if (syntax.length > 0) throw new PolicyError(syntax);
   const value: unknown = doc.toJS() ?? {};
   const validate = validator();
   if (!validate(value)) {
     const issues: FileIssue[] = [];
     for (const error of validate.errors ?? []) {
-      const segments = decodePointer(error.instancePath);
+      const segments = pointerSegments(error.instancePath);
       if (error.keyword === 'unevaluatedProperties' || error.keyword === 'additionalProperties') {
         const key = String((error.params as Record<string, unknown>).unevaluatedProperty ?? (error.params as Record<string, unknown>).additionalProperty);
         const allowed = segments.length === 0 ? TOP_LEVEL_KEYS : GATE_RULE_NAMES;

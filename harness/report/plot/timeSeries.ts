@@ -4,7 +4,7 @@
 // plot's pixel width with the min/max rule of score/series/buckets.ts, so peaks stay. The floor
 // map is floor.ts, the suite overview's dot rows overview.ts.
 
-import { groupRanges } from '../../score/series/buckets.js';
+import { groupRanges, mergeGroups } from '../../score/series/buckets.js';
 import type { FrictionMap } from '../../plant/types.js';
 import type { MinMaxSeries, RunSeries, SlipSegment } from '../../score/series/types.js';
 import { bandsPath, envelopePath, linePath, markerPath } from './path.js';
@@ -39,21 +39,7 @@ function timeGrid(series: RunSeries, tMax_s: number, target = PLOT_BUCKETS): Tim
 }
 
 function mergeMinMax(s: MinMaxSeries, grid: TimeGrid): { min: (number | null)[]; max: (number | null)[] } {
-  const min: (number | null)[] = [];
-  const max: (number | null)[] = [];
-  for (let g = 0; g < grid.start.length; g++) {
-    let lo: number | null = null;
-    let hi: number | null = null;
-    for (let k = grid.start[g]; k < grid.end[g]; k++) {
-      const a = s.min[k];
-      const b = s.max[k];
-      if (a !== null && (lo === null || a < lo)) lo = a;
-      if (b !== null && (hi === null || b > hi)) hi = b;
-    }
-    min.push(lo);
-    max.push(hi);
-  }
-  return { min, max };
+  return mergeGroups(s, grid.start, grid.end);
 }
 
 const anyIn = (values: readonly number[], grid: TimeGrid, g: number, test: (v: number) => boolean) => {

@@ -59,16 +59,22 @@ export function rebucket(
   series: { min: (number | null)[]; max: (number | null)[] },
   target: number,
 ): { min: (number | null)[]; max: (number | null)[]; at: number[] } {
-  const n = series.min.length;
-  const group = ticksPerBucket(n, target);
+  const { start, end } = groupRanges(series.min.length, target);
+  return { ...mergeGroups(series, start, end), at: end.map((e) => e - 1) };
+}
+
+/** Min of the mins and max of the maxes over each index range [start[g], end[g]) (nulls skipped). */
+export function mergeGroups(
+  series: { min: (number | null)[]; max: (number | null)[] },
+  start: readonly number[],
+  end: readonly number[],
+): { min: (number | null)[]; max: (number | null)[] } {
   const min: (number | null)[] = [];
   const max: (number | null)[] = [];
-  const at: number[] = [];
-  for (let start = 0; start < n; start += group) {
-    const end = Math.min(n, start + group);
+  for (let g = 0; g < start.length; g++) {
     let lo: number | null = null;
     let hi: number | null = null;
-    for (let k = start; k < end; k++) {
+    for (let k = start[g]; k < end[g]; k++) {
       const a = series.min[k];
       const b = series.max[k];
       if (a !== null && (lo === null || a < lo)) lo = a;
@@ -76,9 +82,8 @@ export function rebucket(
     }
     min.push(lo);
     max.push(hi);
-    at.push(end - 1);
   }
-  return { min, max, at };
+  return { min, max };
 }
 
 /** Rounds to `digits` significant digits (keeps files compact; plots need ~4). */
