@@ -24,7 +24,7 @@ import { PlantDivergedError } from './errors.js';
 import { FrictionField } from './frictionMap.js';
 import { gravityOnIncline } from './gravity.js';
 import { PushSchedule } from './pushes.js';
-import { restingDepth_m, staticFootForces } from './settle.js';
+import { restingDepth_m, staticSupportForces } from './settle.js';
 import { invertSymmetric3, matrixFromQuaternion, quaternionFromRollPitchYaw } from './rotation.js';
 import type { ContactLaw, PlantConfig, RobotParams } from './types.js';
 import { validatePlantConfig } from './validate.js';
@@ -140,20 +140,28 @@ export class Plant {
 
   /**
    * The settled start: feet pressed into the ground to the depth whose resting Hunt–Crossley force
-   * is their share of the static ground load (the trunk lowered with them), and that load (tangential part included) reported as
-   * the last step's ground force, so the first observation already sees loaded, sticking feet.
+   * is their share of the static ground load (the trunk lowered with them), and that load
+   * (tangential part included) reported as the last step's ground force, so the first observation
+   * already sees loaded, sticking feet.
    */
   private settle(): void {
+    // Statics in the plant's own mechanics: the legs act on the trunk at the hips, so the trunk's
+    // weight is shared by forces uᵢ at the hips balancing force and moment about its centre; each
+    // foot then carries uᵢ plus its own weight. (Moments taken at the feet instead would shift
+    // load between feet on a ramp that the plant's trunk never feels.)
     const n = this.footCount;
-    const centre = new Float64Array(3);
-    for (let a = 0; a < 3; a++) {
-      let s = this.trunkMass * this.trunkPosition_m[a];
-      for (let i = 0; i < n; i++) s += this.footMass * this.footPosition_m[3 * i + a];
-      centre[a] = s / this.totalMass_kg;
+    const R = matrixFromQuaternion(this.rotation, this.trunkQuaternion);
+    const p = this.trunkPosition_m;
+    const hips = new Float64Array(3 * n);
+    for (let i = 0; i < n; i++) {
+      const a = 3 * i;
+      const rx = this.hips[a], ry = this.hips[a + 1], rz = this.hips[a + 2];
+      for (let r = 0; r < 3; r++) hips[a + r] = p[r] + R[3 * r] * rx + R[3 * r + 1] * ry + R[3 * r + 2] * rz;
     }
     const g = this.gravity_mps2;
-    const M = this.totalMass_kg;
-    const forces = staticFootForces(this.footPosition_m, centre, [M * g[0], M * g[1], M * g[2]]);
+    const mt = this.trunkMass;
+    const forces = staticSupportForces(hips, p, [mt * g[0], mt * g[1], mt * g[2]]);
+    for (let j = 0; j < 3 * n; j++) forces[j] -= this.footMass * g[j % 3];
     // The robot sinks into its contacts with its legs at the length the scenario set: every foot by
     // its own resting depth, the trunk by their mean (a fraction of a millimetre of tilt at most).
     let sunk = 0;

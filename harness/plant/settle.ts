@@ -8,20 +8,19 @@
 // robot, the ground and gravity only, and is exact where statics is (a block on an incline).
 
 /**
- * Ground forces on n point feet that hold a rigid robot of weight `weight_N` (the force gravity
- * puts on the whole robot) at rest: Σ fᵢ = −weight and Σ (xᵢ − c) × fᵢ = 0 about the centre of
- * mass c. With more than three unknowns per constraint this is statically indeterminate; the
- * answer is the minimum-norm one, fᵢ = Aᵢᵀ (A Aᵀ)⁻¹ b (the Moore–Penrose solution of A f = b).
+ * Forces at n support points xᵢ that hold a rigid body of weight `weight_N` (the force gravity
+ * puts on it) at rest: Σ fᵢ = −weight and Σ (xᵢ − c) × fᵢ = 0 about its centre of mass c.
+ * With more than six unknowns this is statically indeterminate; the answer is the minimum-norm one, fᵢ = Aᵢᵀ (A Aᵀ)⁻¹ b (the Moore–Penrose solution of A f = b).
  * A tiny regularisation on the moment rows lets one or two feet (A of rank < 6) give up the moment
  * they cannot carry instead of failing. Allocates; called once per plant.
  */
-export function staticFootForces(feet_m: Float64Array, centre_m: ArrayLike<number>, weight_N: ArrayLike<number>): Float64Array {
-  const n = feet_m.length / 3;
+export function staticSupportForces(points_m: Float64Array, centre_m: ArrayLike<number>, weight_N: ArrayLike<number>): Float64Array {
+  const n = points_m.length / 3;
   const A: number[][] = Array.from({ length: 6 }, () => new Array<number>(3 * n).fill(0));
   for (let i = 0; i < n; i++) {
-    const rx = feet_m[3 * i] - centre_m[0];
-    const ry = feet_m[3 * i + 1] - centre_m[1];
-    const rz = feet_m[3 * i + 2] - centre_m[2];
+    const rx = points_m[3 * i] - centre_m[0];
+    const ry = points_m[3 * i + 1] - centre_m[1];
+    const rz = points_m[3 * i + 2] - centre_m[2];
     for (let a = 0; a < 3; a++) A[a][3 * i + a] = 1;
     // Rows of [r]× so that A[3..5]·f = r × f.
     A[3][3 * i + 1] = -rz; A[3][3 * i + 2] = ry;

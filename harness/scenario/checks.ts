@@ -292,7 +292,7 @@ function checkContactStep(data: Record<string, unknown>, robot: RobotParams, err
     const period_ms = largest * STEPS_PER_CONTACT_PERIOD * 1000;
     errors.push({
       path: physics && 'step_s' in physics ? '/physics/step_s' : given ? '/ground/contact' : '/physics',
-      message: `the physics step ${step * 1000} ms cannot resolve the foot contact (k = ${Number(law.stiffness_N_per_m.toPrecision(4))} N/m^${law.exponent}, contact period ${Number(period_ms.toPrecision(3))} ms at the robot's weight on one foot); it needs a step ≤ ${Number((largest * 1000).toPrecision(3))} ms (${STEPS_PER_CONTACT_PERIOD} steps per contact period)`,
+      message: `the physics step ${step * 1000} ms cannot resolve the foot contact (k = ${law.stiffness_N_per_m.toExponential(3)} N/m^${law.exponent}, contact period ${Number(period_ms.toPrecision(3))} ms at the robot's weight on one foot); it needs a step ≤ ${Number((largest * 1000).toPrecision(3))} ms (${STEPS_PER_CONTACT_PERIOD} steps per contact period)`,
     });
   }
 }

@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { STANDARD_GRAVITY_mps2 } from '../../harness/plant/defaults.js';
 import { Plant } from '../../harness/plant/plant.js';
-import { staticFootForces } from '../../harness/plant/settle.js';
+import { staticSupportForces } from '../../harness/plant/settle.js';
 import { holdPosture, material, plantConfig, runFor } from '../support/robots.js';
 
 const g = STANDARD_GRAVITY_mps2;
@@ -24,7 +24,7 @@ describe('static foot loads', () => {
     const feet = Float64Array.from([0.25, 0.12, 0, 0.25, -0.12, 0, -0.25, 0.12, 0, -0.3, -0.1, 0]);
     const centre = [0.02, -0.01, 0.3];
     const weight = [-20, 5, -200];
-    const f = staticFootForces(feet, centre, weight);
+    const f = staticSupportForces(feet, centre, weight);
     const sum = [0, 0, 0];
     const moment = [0, 0, 0];
     for (let i = 0; i < 4; i++) {
