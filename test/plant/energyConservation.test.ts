@@ -40,8 +40,8 @@ function worstEnergyError_J(plant: Plant, action: ReturnType<typeof createAction
 /**
  * Legs as central springs about the hip with a rest length: a spring of stiffness kp toward the hip
  * plus a feed-forward that sets the rest length and carries the trunk. Both have a potential in the
- * plant's leg model, which applies each leg's force at the hip (see the note on the impedance target
- * in docs/scenarios.md, Energy).
+ * plant's leg model, which applies each leg's force at the hip (a spring toward a target offset from
+ * the hip has none: DEVELOPERS.md, "The leg model is not fully conservative").
  */
 function centralSprings(plant: Plant, stiffness_N_per_m: number) {
   const n = plant.footCount;
