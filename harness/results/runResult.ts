@@ -24,6 +24,7 @@ export function scenarioRef(scenario: ResolvedScenario): ScenarioRef {
     hash: scenario.hash,
     file: scenario.file,
     title: scenario.title,
+    start: scenario.plant.initial.start,
   };
   if (scenario.family) ref.family = scenario.family;
   return ref;

@@ -3,6 +3,7 @@
 // RESULTS_FORMAT_VERSION on any incompatible change.
 
 import type { FamilySummary, RunMargin } from './margin.js';
+import type { StartMode } from '../plant/types.js';
 import type { FamilyMembership } from '../scenario/types.js';
 import type { ScoreMetrics, SimMetrics } from '../score/types.js';
 
@@ -19,6 +20,8 @@ export interface ScenarioRef {
   title: string;
   /** Present when the scenario is one sample of a seeded family. */
   family?: FamilyMembership;
+  /** How the run began (the resolved scenario's plant.initial.start). */
+  start?: StartMode;
 }
 
 export type RunStatus = 'pass' | 'fail' | 'error';
