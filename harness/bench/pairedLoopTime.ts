@@ -2,7 +2,7 @@
 // baseline build observes in (the start of) each scenario, open both builds on each scenario, and
 // time them in interleaved rounds on those same observations (pairedTiming.ts).
 
-import { createAction, type Observation } from '../builds/interface.js';
+import { createAction, type Observation } from '../contract/tick.js';
 import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/loader.js';
 import type { BuildSpec } from '../builds/spec.js';
 import { controllerSetup } from '../run/runOne.js';

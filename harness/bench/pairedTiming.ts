@@ -10,9 +10,13 @@
 // Why the median of ratios: one descheduled round reads many times slow; the median ignores it, and
 // its order-statistic interval needs no distributional assumption.
 
-import type { Action, Observation } from '../builds/interface.js';
+import type { Action, Observation } from '../contract/tick.js';
 import type { OpenedBuild } from '../builds/loader.js';
-import { medianInterval, type MedianInterval } from '../score/medianInterval.js';
+import type { PairedTiming } from '../results/loopTime.js';
+import { medianInterval } from '../score/medianInterval.js';
+
+export type { PairedTiming } from '../results/loopTime.js';
+export { judgeAgainstLimit, type TimingJudgement } from '../score/medianInterval.js';
 
 export interface PairedStream {
   scenario: string;
@@ -55,19 +59,6 @@ export const DEFAULT_PAIRED_TIMING: Readonly<PairedTimingOptions> = Object.freez
 const MIN_TICKS_PER_BATCH = 3;
 const MAX_TICKS_PER_BATCH = 2000;
 
-export interface PairedTiming {
-  method: 'interleaved-median-ratio';
-  rounds: number;
-  confidence: number;
-  scenarios: string[];
-  /** Median per-tick time of each side over the rounds, microseconds. */
-  baselineTick_us: number;
-  candidateTick_us: number;
-  /** Candidate ÷ baseline per-tick time, per round: median and interval. */
-  ratio: MedianInterval;
-  /** Candidate per-tick time ÷ the round's scenario budget: median and interval. */
-  budgetRatio: MedianInterval;
-}
 
 class Cursor {
   index = 0;
@@ -148,18 +139,4 @@ export async function timePaired(streams: readonly PairedStream[], options: Pair
     ratio: medianInterval(ratios, options.confidence),
     budgetRatio: medianInterval(budgetRatios, options.confidence),
   };
-}
-
-export type TimingJudgement = 'holds' | 'within-noise' | 'exceeds';
-
-/**
- * Against a limit: `exceeds` only when the whole interval lies above it (significant and beyond
- * the limit), `holds` when the whole interval lies at or below it, `within-noise` otherwise
- * (including too few rounds for an interval).
- */
-export function judgeAgainstLimit(interval: MedianInterval, limit: number): TimingJudgement {
-  if (interval.lower === null || interval.upper === null) return 'within-noise';
-  if (interval.lower > limit) return 'exceeds';
-  if (interval.upper <= limit) return 'holds';
-  return 'within-noise';
 }

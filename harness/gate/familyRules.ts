@@ -4,10 +4,10 @@
 // baseline − candidate is supported when its whole interval lies above the allowed drop. A move
 // whose interval reaches the allowance is reported as "within noise", not as a regression.
 
-import { summarizeFamilies } from '../margin/familySummary.js';
-import { differenceInterval, wilsonInterval } from '../margin/proportion.js';
-import type { FamilySummary } from '../margin/types.js';
-import type { ResultsFile } from '../run/results/types.js';
+import { summarizeFamilies } from '../results/familySummary.js';
+import { differenceInterval, wilsonInterval } from '../score/proportion.js';
+import type { FamilySummary } from '../results/margin.js';
+import type { ResultsFile } from '../results/types.js';
 import { rulesFor, type GatePolicy } from './defaults.js';
 import type { GateRow, NotComparable } from './types.js';
 

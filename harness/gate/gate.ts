@@ -1,7 +1,7 @@
 // `footing gate` as a function: pair two result sets, apply the policy to every pair, and answer
 // hold or block.
 
-import type { ResultsFile } from '../run/results/types.js';
+import type { ResultsFile } from '../results/types.js';
 import { rulesFor, type GatePolicy } from './defaults.js';
 import { pairRuns } from './pairing.js';
 import { compareFamilies } from './familyRules.js';

@@ -3,16 +3,12 @@
 // of a median. A rule blocks only when the whole interval lies beyond its limit; an interval that
 // straddles the limit is reported "within noise" with the interval, never as a regression.
 
-import type { PairedTiming } from '../bench/pairedTiming.js';
-import { judgeAgainstLimit } from '../bench/pairedTiming.js';
-import type { MedianInterval } from '../score/medianInterval.js';
+import type { PairedLoopTimeRecord } from '../results/loopTime.js';
+import { judgeAgainstLimit, type MedianInterval } from '../score/medianInterval.js';
 import type { GateRules } from './defaults.js';
 import type { GateRow } from './types.js';
 
-export interface PairedLoopTimeRecord extends PairedTiming {
-  baselineBuild: string;
-  candidateBuild: string;
-}
+export type { PairedLoopTimeRecord } from '../results/loopTime.js';
 
 /** Rows of loop-time judgements are filed under this pseudo-scenario (they span the suite). */
 export const LOOP_TIME_SCENARIO = 'loop-time';

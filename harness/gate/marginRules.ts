@@ -3,7 +3,7 @@
 // scale may not drop by more than allowed. Both are judged on paired runs (same scenario and
 // hash), so a build that loses margin is caught even when every run still passes as written.
 
-import type { MarginSearchRecord } from '../margin/types.js';
+import type { MarginSearchRecord } from '../results/margin.js';
 import type { GateRules } from './defaults.js';
 import type { RunPair } from './pairing.js';
 import type { GateRow } from './types.js';

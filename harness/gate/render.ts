@@ -1,7 +1,7 @@
 // The gate's outcome as Markdown (gate.md, for a merge-request comment) and as a plain text table
 // for the terminal. Both list broken rules first, then every other metric that moved.
 
-import { markdownCell } from '../run/results/writeSummary.js';
+import { markdownCell } from '../results/writeSummary.js';
 import type { GateOutcome, GateRow, GateValue } from './types.js';
 
 const DECIMALS: Record<string, number> = {

@@ -2,8 +2,8 @@
 // its metric moved or its rule is broken; informational metrics return a row when they moved.
 
 import { fallSentence } from '../score/acceptance.js';
-import { firstReason } from '../run/results/runResult.js';
-import type { RunResult } from '../run/results/types.js';
+import { firstReason } from '../results/runResult.js';
+import type { RunResult } from '../results/types.js';
 import type { ScoreMetrics } from '../score/types.js';
 import type { GateRules } from './defaults.js';
 import type { RunPair } from './pairing.js';

@@ -2,7 +2,7 @@
 // changed should block a merge: a scenario that already fails on the baseline is inherited, and a
 // gate that blocks every merge for it gets switched off.
 
-import type { RunStatus } from '../run/results/types.js';
+import type { RunStatus } from '../results/types.js';
 
 export type RunChange = 'passing' | 'new-failure' | 'still-failing' | 'fixed';
 

@@ -2,8 +2,8 @@
 // otherwise (CI logs, pipes, --quiet prints only the end).
 
 import cliProgress from 'cli-progress';
-import { firstReason } from './results/runResult.js';
-import type { RunResult } from './results/types.js';
+import { firstReason } from '../results/runResult.js';
+import type { RunResult } from '../results/types.js';
 
 export type ProgressMode = 'bar' | 'lines' | 'quiet';
 

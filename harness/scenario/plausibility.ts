@@ -3,7 +3,7 @@
 
 import type { RobotParams } from '../plant/types.js';
 import { list, num, rec, vec } from './guards.js';
-import type { Finding } from './issue.js';
+import type { Finding } from '../files/issue.js';
 
 const DEG_PER_RAD = 180 / Math.PI;
 

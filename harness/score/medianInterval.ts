@@ -73,3 +73,17 @@ export function minimumSamplesFor(confidence: number): number {
   for (let n = 1; n < 10_000; n++) if (1 - 2 * binomialHalfCdf(n, 0) >= confidence) return n;
   throw new RangeError(`confidence ${confidence} needs more than 10,000 samples`);
 }
+
+export type TimingJudgement = 'holds' | 'within-noise' | 'exceeds';
+
+/**
+ * Against a limit: `exceeds` only when the whole interval lies above it (significant and beyond
+ * the limit), `holds` when the whole interval lies at or below it, `within-noise` otherwise
+ * (including too few rounds for an interval).
+ */
+export function judgeAgainstLimit(interval: MedianInterval, limit: number): TimingJudgement {
+  if (interval.lower === null || interval.upper === null) return 'within-noise';
+  if (interval.lower > limit) return 'exceeds';
+  if (interval.upper <= limit) return 'holds';
+  return 'within-noise';
+}
