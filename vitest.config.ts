@@ -3,6 +3,8 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
   test: {
     include: ['test/**/*.test.ts'],
+    // Repeated-trial checks run in `npm run soak` (vitest.soak.config.ts).
+    exclude: ['test/soak/**', '**/node_modules/**'],
     // Physics tests integrate seconds of simulated time; allow them room on a 2-core machine.
     testTimeout: 60_000,
     hookTimeout: 60_000,

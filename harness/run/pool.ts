@@ -8,11 +8,31 @@
 // The price of a fresh thread is its start-up (loader and harness modules), measured in
 // docs/protocol.md ("Trust model"); it is paid in parallel with the other runs.
 
+import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { killProcessGroup } from '../builds/process/groups.js';
+import { createErrorRunResult } from '../results/runResult.js';
+import type { RunResult } from '../results/types.js';
 import type { RunTask } from './runOne.js';
 import type { RunThreadMessage } from './runThread.js';
-import type { RunResult } from './results/types.js';
+
+/** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
+export interface RunTimeout {
+  base_s: number;
+  perSimulatedSecond: number;
+}
+
+/** Generous on purpose: it catches a hung build, it is no speed test (common practice). */
+export const DEFAULT_RUN_TIMEOUT: RunTimeout = Object.freeze({ base_s: 120, perSimulatedSecond: 30 });
+
+export function runAllowance_s(timeout: RunTimeout, duration_s: number): number {
+  return timeout.base_s + timeout.perSimulatedSecond * duration_s;
+}
+
+/** One worker per core unless told otherwise. */
+export function defaultJobs(): number {
+  return Math.max(1, availableParallelism());
+}
 
 const THREAD_URL = new URL('./runThread.mjs', import.meta.url);
 /** A thread that has not even started its run after this long is stuck in start-up. */
@@ -143,4 +163,19 @@ export function createRunPool(jobs: number): RunPool {
 function describe(error: unknown): string {
   if (error instanceof Error) return `${error.name === 'Error' ? '' : `${error.name}: `}${error.message}`;
   return String(error);
+}
+
+/**
+ * One pair on the pool with its allowance; a timeout or a crashed thread becomes that pair's
+ * `error` result (run-timeout / worker), never an exception for the suite. An interruption (a
+ * signal) is passed on: the suite stops, it does not record the pair.
+ */
+export async function runOnPool(pool: RunPool, task: RunTask, timeout: RunTimeout): Promise<RunResult> {
+  try {
+    return await pool.run(task, runAllowance_s(timeout, task.scenario.duration_s));
+  } catch (error) {
+    if (error instanceof RunInterruptedError) throw error;
+    const reason = error instanceof RunTimeoutError ? 'run-timeout' : 'worker';
+    return createErrorRunResult(task.scenario, task.build.name, { message: (error as Error).message, reason });
+  }
 }

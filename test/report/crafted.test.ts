@@ -6,9 +6,9 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import fc from 'fast-check';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { runReportCommand } from '../../harness/report/command.js';
-import { mergeResults } from '../../harness/run/merge.js';
-import { runSuite } from '../../harness/run/suite.js';
+import { runReportCommand } from '../../harness/commands/report.js';
+import { mergeResults } from '../../harness/commands/merge.js';
+import { runSuite } from '../../harness/commands/run.js';
 
 let base: string;
 

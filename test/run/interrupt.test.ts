@@ -34,7 +34,7 @@ describe('footing run interrupted by a signal', () => {
     expect(stderr).toMatch(new RegExp(`interrupted by ${signal}: 1 of 2 runs are saved in .*runs; run the same command again with --resume`));
     expect(await survivorsAfter(marker)).toEqual([]);
     expect(readdirSync(path.join(out, 'runs')).filter((n) => n.endsWith('.json'))).toEqual(['brief-stand__nominal.json']);
-    expect(JSON.parse(readFileSync(saved, 'utf8')).status).toBe('pass');
+    expect(JSON.parse(readFileSync(saved, 'utf8')).result.status).toBe('pass');
     // Interrupted before the end: no summary pretends the suite was complete.
     expect(existsSync(path.join(out, 'results.json'))).toBe(false);
   });

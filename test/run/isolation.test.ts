@@ -2,7 +2,7 @@ import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runSuite } from '../../harness/run/suite.js';
+import { runSuite } from '../../harness/commands/run.js';
 import { expectStrictJunit } from '../support/junit.js';
 
 const SCENARIO = 'test/run/fixtures/mini/short-stand.yaml';

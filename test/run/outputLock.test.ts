@@ -7,7 +7,8 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { OUTPUT_LOCK_NAME } from '../../harness/run/outputLock.js';
-import { EXIT, runSuite } from '../../harness/run/suite.js';
+import { EXIT } from '../../harness/commands/exit.js';
+import { runSuite } from '../../harness/commands/run.js';
 import { survivorsAfter, uniqueMarker } from '../support/processes.js';
 
 const BRIEF = 'test/run/fixtures/brief';

@@ -6,7 +6,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { HtmlRenderer, Parser } from 'commonmark';
 import { describe, expect, it } from 'vitest';
-import { runSuite } from '../../harness/run/suite.js';
+import { runSuite } from '../../harness/commands/run.js';
 import { expectStrictJunit } from '../support/junit.js';
 
 const render = (file: string) => new HtmlRenderer().render(new Parser().parse(readFileSync(file, 'utf8')));

@@ -5,8 +5,8 @@ import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import type { ResultsFile, RunResult } from '../../harness/run/results/types.js';
-import { runSuite } from '../../harness/run/suite.js';
+import type { ResultsFile, RunResult } from '../../harness/results/types.js';
+import { runSuite } from '../../harness/commands/run.js';
 import { survivorsAfter, uniqueMarker } from '../support/processes.js';
 
 const BRIEF = 'test/run/fixtures/brief';

@@ -1,4 +1,4 @@
-// Inputs bounded before work (harness/scenario/bounds.ts, harness/files/bounded.ts): nesting is
+// Inputs bounded before work (harness/files/bounds.ts, harness/files/bounded.ts): nesting is
 // refused from the raw text before any parser recurses, files that are not regular or too big are
 // refused before they are read, long lists before the schema walks them, and a scenario must
 // describe a run worth judging (enough ticks) and one that can finish (not too many steps).
@@ -9,8 +9,8 @@ import path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { FILE_LIMITS } from '../../harness/files/bounded.js';
-import { checkPaths } from '../../harness/scenario/index.js';
-import { nestingProblemInText, SCENARIO_LIMITS } from '../../harness/scenario/bounds.js';
+import { checkPaths } from '../../harness/commands/check.js';
+import { nestingProblemInText, SCENARIO_LIMITS } from '../../harness/files/bounds.js';
 import { BASE_YAML, edit, errorsOf, load } from './helpers.js';
 
 const DEPTH = SCENARIO_LIMITS.nestingDepth;

@@ -149,3 +149,9 @@ export function readError(shared: SharedTick): { reasonCode: number; message: st
   const length = Math.min(Atomics.load(shared.control, ERROR_BYTES), shared.error.length);
   return { reasonCode: Atomics.load(shared.control, FAILURE), message: Buffer.from(shared.error.slice(0, length)).toString('utf8') };
 }
+
+/** What the build's thread tells its opener once, after trying to open the build. */
+export type BuildThreadMessage =
+  | { kind: 'ready'; telemetryNames: string[] }
+  | { kind: 'failed'; reason: string; message: string; stderrTail: string };
+

@@ -8,11 +8,11 @@
 
 import { Worker } from 'node:worker_threads';
 import type { Action, ControllerSetup, Observation } from '../interface.js';
-import { checkActionFinite, type OpenedBuild } from '../loader.js';
+import { checkActionFinite, type OpenedBuild } from '../opened.js';
 import { BuildFailure, BUILD_FAILURE_REASONS, type BuildFailureReason } from '../process/failure.js';
 import type { BuildSpec } from '../spec.js';
 import { badModeIndex, CLOSE, createSharedTick, DONE, FAILED, IDLE, readAction, readError, STATE, TICK, writeObservation, type SharedTick } from './layout.js';
-import type { BuildThreadMessage } from './thread.js';
+import type { BuildThreadMessage } from './layout.js';
 
 const THREAD_URL = new URL('./thread.mjs', import.meta.url);
 /** Time the build's thread has to close itself after CLOSE before it is terminated. */

@@ -9,11 +9,9 @@ import { createAction, createObservation, type ControllerSetup } from '../interf
 import { BuildFailure, openBuild, type OpenedBuild } from '../loader.js';
 import type { BuildSpec } from '../spec.js';
 import { BUILD_FAILURE_REASONS } from '../process/failure.js';
-import { CLOSE, DONE, FAILED, IDLE, readObservation, STATE, viewSharedTick, writeAction, writeError, type SharedTick } from './layout.js';
+import { CLOSE, DONE, FAILED, IDLE, readObservation, STATE, viewSharedTick, writeAction, writeError, type BuildThreadMessage, type SharedTick } from './layout.js';
 
-export type BuildThreadMessage =
-  | { kind: 'ready'; telemetryNames: string[] }
-  | { kind: 'failed'; reason: string; message: string; stderrTail: string };
+export type { BuildThreadMessage } from './layout.js';
 
 let current: SharedTick | null = null;
 

@@ -2,10 +2,11 @@ import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cacheKey, checkRefName, clearGitCache, GitRefError, prepareGitBuild, resolveRef, type GitBuildRecipe } from '../../../harness/builds/git.js';
-import { clearCache, runConfiguredSuite } from '../../../harness/config/commands.js';
-import { validateResults } from '../../../harness/run/results/validate.js';
-import type { ResultsFile } from '../../../harness/run/results/types.js';
-import { EXIT } from '../../../harness/run/suite.js';
+import { clearCache } from '../../../harness/commands/cache.js';
+import { runConfiguredSuite } from '../../../harness/commands/run.js';
+import { validateResults } from '../../../harness/results/validate.js';
+import type { ResultsFile } from '../../../harness/results/types.js';
+import { EXIT } from '../../../harness/commands/exit.js';
 import { BUILD_COMMAND, CONFIG_TEXT, createControllerRepo, git } from './repo.js';
 
 function recipe(dir: string, ref: string, extra: Partial<GitBuildRecipe> = {}): GitBuildRecipe {
