@@ -1,7 +1,35 @@
 #!/usr/bin/env node
-// Entry point: registers the TypeScript loader, then hands over to the thin CLI layer.
-import { register } from 'tsx/esm/api';
+// Entry point: the compiled build (dist/, made by `npm ci` / `npm run build`) when it is there and
+// no source file under harness/ is newer than it (an edited checkout never runs stale code);
+// otherwise the TypeScript sources through the tsx loader. FOOTING_SOURCE=1 forces the sources.
+import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 
-register();
-const { main } = await import('../harness/cli/main.ts');
+const compiled = new URL('../dist/cli/main.js', import.meta.url);
+const stamp = new URL('../dist/.sources-mtime', import.meta.url);
+
+/** The newest modification time under a folder, ms (a few ms for harness/). */
+function newest(folder) {
+  let latest = 0;
+  for (const entry of readdirSync(folder, { withFileTypes: true })) {
+    const path = join(folder, entry.name);
+    latest = Math.max(latest, entry.isDirectory() ? newest(path) : statSync(path).mtimeMs);
+  }
+  return latest;
+}
+
+function compiledIsCurrent() {
+  if (process.env.FOOTING_SOURCE === '1' || !existsSync(compiled) || !existsSync(stamp)) return false;
+  return newest(fileURLToPath(new URL('../harness/', import.meta.url))) <= Number(readFileSync(stamp, 'utf8'));
+}
+
+let main;
+if (compiledIsCurrent()) {
+  ({ main } = await import(compiled.href));
+} else {
+  const { register } = await import('tsx/esm/api');
+  register();
+  ({ main } = await import('../harness/cli/main.ts'));
+}
 process.exitCode = await main(process.argv.slice(2));

@@ -31,7 +31,9 @@ export interface BuildContentIdentity {
 /** A module graph larger than this is hashed up to here and marked (no controller needs more). */
 const MAX_FILES = 2000;
 
-const REFERENCE_ENTRY = join(dirname(fileURLToPath(import.meta.url)), 'reference', 'index.ts');
+// The sources, also from the compiled build (dist/ mirrors harness/ at the same depth): a saved run
+// keeps its identity whether it was made from the sources or from the build.
+const REFERENCE_ENTRY = fileURLToPath(new URL('../../harness/builds/reference/index.ts', import.meta.url));
 
 // import x from './a.js'; export * from "../b"; import('./c.js'); import './d.js'
 const LOCAL_SPECIFIER = /(?:\bfrom\s*|\bimport\s*\(\s*|\bimport\s+)(['"])(\.{1,2}\/[^'"\n]+)\1/g;

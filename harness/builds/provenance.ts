@@ -29,7 +29,7 @@ export interface BuildManifest {
 }
 
 /** This file's own checkout: where the reference builds live. */
-const FOOTING_DIRECTORY = dirname(fileURLToPath(import.meta.url));
+const FOOTING_DIRECTORY = fileURLToPath(new URL('../../harness/builds/', import.meta.url)).replace(/\/$/, '');
 
 const GIT_TIMEOUT_ms = 10_000;
 

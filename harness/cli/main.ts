@@ -1,18 +1,11 @@
 // The thin command-line layer: a yargs table over harness/commands. Each row parses its options,
 // calls one command function (the same function the tests call) and prints the lines it returns;
-// the command's exit code becomes the process's.
+// the command's exit code becomes the process's. Each command module is imported when its command
+// runs, so `--help` and a quick `check` load only what they use.
 
 import yargs, { type Argv } from 'yargs';
-import { runBenchCommand } from '../commands/bench.js';
-import { clearCache } from '../commands/cache.js';
-import { checkPaths } from '../commands/check.js';
-import { printConfig } from '../commands/config.js';
 import { EXIT, type ExitCode } from '../commands/exit.js';
-import { runGate } from '../commands/gate.js';
-import { MARGIN_COMMAND_DEFAULTS, runMarginCommand } from '../commands/margin.js';
-import { mergeResults } from '../commands/merge.js';
-import { runReportCommand } from '../commands/report.js';
-import { runConfiguredSuite } from '../commands/run.js';
+import { MARGIN_COMMAND_DEFAULTS } from '../margin/defaults.js';
 import type { CommandOutcome } from '../commands/skeleton.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR, DEFAULT_SCENARIO_PATHS } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
@@ -81,7 +74,7 @@ const COMMANDS: CommandRow[] = [
         .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
         .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false }),
     printing: 'logged',
-    call: (args, log) => runConfiguredSuite(runFlags(args), { log, exitZero: args['exit-zero'] as boolean }),
+    call: async (args, log) => (await import('../commands/run.js')).runConfiguredSuite(runFlags(args), { log, exitZero: args['exit-zero'] as boolean }),
   },
   {
     usage: 'config',
@@ -91,7 +84,7 @@ const COMMANDS: CommandRow[] = [
         .option('print', { type: 'boolean', describe: 'print the resolved configuration', default: true })
         .option('json', { type: 'boolean', describe: 'as JSON', default: false }),
     printing: 'stderrUnlessPass',
-    call: (args) => printConfig(runFlags(args), { json: args.json as boolean }),
+    call: async (args) => (await import('../commands/config.js')).printConfig(runFlags(args), { json: args.json as boolean }),
   },
   {
     usage: 'cache',
@@ -101,14 +94,14 @@ const COMMANDS: CommandRow[] = [
         .option('clear', { type: 'boolean', demandOption: true, describe: 'remove every cached build and its worktree' })
         .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' }),
     printing: 'stderrUnlessPass',
-    call: (args) => clearCache({ config: args.config as string | undefined }),
+    call: async (args) => (await import('../commands/cache.js')).clearCache({ config: args.config as string | undefined }),
   },
   {
     usage: 'check [paths..]',
     describe: 'validate scenario files (exit 0 all valid, 2 otherwise)',
     options: (y) => y.positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS }),
     printing: 'stdout',
-    call: (args) => checkPaths(args.paths as string[]),
+    call: async (args) => (await import('../commands/check.js')).checkPaths(args.paths as string[]),
   },
   {
     usage: 'gate',
@@ -121,8 +114,8 @@ const COMMANDS: CommandRow[] = [
         .option('pair', { type: 'string', array: true, describe: 'pair builds explicitly: BASE=CAND (repeatable)' })
         .option('out', { type: 'string', describe: 'folder for gate.md (default: the candidate folder)' }),
     printing: 'stdout',
-    call: (args) =>
-      runGate({
+    call: async (args) =>
+      (await import('../commands/gate.js')).runGate({
         baseline: args.baseline as string,
         candidate: args.candidate as string,
         policyFile: args.policy as string | undefined,
@@ -138,7 +131,7 @@ const COMMANDS: CommandRow[] = [
         .positional('dirs', { type: 'string', array: true, demandOption: true })
         .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'merged results folder' }),
     printing: 'stderrUnlessPass',
-    call: async (args) => mergeResults(args.dirs as string[], args.out as string),
+    call: async (args) => (await import('../commands/merge.js')).mergeResults(args.dirs as string[], args.out as string),
   },
   {
     usage: 'bench',
@@ -151,8 +144,8 @@ const COMMANDS: CommandRow[] = [
         .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
         .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' }),
     printing: 'stderrOnBadInput',
-    call: (args) =>
-      runBenchCommand({
+    call: async (args) =>
+      (await import('../commands/bench.js')).runBenchCommand({
         builds: args.build as string[],
         scenario: args.scenario as string | undefined,
         json: args.json as string | undefined,
@@ -170,8 +163,8 @@ const COMMANDS: CommandRow[] = [
         .option('baseline', { type: 'string', describe: 'build to compare the others with' })
         .option('bench', { type: 'string', describe: 'bench JSON (footing bench --json) to show' }),
     printing: 'stderrOnBadInput',
-    call: (args) =>
-      runReportCommand({
+    call: async (args) =>
+      (await import('../commands/report.js')).runReportCommand({
         results: args.results as string[],
         out: args.out as string,
         baseline: args.baseline as string | undefined,
@@ -189,8 +182,8 @@ const COMMANDS: CommandRow[] = [
         .option('tolerance', { type: 'number', default: MARGIN_COMMAND_DEFAULTS.tolerance, describe: 'bisection tolerance on the scale' })
         .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' }),
     printing: 'logged',
-    call: (args, log) =>
-      runMarginCommand({
+    call: async (args, log) =>
+      (await import('../commands/margin.js')).runMarginCommand({
         paths: args.paths as string[],
         build: args.build as string[],
         out: args.out as string,

@@ -20,8 +20,7 @@ import { EXIT, exitCodeOfRuns } from './exit.js';
 import { OUTPUT_FILES, writeOutputs } from './outputs.js';
 import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
 
-/** What `footing margin` uses when not told otherwise. */
-export const MARGIN_COMMAND_DEFAULTS = Object.freeze({ out: 'reports/out/margin', tolerance: MARGIN_DEFAULTS.tolerance });
+export { MARGIN_COMMAND_DEFAULTS } from '../margin/defaults.js';
 
 export interface MarginRunOptions extends SuiteCommandOptions {
   builds: string[];

@@ -14,21 +14,10 @@ import { lowestStaticFriction, peakPushForce_N, scaleFriction, scalePushes } fro
 import { renderMarginLines } from './render.js';
 import type { SearchResult } from '../results/margin.js';
 import { searchBoundary, type SearchOptions } from './search.js';
+import { MARGIN_DEFAULTS } from './defaults.js';
 import type { FrictionMarginRecord, MarginSample, MarginSearchRecord, PushMarginRecord, RunMargin } from '../results/margin.js';
 
-/**
- * Search settings, the one place these defaults live. Tolerance 0.01 of the scenario's own
- * friction is finer than the spread of friction between two mops of one floor (common practice).
- * Friction is searched down to 0.05 × (below wet ice for any floor of μs ≤ 1, from memory) or up
- * to 3 ×; pushes from 0 (no push) to 3 × the written shove. Two checks plus the two ends are the
- * monotonicity samples: 11 runs for friction and 12 for pushes (the nominal run is shared).
- */
-export const MARGIN_DEFAULTS = Object.freeze({
-  tolerance: 0.01,
-  frictionRange: [0.05, 3] as readonly [number, number],
-  pushRange: [0, 3] as readonly [number, number],
-  checks: 2,
-});
+export { MARGIN_DEFAULTS } from './defaults.js';
 
 export type MarginQuantity = 'friction' | 'push';
 

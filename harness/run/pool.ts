@@ -1,12 +1,16 @@
 // The pool that runs pairs in parallel on worker threads. Three promises it keeps:
-// - a fresh thread per run (runThread.ts): a thread never serves two pairs, let alone two builds,
-//   and one that saw an uncaught error or an unhandled rejection dies with its own run only;
+// - a thread serves one build only (runThread.ts): after a healthy run (a result that is not an
+//   `error`, no process group left behind) it takes the next queued run of the SAME build spec,
+//   otherwise it is terminated; one that saw an uncaught error or an unhandled rejection dies
+//   with its own run only and is never reused;
 // - a run's wall-clock allowance starts when its thread says it started, never while it waits
 //   for a free slot (at most `jobs` threads exist, the rest wait here, not in a thread's queue);
 // - a run stopped from outside (its allowance, abort() on a signal, close()) has its thread
 //   terminated and every process group it announced killed, so no build outlives its run.
-// The price of a fresh thread is its start-up (loader and harness modules), measured in
-// docs/protocol.md ("Trust model"); it is paid in parallel with the other runs.
+// With one job, reference builds (bundled, trusted code) run in this thread instead (inProcess.ts):
+// no thread start-up at all, the allowance kept by a watchdog between ticks.
+// The price of a thread is its start-up (harness modules), measured in docs/bench.md; reuse pays it
+// once per build and slot instead of once per run.
 
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
@@ -14,6 +18,7 @@ import { killProcessGroup } from '../builds/process/groups.js';
 import { createErrorRunResult } from '../results/runResult.js';
 import type { RunResult } from '../results/types.js';
 import type { RunTask } from './runOne.js';
+import { runInProcess } from './inProcess.js';
 import type { RunThreadMessage } from './runThread.js';
 
 /** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
@@ -34,7 +39,9 @@ export function defaultJobs(): number {
   return Math.max(1, availableParallelism());
 }
 
-const THREAD_URL = new URL('./runThread.mjs', import.meta.url);
+// From the TypeScript sources the thread needs the loader (runThread.mjs registers it); the
+// compiled build's runThread.js starts as it is.
+const THREAD_URL = new URL(import.meta.url.endsWith('.ts') ? './runThread.mjs' : './runThread.js', import.meta.url);
 /** A thread that has not even started its run after this long is stuck in start-up. */
 const START_LIMIT_ms = 120_000;
 
@@ -95,35 +102,73 @@ export function createRunPool(jobs: number): RunPool {
   };
 
   function start(item: Queued): void {
+    if (slots === 1 && item.task.build.kind === 'reference') startInProcess(item);
+    else startThread(item);
+  }
+
+  function startInProcess(item: Queued): void {
+    const controller = new AbortController();
+    const entry: Running = { stop: (error) => controller.abort(error) };
+    running.add(entry);
+    runInProcess(item.task, item.timeout_s, controller.signal)
+      .then(
+        // An overrun rejects like a thread run stopped by its allowance (runOnPool makes it run-timeout).
+        (result) => (result === 'overrun' ? item.reject(new RunTimeoutError(item.timeout_s)) : item.resolve(result)),
+        (error: Error) => item.reject(error),
+      )
+      .finally(() => {
+        running.delete(entry);
+        startNext();
+      });
+  }
+
+  function startThread(first: Queued): void {
+    let item = first;
     const mine = new Set<number>();
     let settled = false;
     let allowance: NodeJS.Timeout | undefined;
+    let startLimit: NodeJS.Timeout | undefined;
     const worker = new Worker(THREAD_URL, { workerData: { task: item.task } });
-    const startLimit = setTimeout(() => finish(new RunThreadError(`it did not start within ${START_LIMIT_ms / 1000} s`)), START_LIMIT_ms);
     const entry: Running = { stop: (error) => finish(error) };
     running.add(entry);
+    const awaitStart = () => {
+      startLimit = setTimeout(() => finish(new RunThreadError(`it did not start within ${START_LIMIT_ms / 1000} s`)), START_LIMIT_ms);
+    };
+    awaitStart();
 
     function finish(outcome: RunResult | Error): void {
       if (settled) return;
       settled = true;
       clearTimeout(startLimit);
       clearTimeout(allowance);
-      running.delete(entry);
-      void worker.terminate();
-      // The thread's own clean-up closes its builds; whatever it could not (terminated, crashed) goes here.
-      for (const pgid of mine) {
-        killProcessGroup(pgid);
-        groups.delete(pgid);
+      const done = item;
+      // Healthy and the same build queued: the thread takes it, keeping its slot.
+      const healthy = !(outcome instanceof Error) && outcome.status !== 'error' && mine.size === 0 && aborted === null;
+      const next = healthy ? queue.findIndex((queued) => sameBuild(queued.task, done.task)) : -1;
+      if (next >= 0) {
+        item = queue.splice(next, 1)[0];
+        settled = false;
+        awaitStart();
+        worker.postMessage({ task: item.task });
+      } else {
+        running.delete(entry);
+        void worker.terminate();
+        // The thread's own clean-up closes its builds; whatever it could not (terminated, crashed) goes here.
+        for (const pgid of mine) {
+          killProcessGroup(pgid);
+          groups.delete(pgid);
+        }
       }
-      if (outcome instanceof Error) item.reject(outcome);
-      else item.resolve(outcome);
-      startNext();
+      if (outcome instanceof Error) done.reject(outcome);
+      else done.resolve(outcome);
+      if (next < 0) startNext();
     }
 
     worker.on('message', (message: RunThreadMessage) => {
       if (message.kind === 'started') {
         clearTimeout(startLimit);
-        allowance = setTimeout(() => finish(new RunTimeoutError(item.timeout_s)), item.timeout_s * 1000);
+        const current = item;
+        allowance = setTimeout(() => finish(new RunTimeoutError(current.timeout_s)), current.timeout_s * 1000);
       } else if (message.kind === 'group') {
         const set = (s: Set<number>) => (message.alive ? s.add(message.pgid) : s.delete(message.pgid));
         set(mine);
@@ -158,6 +203,13 @@ export function createRunPool(jobs: number): RunPool {
       process.off('exit', killAll);
     },
   };
+}
+
+/** One build spec: the same code with the same arguments, options and folder. */
+function sameBuild(a: RunTask, b: RunTask): boolean {
+  const x = a.build;
+  const y = b.build;
+  return x.name === y.name && x.kind === y.kind && x.entry === y.entry && x.cwd === y.cwd && JSON.stringify([x.args, x.options]) === JSON.stringify([y.args, y.options]);
 }
 
 function describe(error: unknown): string {

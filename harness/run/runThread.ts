@@ -1,11 +1,13 @@
-// The worker-thread side of the run pool (pool.ts): one thread runs exactly one (scenario × build)
-// pair and is then thrown away, so nothing a build leaves behind — a patched prototype, a global,
-// a timer, a pending rejection — reaches any other pair. Messages to the parent:
-//   { kind: 'started' }                 the task arrived; the run's wall-clock allowance starts now
+// The worker-thread side of the run pool (pool.ts): a thread runs (scenario × build) pairs of ONE
+// build, one at a time: the first from workerData, each further one posted by the pool while the
+// thread stays healthy. So nothing a build leaves behind — a patched prototype, a global, a timer,
+// a pending rejection — reaches another build's run. Messages to the parent:
+//   { kind: 'started' }                 a task arrived; the run's wall-clock allowance starts now
 //   { kind: 'group', pgid, alive }      a process build's group started / is gone (pool kills leftovers)
 //   { kind: 'result', result }          the RunResult
-// An uncaught error or unhandled rejection (Node's default: it throws) ends the thread; the parent
-// turns that into an error result for this pair only.
+// Messages from the parent: { task } (the next run, same build). An uncaught error or unhandled
+// rejection (Node's default: it throws) ends the thread; the parent turns that into an error
+// result for the pair in progress and never reuses the thread.
 
 import { parentPort, workerData } from 'node:worker_threads';
 import { setImmediate as nextTurn } from 'node:timers/promises';
@@ -36,5 +38,10 @@ export async function serveOneRun(task: RunTask, post: (message: RunThreadMessag
 
 if (parentPort !== null && workerData?.task !== undefined) {
   const port = parentPort;
-  await serveOneRun(workerData.task as RunTask, (message) => port.postMessage(message));
+  const post = (message: RunThreadMessage) => port.postMessage(message);
+  // Runs are served strictly one after another: the pool posts the next only after a result.
+  let chain = serveOneRun(workerData.task as RunTask, post);
+  port.on('message', (message: { task: RunTask }) => {
+    chain = chain.then(() => serveOneRun(message.task, post));
+  });
 }

@@ -14,7 +14,9 @@ import type { BuildSpec } from '../spec.js';
 import { badModeIndex, CLOSE, createSharedTick, DONE, FAILED, IDLE, readAction, readError, STATE, TICK, writeObservation, type SharedTick } from './layout.js';
 import type { BuildThreadMessage } from './layout.js';
 
-const THREAD_URL = new URL('./thread.mjs', import.meta.url);
+// From the TypeScript sources the thread needs the loader (thread.mjs registers it); the compiled
+// build's thread.js starts as it is (a user's .ts build module is then loaded by loader.ts's tsx fallback).
+const THREAD_URL = new URL(import.meta.url.endsWith('.ts') ? './thread.mjs' : './thread.js', import.meta.url);
 /** Time the build's thread has to close itself after CLOSE before it is terminated. */
 const CLOSE_GRACE_ms = 1000;
 

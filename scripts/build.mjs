@@ -1,0 +1,58 @@
+#!/usr/bin/env node
+// The compiled build: harness/**/*.ts → dist/**/*.js (tsc, tsconfig.build.json), the schema files
+// copied beside their modules, and the ahead-of-time validators (dist/files/validators.generated.cjs).
+// dist/ mirrors harness/ at the same depth, so every `new URL('../../…', import.meta.url)` names
+// the same repository file from either. Run by `npm ci` (prepare) and `npm test`; bin/footing.js
+// uses dist/ when it is there and falls back to the TypeScript sources when it is not.
+import { spawnSync } from 'node:child_process';
+import { copyFileSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname, join, relative } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+
+const root = fileURLToPath(new URL('../', import.meta.url));
+const source = join(root, 'harness');
+const out = join(root, 'dist');
+
+rmSync(out, { recursive: true, force: true });
+// The newest source time, taken before compiling: bin/footing.js runs dist/ only while no file
+// under harness/ is newer (an edit made during the build makes it stale, as it should).
+function newest(folder) {
+  let latest = 0;
+  for (const entry of readdirSync(folder, { withFileTypes: true })) {
+    const path = join(folder, entry.name);
+    latest = Math.max(latest, entry.isDirectory() ? newest(path) : statSync(path).mtimeMs);
+  }
+  return latest;
+}
+const sourcesMtime = newest(source);
+const tsc = createRequire(import.meta.url).resolve('typescript/bin/tsc');
+const compiled = spawnSync(process.execPath, [tsc, '-p', join(root, 'tsconfig.build.json')], { stdio: 'inherit' });
+if (compiled.status !== 0) {
+  rmSync(out, { recursive: true, force: true });
+  console.error('footing build: tsc failed; dist/ removed (bin/footing.js runs the TypeScript sources)');
+  process.exit(compiled.status ?? 1);
+}
+
+function* files(folder) {
+  for (const entry of readdirSync(folder, { withFileTypes: true })) {
+    const path = join(folder, entry.name);
+    if (entry.isDirectory()) yield* files(path);
+    else yield path;
+  }
+}
+const schemas = [];
+for (const file of files(source)) {
+  if (!file.endsWith('.json')) continue;
+  const target = join(out, relative(source, file));
+  mkdirSync(dirname(target), { recursive: true });
+  copyFileSync(file, target);
+  if (file.endsWith('.schema.json')) schemas.push(file);
+}
+
+const { generateValidatorModule } = await import(pathToFileURL(join(out, 'files', 'standalone.js')).href);
+const target = join(out, 'files', 'validators.generated.cjs');
+writeFileSync(`${target}.tmp`, await generateValidatorModule(schemas.sort()));
+renameSync(`${target}.tmp`, target);
+writeFileSync(join(out, '.sources-mtime'), String(sourcesMtime));
+console.error(`footing build: dist/ (${schemas.length} schemas compiled ahead of time)`);
