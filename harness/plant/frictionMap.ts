@@ -1,6 +1,8 @@
 // Terrain friction lookup. The map is compiled once into flat tables so that the per-foot,
-// per-step lookup allocates nothing: patches are tested from last to first (later patches win)
-// behind a bounding-box reject, then the raster is indexed directly (O(1)), then the default.
+// per-step lookup allocates nothing: the patches whose bounding box touches the foot's cell of a
+// uniform grid (built here, over the patches' joint bounding box) are tested from last to first
+// (later patches win), then the raster is indexed directly (O(1)), then the default. The grid
+// makes the cost of a lookup depend on how many patches overlap there, not on how many exist.
 
 import type { FrictionMap, Material } from './types.js';
 
@@ -55,6 +57,7 @@ export class FrictionField {
   private readonly rasterNy: number;
   /** Material index of cell (i, j) at [i·ny + j]. */
   private readonly rasterMaterial: Int32Array;
+  private readonly grid: PatchGrid;
 
   constructor(map: FrictionMap) {
     const materials: Material[] = [map.default];
@@ -109,6 +112,7 @@ export class FrictionField {
       }
     });
     this.polygonXY = new Float64Array(polygonXY);
+    this.grid = buildPatchGrid(this.patchBox, patches.length);
 
     const raster = map.raster;
     if (raster) {
@@ -154,18 +158,26 @@ export class FrictionField {
 
   /** Index into `materials` of the ground at (x, y) on the ground plane. Allocation-free. */
   lookup(x: number, y: number): number {
-    const box = this.patchBox;
-    for (let p = this.patchCount - 1; p >= 0; p--) {
-      const b = 4 * p;
-      if (x < box[b] || y < box[b + 1] || x > box[b + 2] || y > box[b + 3]) continue;
-      const kind = this.patchKind[p];
-      if (kind === KIND_RECT) return p + 1;
-      if (kind === KIND_CIRCLE) {
-        const dx = x - this.patchCircle[3 * p];
-        const dy = y - this.patchCircle[3 * p + 1];
-        if (dx * dx + dy * dy <= this.patchCircle[3 * p + 2]) return p + 1;
-      } else if (this.insidePolygon(p, x, y)) {
-        return p + 1;
+    const grid = this.grid;
+    if (x >= grid.minX && y >= grid.minY && x <= grid.maxX && y <= grid.maxY) {
+      const i = Math.min(grid.nx - 1, Math.floor((x - grid.minX) * grid.invCell));
+      const j = Math.min(grid.ny - 1, Math.floor((y - grid.minY) * grid.invCell));
+      const cell = i * grid.ny + j;
+      const box = this.patchBox;
+      // Each cell lists its patches from last to first: the first that holds the point wins.
+      for (let k = grid.cellStart[cell], end = grid.cellStart[cell + 1]; k < end; k++) {
+        const p = grid.cellPatch[k];
+        const b = 4 * p;
+        if (x < box[b] || y < box[b + 1] || x > box[b + 2] || y > box[b + 3]) continue;
+        const kind = this.patchKind[p];
+        if (kind === KIND_RECT) return p + 1;
+        if (kind === KIND_CIRCLE) {
+          const dx = x - this.patchCircle[3 * p];
+          const dy = y - this.patchCircle[3 * p + 1];
+          if (dx * dx + dy * dy <= this.patchCircle[3 * p + 2]) return p + 1;
+        } else if (this.insidePolygon(p, x, y)) {
+          return p + 1;
+        }
       }
     }
     if (this.hasRaster) {
@@ -197,4 +209,65 @@ export class FrictionField {
     }
     return inside;
   }
+}
+
+/** Uniform grid over the patches' joint bounding box; cell (i, j) lists the patches touching it. */
+interface PatchGrid {
+  minX: number;
+  minY: number;
+  maxX: number;
+  maxY: number;
+  invCell: number;
+  nx: number;
+  ny: number;
+  /** Patches of cell c: cellPatch[cellStart[c] … cellStart[c + 1]), highest index first. */
+  cellStart: Int32Array;
+  cellPatch: Int32Array;
+}
+
+/**
+ * About two cells per patch, at most 2^16 cells: a patch then touches a few cells and a cell holds
+ * a few patches for scattered floors (common practice for uniform grids); large patches that
+ * cover many cells cost memory at build time only (one int per cell they touch).
+ */
+const CELLS_PER_PATCH = 2;
+const MAX_CELLS = 1 << 16;
+
+function buildPatchGrid(box: Float64Array, count: number): PatchGrid {
+  let minX = Infinity;
+  let minY = Infinity;
+  let maxX = -Infinity;
+  let maxY = -Infinity;
+  for (let p = 0; p < count; p++) {
+    minX = Math.min(minX, box[4 * p]);
+    minY = Math.min(minY, box[4 * p + 1]);
+    maxX = Math.max(maxX, box[4 * p + 2]);
+    maxY = Math.max(maxY, box[4 * p + 3]);
+  }
+  if (count === 0) return { minX: 1, minY: 1, maxX: 0, maxY: 0, invCell: 0, nx: 1, ny: 1, cellStart: new Int32Array(2), cellPatch: new Int32Array(0) };
+  const width = Math.max(maxX - minX, 1e-9);
+  const height = Math.max(maxY - minY, 1e-9);
+  const cells = Math.min(MAX_CELLS, CELLS_PER_PATCH * count);
+  const cell = Math.max(Math.sqrt((width * height) / cells), Math.max(width, height) / cells);
+  const nx = Math.max(1, Math.min(cells, Math.ceil(width / cell)));
+  const ny = Math.max(1, Math.min(cells, Math.ceil(height / cell)));
+  const invCell = 1 / cell;
+  const column = (x: number) => Math.min(nx - 1, Math.max(0, Math.floor((x - minX) * invCell)));
+  const row = (y: number) => Math.min(ny - 1, Math.max(0, Math.floor((y - minY) * invCell)));
+  // Two passes (count, then fill) into compressed rows; patches visited last to first.
+  const cellStart = new Int32Array(nx * ny + 1);
+  for (let p = 0; p < count; p++) {
+    for (let i = column(box[4 * p]); i <= column(box[4 * p + 2]); i++) {
+      for (let j = row(box[4 * p + 1]); j <= row(box[4 * p + 3]); j++) cellStart[i * ny + j + 1]++;
+    }
+  }
+  for (let c = 0; c < nx * ny; c++) cellStart[c + 1] += cellStart[c];
+  const fill = cellStart.slice(0, nx * ny);
+  const cellPatch = new Int32Array(cellStart[nx * ny]);
+  for (let p = count - 1; p >= 0; p--) {
+    for (let i = column(box[4 * p]); i <= column(box[4 * p + 2]); i++) {
+      for (let j = row(box[4 * p + 1]); j <= row(box[4 * p + 3]); j++) cellPatch[fill[i * ny + j]++] = p;
+    }
+  }
+  return { minX, minY, maxX, maxY, invCell, nx, ny, cellStart, cellPatch };
 }
