@@ -142,7 +142,8 @@ const COMMANDS: CommandRow[] = [
         .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
         .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
         .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
-        .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' }),
+        .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' })
+        .option('targets', { type: 'boolean', describe: 'also measure the speed targets (start-up, one run, the suite, overhead, patches) and say which are met' }),
     printing: 'stderrOnBadInput',
     call: async (args) =>
       (await import('../commands/bench.js')).runBenchCommand({
@@ -151,6 +152,7 @@ const COMMANDS: CommandRow[] = [
         json: args.json as string | undefined,
         time_ms: args['time-ms'] as number | undefined,
         suiteRuns: args['suite-runs'] as number | undefined,
+        targets: args.targets as boolean | undefined,
       }),
   },
   {

@@ -9,7 +9,7 @@ import { writeFileAtomicSync } from '../files/atomic.js';
 import { prepareBuilds } from '../run/prepare.js';
 import { loadScenarioFile } from '../scenario/load.js';
 import { formatIssue } from '../files/issue.js';
-import { runBench } from '../bench/run.js';
+import { DEFAULT_BENCH_TIME_ms, runBench } from '../bench/run.js';
 import { renderBenchTable } from '../bench/table.js';
 import type { BenchReport } from '../bench/types.js';
 import { benchSuite, renderSuiteBench } from './benchSuite.js';
@@ -25,6 +25,8 @@ export interface BenchCommandArgs {
   suiteRuns?: number;
   /** Folder specs and files are relative to (default process.cwd()). */
   cwd?: string;
+  /** Also measure the speed targets (bench/targets.ts) and print them with their verdicts. */
+  targets?: boolean;
 }
 
 export interface BenchCommandOutcome extends CommandOutcome {
@@ -62,6 +64,11 @@ export async function runBenchCommand(args: BenchCommandArgs): Promise<BenchComm
     return { exitCode: EXIT.badInput, lines: [...lines, `footing bench: ${error instanceof Error ? error.message : String(error)}`] };
   }
   lines.push(...renderBenchTable(report));
+  if (args.targets) {
+    const { measureTargets, renderTargets } = await import('../bench/targets.js');
+    const budget = { time_ms: args.time_ms ?? DEFAULT_BENCH_TIME_ms, iterations: 16 };
+    lines.push(...renderTargets(await measureTargets(loaded.scenarios[0], report, budget, (line) => console.error(line))));
+  }
   if (args.json) {
     const file = path.resolve(cwd, args.json);
     try {

@@ -1,0 +1,145 @@
+// The speed targets of the harness as figures, each beside its target and whether it is met
+// (`footing bench --targets`; docs/bench.md, "Targets"). Start-up figures are whole-process
+// timings of `node bin/footing.js …` (the median and range of a few repeats: the first pays the
+// file cache); the in-process figures reuse the bench's own measurements.
+
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { STANCE } from '../contract/tick.js';
+import type { OpenedBuild } from '../builds/opened.js';
+import { Plant } from '../plant/plant.js';
+import type { Patch } from '../plant/types.js';
+import { runEpisode } from '../run/episode.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import { measureTask, type TaskBudget } from './batch.js';
+import { benchPlant, ticksOf } from './measure.js';
+import type { BenchReport } from './types.js';
+
+const ROOT = fileURLToPath(new URL('../../', import.meta.url));
+const CLI = path.join(ROOT, 'bin', 'footing.js');
+
+export interface TargetFigure {
+  figure: string;
+  measured: string;
+  target: string;
+  met: boolean;
+}
+
+/** Wall seconds of `node bin/footing.js args` (exit code checked), median and range over `repeats`. */
+export function processWall_s(args: readonly string[], repeats: number): { median: number; min: number; max: number } {
+  const times: number[] = [];
+  for (let k = 0; k < repeats; k++) {
+    const start = performance.now();
+    const child = spawnSync(process.execPath, [CLI, ...args], { cwd: ROOT, stdio: 'ignore' });
+    if (child.status !== 0) throw new Error(`footing ${args.join(' ')} exited ${child.status}`);
+    times.push((performance.now() - start) / 1000);
+  }
+  times.sort((a, b) => a - b);
+  return { median: times[Math.floor(times.length / 2)], min: times[0], max: times[times.length - 1] };
+}
+
+/**
+ * `count` rectangles of the floor's own material scattered over 40 m × 10 m around the robot
+ * (an invented demo layout): the physics is the uniform floor's, only the lookup has work.
+ */
+export function scatteredPatches(scenario: ResolvedScenario, count: number): ResolvedScenario {
+  const friction = scenario.plant.ground.friction;
+  const patches: Patch[] = [];
+  for (let p = 0; p < count; p++) {
+    const x = -20 + ((p * 7919) % 4000) / 100;
+    const y = -5 + ((p * 104729) % 1000) / 100;
+    patches.push({ name: `tile-${p}`, shape: { kind: 'rect', min_m: [x, y], max_m: [x + 0.3, y + 0.3] }, material: friction.default });
+  }
+  return { ...scenario, plant: { ...scenario.plant, ground: { ...scenario.plant.ground, friction: { ...friction, patches } } } };
+}
+
+/**
+ * The harness's own cost per tick: a whole episode (sensing, command schedule, build call,
+ * scorer, finite-action check) with a build that answers instantly — every foot in stance
+ * carrying a quarter of the weight, as in the plant bench — minus the plant's substeps.
+ */
+export async function harnessOverheadPerTick_us(scenario: ResolvedScenario, budget: TaskBudget): Promise<{ overhead_us: number; plant_us: number }> {
+  const probe = new Plant(scenario.plant);
+  const n = probe.footCount;
+  const share_kg = scenario.plant.robot.trunk.mass_kg / n;
+  const standing: OpenedBuild = {
+    name: 'standing',
+    kind: 'module',
+    telemetryNames: [],
+    loopTime_us: 0,
+    reportedCompute_us: Number.NaN,
+    about: '',
+    tick(_obs, action) {
+      for (let i = 0; i < n; i++) {
+        action.mode[i] = STANCE;
+        for (let a = 0; a < 3; a++) action.groundForce_N[3 * i + a] = -share_kg * probe.gravity_mps2[a];
+      }
+    },
+    close: async () => undefined,
+  };
+  const { substeps } = ticksOf(scenario);
+  let ticks = 1;
+  const episode = await measureTask('episode.standing', async () => {
+    const outcome = await runEpisode(scenario, standing);
+    ticks = Math.max(1, Math.round(outcome.scored.sim.duration_s * scenario.control.rate_Hz));
+  }, 1, { ...budget, iterations: 4 });
+  const plant = await benchPlant(scenario, budget);
+  const tick_us = episode.mean_us / ticks;
+  const plant_us = plant.steps.mean_us * substeps;
+  return { overhead_us: tick_us - plant_us, plant_us };
+}
+
+export async function measureTargets(scenario: ResolvedScenario, report: BenchReport, budget: TaskBudget, log: (line: string) => void): Promise<TargetFigure[]> {
+  const rows: TargetFigure[] = [];
+  const range = (r: { median: number; min: number; max: number }) => `${r.median.toFixed(2)} s (${r.min.toFixed(2)}–${r.max.toFixed(2)})`;
+  const out = mkdtempSync(path.join(tmpdir(), 'footing-targets-'));
+  try {
+    log('bench targets: whole-process timings');
+    const help = processWall_s(['--help'], 5);
+    rows.push({ figure: '`footing --help`', measured: range(help), target: '≤ 0.3 s', met: help.median <= 0.3 });
+    const check = processWall_s(['check', 'scenarios'], 5);
+    rows.push({ figure: '`footing check scenarios` (bundled)', measured: range(check), target: '≤ 0.6 s', met: check.median <= 0.6 });
+    const one = processWall_s(['run', 'scenarios/dry-baseline-walk.yaml', '--build', 'ref:governed', '--out', out, '--quiet'], 3);
+    rows.push({ figure: 'one run of the dry walk, wall', measured: range(one), target: '≤ 1.0 s', met: one.median <= 1.0 });
+    const suite = processWall_s(['run', '--baseline', 'governed', '--exit-zero', '--out', out, '--quiet'], 1);
+    rows.push({ figure: '`npm start` (bundled suite × 4 builds)', measured: `${suite.median.toFixed(1)} s`, target: '≤ 6 s', met: suite.median <= 6 });
+  } finally {
+    rmSync(out, { recursive: true, force: true });
+  }
+
+  log('bench targets: harness overhead per tick');
+  const overhead = await harnessOverheadPerTick_us(scenario, budget);
+  rows.push({
+    figure: 'harness overhead per tick (no-op controller)',
+    measured: `${overhead.overhead_us.toFixed(1)} µs vs plant ${overhead.plant_us.toFixed(1)} µs`,
+    target: '≤ plant',
+    met: overhead.overhead_us <= overhead.plant_us,
+  });
+
+  const governed = report.builds.find((b) => b.spec === 'ref:governed');
+  if (governed) {
+    rows.push({ figure: 'closed loop, plant + governed, steady', measured: `${governed.realTimeFactor.toFixed(0)}×`, target: '≥ 200×', met: governed.realTimeFactor >= 200 });
+  }
+
+  log('bench targets: 1000 patches vs uniform floor');
+  const patched = await benchPlant(scatteredPatches(scenario, 1000), budget);
+  // Medians: on a shared machine a mean carries other processes' bursts into the ratio.
+  const ratio = patched.steps.p50_us / report.plant.steps.p50_us;
+  rows.push({ figure: '1000 patches vs uniform floor (plant step p50)', measured: `${ratio.toFixed(2)}×`, target: '≤ 1.2×', met: ratio <= 1.2 });
+
+  const python = report.builds.find((b) => b.protocolOverhead !== undefined);
+  if (python?.protocolOverhead) {
+    const p50 = python.protocolOverhead.p50_us;
+    rows.push({ figure: `protocol overhead p50 (${python.name})`, measured: `${p50.toFixed(1)} µs`, target: '≤ 30 µs', met: p50 <= 30 });
+  }
+  return rows;
+}
+
+export function renderTargets(rows: readonly TargetFigure[]): string[] {
+  const lines = ['', 'targets (whole-process timings: median (min–max); in-process: bench means)', '| figure | measured | target | met |', '| --- | --- | --- | --- |'];
+  for (const row of rows) lines.push(`| ${row.figure} | ${row.measured} | ${row.target} | ${row.met ? 'yes' : 'no'} |`);
+  return lines;
+}
