@@ -5,7 +5,7 @@
 
 import yargs, { type Argv } from 'yargs';
 import { EXIT, type ExitCode } from '../commands/exit.js';
-import { MARGIN_COMMAND_DEFAULTS } from '../margin/defaults.js';
+import { MARGIN_COMMAND_DEFAULTS } from '../commands/marginDefaults.js';
 import type { CommandOutcome } from '../commands/skeleton.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR, DEFAULT_SCENARIO_PATHS } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';

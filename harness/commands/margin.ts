@@ -20,7 +20,7 @@ import { EXIT, exitCodeOfRuns } from './exit.js';
 import { OUTPUT_FILES, writeOutputs } from './outputs.js';
 import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
 
-export { MARGIN_COMMAND_DEFAULTS } from '../margin/defaults.js';
+export { MARGIN_COMMAND_DEFAULTS } from './marginDefaults.js';
 
 export interface MarginRunOptions extends SuiteCommandOptions {
   builds: string[];

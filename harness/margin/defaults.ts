@@ -1,4 +1,5 @@
-// The margin search's defaults, apart from the search so the CLI can show them without loading it.
+// The margin search's defaults, apart from the search so `footing margin --help` can show them
+// without loading it.
 
 /**
  * Search settings, the one place these defaults live. Tolerance 0.01 of the scenario's own
@@ -13,6 +14,3 @@ export const MARGIN_DEFAULTS = Object.freeze({
   pushRange: [0, 3] as readonly [number, number],
   checks: 2,
 });
-
-/** What `footing margin` uses when not told otherwise. */
-export const MARGIN_COMMAND_DEFAULTS = Object.freeze({ out: 'reports/out/margin', tolerance: MARGIN_DEFAULTS.tolerance });
