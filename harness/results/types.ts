@@ -45,8 +45,11 @@ export interface RunResult {
   /** Human sentences, one per broken acceptance check (or the error message). */
   reasons: string[];
   error?: RunError;
-  /** Null only for an error run that produced no ticks. */
-  sim: SimMetrics | null;
+  /**
+   * Null only for an error run that produced no ticks. `realTimeFactor` is the whole run's (cold:
+   * it includes the JIT's warm-up); `steadyRealTimeFactor` the later half's (run/steadyClock.ts).
+   */
+  sim: (SimMetrics & { steadyRealTimeFactor?: number | null }) | null;
   metrics: ScoreMetrics | null;
   /** Trace CSV path relative to the results folder, with --trace. */
   trace?: string;

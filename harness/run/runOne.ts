@@ -11,6 +11,7 @@ import { createSeriesRecorder } from '../score/series/recorder.js';
 import { writeSeriesFile } from '../score/series/file.js';
 import type { TickObserver } from '../score/sample.js';
 import { describeError, runEpisode } from './episode.js';
+import { createSteadyClock } from './steadyClock.js';
 import { createErrorRunResult, createRunResult } from '../results/runResult.js';
 import { createTraceWriter, tracePath, type TraceWriter } from '../results/trace.js';
 import type { RunResult } from '../results/types.js';
@@ -59,7 +60,8 @@ export async function runOne(task: RunTask, extraObservers: TickObserver[] = [])
   let traceRelative: string | undefined;
   // Plot series for the report, for every run (traces are optional, the report is not).
   const recorder = createSeriesRecorder(scenario, spec.name);
-  const observers: TickObserver[] = [...extraObservers, recorder];
+  const steady = createSteadyClock(scenario.duration_s);
+  const observers: TickObserver[] = [...extraObservers, recorder, steady];
   try {
     const outcome = await runEpisode(scenario, build, {
       observers,
@@ -76,8 +78,12 @@ export async function runOne(task: RunTask, extraObservers: TickObserver[] = [])
     trace?.close();
     saveSeries(task.outDir, recorder.finish());
     const options = traceRelative ? { trace: traceRelative } : {};
-    if (outcome.error) return createErrorRunResult(scenario, spec.name, outcome.error, outcome.scored, options);
-    return createRunResult(scenario, spec.name, outcome.scored, options);
+    const result = outcome.error
+      ? createErrorRunResult(scenario, spec.name, outcome.error, outcome.scored, options)
+      : createRunResult(scenario, spec.name, outcome.scored, options);
+    // Beside the scorer's whole-run (cold) figure, the later half's (steady) one.
+    if (result.sim) result.sim = { ...result.sim, steadyRealTimeFactor: steady.realTimeFactor() };
+    return result;
   } catch (caught) {
     trace?.abort();
     return createErrorRunResult(scenario, spec.name, describeError(caught, 0));

@@ -21,7 +21,7 @@ const readResults = (dir: string) => JSON.parse(readFileSync(path.join(dir, 'res
 function deterministicPart(run: RunResult): unknown {
   const { metrics, sim, ...rest } = run;
   const { loopTime_us: _loop, ...scored } = (metrics ?? {}) as Record<string, unknown>;
-  const { wall_s: _wall, realTimeFactor: _rtf, ...simRest } = (sim ?? {}) as Record<string, unknown>;
+  const { wall_s: _wall, realTimeFactor: _rtf, steadyRealTimeFactor: _steady, ...simRest } = (sim ?? {}) as Record<string, unknown>;
   return { ...rest, scored, simRest };
 }
 

@@ -10,7 +10,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 /** Keys whose values are measured on the host, not computed by the simulation. */
-const HOST_KEYS = new Set(['startedAt', 'wall_s', 'realTimeFactor', 'loopTime_us', 'loopTime', 'machine', 'git', 'commit', 'dirty']);
+const HOST_KEYS = new Set(['startedAt', 'wall_s', 'realTimeFactor', 'steadyRealTimeFactor', 'loopTime_us', 'loopTime', 'machine', 'git', 'commit', 'dirty']);
 
 export function differences(before: unknown, after: unknown, at = ''): string[] {
   if (typeof before !== 'object' || before === null || typeof after !== 'object' || after === null) {
