@@ -14,7 +14,9 @@ import { familiesView, marginView, type FamilyView, type MarginView } from './ma
 import { metricCells, type MetricCell } from './matrix.js';
 import { floorDefinition, floorExtent, floorPlot, muLegend } from './plot/floor.js';
 import { buildSwatch, marginAxis, marginDots, slipAxis, slipDots } from './plot/overview.js';
-import { frictionUsePlot, governorAxisFlat, governorPlot, loopTimePlot, normalForcePlot, slipDistancePlot } from './plot/timeSeries.js';
+import { frictionUsePlot, governorAxisFlat, governorPlot, loopTimePlot, normalForcePlot, slipDistancePlot, telemetryPlot, timeClipDefinition, type TimeEvent } from './plot/timeSeries.js';
+import { rollUp, regressionGroups, type RegressionGroup, type RollUpRow } from './rollup.js';
+import { telemetryOf } from './telemetry.js';
 import { buildStyle, type BuildStyle } from './plot/palette.js';
 import { niceCeil } from './plot/scale.js';
 import { asSvg, label, type SvgMarkup } from './plot/svg.js';
@@ -67,6 +69,8 @@ export interface RunView {
   floor: SvgMarkup | null;
   floorCaption: string;
   governor: { axis: string; svg: SvgMarkup }[];
+  /** Named telemetry scalars by name prefix (when the series file carries them). */
+  telemetry: { prefix: string; plots: { name: string; svg: SvgMarkup }[] }[];
   /** Governor axes not plotted because target and applied stayed constant. */
   governorFlat: string;
   loopTime: SvgMarkup | null;
@@ -96,7 +100,10 @@ export interface ScenarioView {
   slipOverlay: SvgMarkup | null;
   overview: { margin: SvgMarkup; slip: SvgMarkup };
   hasGovernor: boolean;
+  hasTelemetry: boolean;
   duration: string;
+  /** Longest run, in ms (the zoom's range). */
+  tMax_ms: number;
 }
 
 export interface RegressionView {
@@ -119,7 +126,12 @@ export interface ReportModel {
   baseline: { name: string; explicit: boolean } | null;
   builds: BuildView[];
   totals: Record<RunStatus, number> & { runs: number };
+  /** One row per compared build (null without a gate). */
+  rollUp: (RollUpRow & { swatch: SvgMarkup; buildIndex: number })[] | null;
+  /** The build with the most new failures (ties: the first in pair order); null when none. */
+  mostNewFailures: string | null;
   gate: {
+    groups: RegressionGroup[];
     present: boolean;
     verdict: string;
     headline: string;
@@ -133,6 +145,7 @@ export interface ReportModel {
   };
   scenarios: ScenarioView[];
   overviewAxes: { margin: SvgMarkup; slip: SvgMarkup };
+  timeClip: SvgMarkup;
   bench: BenchView;
   /** Present only when some run carries a margin search (`footing margin`). */
   margin: MarginView | null;
@@ -165,7 +178,7 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     const runs = results.runs.filter((r) => r.build === name);
     const counts = { pass: 0, fail: 0, error: 0 };
     for (const r of runs) counts[r.status]++;
-    const style = buildStyle(index);
+    const style = buildStyle(name, name === baselineName);
     return {
       name,
       index,
@@ -220,8 +233,15 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
       reason: r.reason ?? '',
     }));
 
+  const anchorOfRun = (run: RunResult) => anchorByKey.get(`${run.scenario.id}\u0000${run.scenario.hash}`) ?? '';
+  const rolled = gate ? rollUp(gate, results.runs, anchorOfRun) : null;
+  let most: RollUpRow | null = null;
+  for (const row of rolled ?? []) if (row.newFailures > 0 && (!most || row.newFailures > most.newFailures)) most = row;
+
   const machine = results.machine;
   return {
+    rollUp: rolled?.map((r) => ({ ...r, swatch: buildSwatch(buildStyle(r.build, r.build === baselineName)), buildIndex: buildIndex.get(r.build) ?? 0 })) ?? null,
+    mostNewFailures: most?.build ?? null,
     title: `Footing report — ${results.runs.length} runs, ${buildNames.length} build${buildNames.length === 1 ? '' : 's'}`,
     generatedAt: (options.generatedAt ?? new Date()).toISOString(),
     results: {
@@ -233,6 +253,7 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     builds,
     totals,
     gate: {
+      groups: regressionGroups(gate, titles, anchors),
       present: gate !== null,
       verdict: gate ? gate.verdict : 'none',
       headline: gate
@@ -250,9 +271,10 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     },
     scenarios,
     overviewAxes: { margin: marginAxis(), slip: slipAxis() },
+    timeClip: timeClipDefinition(),
     bench: benchView(options.bench),
-    margin: marginView(results, buildNames, (run) => anchorByKey.get(`${run.scenario.id}\u0000${run.scenario.hash}`) ?? ''),
-    families: familiesView(results, buildNames),
+    margin: marginView(results, buildNames, anchorOfRun, baselineName),
+    families: familiesView(results, buildNames, baselineName),
     provenance: {
       scenarios: scenarios.map((s) => ({ id: s.id, title: s.title, revision: s.revision, hash: s.hash, file: s.file, anchor: s.anchor })),
       traces,
@@ -293,10 +315,11 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     const traceHref = traceLink(run, ctx);
     if (traceHref) ctx.traces.push({ href: traceHref, name: `${ref.id} × ${run.build}` });
     const overBudget = series ? loopOver(series) : 0;
+    const events = series ? runEvents(run, series) : [];
     return {
       build: run.build,
       buildIndex: b,
-      swatch: buildSwatch(buildStyle(b)),
+      swatch: buildSwatch(buildStyle(run.build, run.build === ctx.baselineName)),
       status: run.status,
       glyph: STATUS_GLYPH[run.status],
       reasons: run.reasons,
@@ -305,15 +328,16 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
         : null,
       hasSeries: series !== null,
       seriesProblem: lookup.series === null ? (run.metrics === null ? 'the run ended before its first tick' : lookup.problem) : null,
-      frictionUse: series ? frictionUsePlot(series, tMax_s) : null,
-      normalForce: series ? normalForcePlot(series, tMax_s, forceMax_N) : null,
+      frictionUse: series ? frictionUsePlot(series, tMax_s, events) : null,
+      normalForce: series ? normalForcePlot(series, tMax_s, forceMax_N, events) : null,
       floor: floor?.svg ?? null,
       floorCaption: floor
         ? `${series?.footholds.length ?? 0} footholds${series && series.dropped.footholds > 0 ? ` (+${series.dropped.footholds} not stored)` : ''}, ` +
           `${floor.slipsTotal} slip segment${floor.slipsTotal === 1 ? '' : 's'}${floor.slipsTotal > floor.slipsDrawn ? ` (${floor.slipsDrawn} longest drawn)` : ''}` +
           (floor.longest ? `; longest ${label(floor.longest.distance_m * 1000, 1)} mm (foot ${floor.longest.foot}, ${label(floor.longest.start_s, 2)} s, ringed)` : '')
         : '',
-      governor: series ? series.governor.flatMap((g, k) => (governorAxisFlat(series, k) ? [] : [{ axis: g.axis, svg: governorPlot(series, k, tMax_s) }])) : [],
+      governor: series ? series.governor.flatMap((g, k) => (governorAxisFlat(series, k) ? [] : [{ axis: g.axis, svg: governorPlot(series, k, tMax_s, events) }])) : [],
+      telemetry: series ? telemetryOf(series).map((g) => ({ prefix: g.prefix, plots: g.scalars.map((t) => ({ name: t.name, svg: telemetryPlot(series, t.name, t.values, tMax_s, events) })) })) : [],
       governorFlat: series ? series.governor.filter((_, k) => governorAxisFlat(series, k)).map((g) => g.axis).join(', ') : '',
       loopTime: series && series.loopTime.ticks > 0 ? loopTimePlot(series) : null,
       loopCaption: series ? `${series.loopTime.ticks} ticks, ${overBudget} over the ${label(series.loopTime.budget_us, 0)} µs budget` : '',
@@ -323,9 +347,13 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     };
   });
   const byBuild = new Map(views.map((v) => [v.build, v]));
-  const styled = withSeries.map(({ run, series }) => ({ series, style: buildStyle(ctx.buildIndex.get(run.build) ?? 0) }));
+  const styled = withSeries.map(({ run, series }) => ({ series, build: run.build, style: buildStyle(run.build, run.build === ctx.baselineName) }));
+  // One lane per build of the suite (in build order), so every scenario row lines builds up alike.
   const dots = (value: (r: RunResult) => number | null) =>
-    runs.map((r) => ({ value: r.metrics ? value(r) : null, style: buildStyle(ctx.buildIndex.get(r.build) ?? 0) }));
+    ctx.buildNames.map((name) => {
+      const r = runs.find((run) => run.build === name);
+      return { value: r?.metrics ? value(r) : null, style: buildStyle(name, name === ctx.baselineName), passed: r?.status === 'pass' };
+    });
   return {
     anchor,
     index,
@@ -342,11 +370,44 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     floorDefinition: friction ? floorDefinition(friction, definitionId) : null,
     muLegend: friction ? muLegend(materialMus(friction)) : null,
     materials: friction ? describeMaterials(friction) : [],
-    slipOverlay: styled.length > 0 ? slipDistancePlot(styled, tMax_s) : null,
+    slipOverlay: styled.length > 0 ? slipDistancePlot(styled, tMax_s, sharedEvents(loaded.map((l) => (l.lookup.series ? runEvents(l.run, l.lookup.series) : [])))) : null,
     overview: { margin: marginDots(dots((r) => r.metrics?.frictionMargin.min ?? null)), slip: slipDots(dots((r) => r.metrics?.slipDistance_m ?? null)) },
     hasGovernor: views.some((v) => v.governor.length > 0 || v.governorFlat !== ''),
+    hasTelemetry: views.some((v) => v.telemetry.length > 0),
+    tMax_ms: Math.round(tMax_s * 1000),
     duration: `${label(tMax_s, 2)} s`,
   };
+}
+
+/**
+ * Time-axis events of one run: its fall (from the scorer's fellAt_s), and pushes and command changes
+ * when the series file carries them (an optional `events` list of { t_s, kind, text }).
+ */
+function runEvents(run: RunResult, series: RunSeries): TimeEvent[] {
+  const out: TimeEvent[] = [];
+  const given = (series as RunSeries & { events?: unknown }).events;
+  if (Array.isArray(given)) {
+    for (const e of given as { t_s?: unknown; kind?: unknown; text?: unknown }[]) {
+      if (typeof e?.t_s !== 'number' || !Number.isFinite(e.t_s) || (e.kind !== 'push' && e.kind !== 'command')) continue;
+      out.push({ t_s: e.t_s, kind: e.kind, text: typeof e.text === 'string' ? e.text : e.kind });
+    }
+  }
+  const m = run.metrics;
+  if (m?.fell && typeof m.fellAt_s === 'number') out.push({ t_s: m.fellAt_s, kind: 'fall', text: `${run.build} fell` });
+  return out;
+}
+
+/** Events every build shares (the scenario's pushes and commands) plus each build's fall. */
+function sharedEvents(lists: TimeEvent[][]): TimeEvent[] {
+  const seen = new Set<string>();
+  const out: TimeEvent[] = [];
+  for (const list of lists) for (const e of list) {
+    const key = `${e.kind}\u0000${e.t_s}\u0000${e.text}`;
+    if (seen.has(key)) continue;
+    seen.add(key);
+    out.push(e);
+  }
+  return out;
 }
 
 function loopOver(series: RunSeries): number {
