@@ -127,6 +127,7 @@ describe.skipIf(!available)('report in headless chromium', () => {
 
   it('opens the linked scenario from the regression list (grouped by scenario, collapsed)', async () => {
     await page.locator('button[data-action="collapse"]').click();
+    await page.evaluate(() => document.querySelectorAll<HTMLDetailsElement>('details.reg-group').forEach((d) => (d.open = false)));
     expect(await page.locator('table.regressions').first().isVisible()).toBe(false);
     const link = page.locator('details.reg-group > summary a').first();
     const target = (await link.getAttribute('href'))?.slice(1) ?? '';
