@@ -22,6 +22,8 @@ import { niceCeil } from './plot/scale.js';
 import { asSvg, label, type SvgMarkup } from './plot/svg.js';
 import { readSeriesFor } from '../score/series/file.js';
 import type { RunSeries } from '../score/series/types.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import { scenarioEvents } from './events.js';
 
 export interface ReportOptions {
   /** Folder the report is written to (links are relative to it). */
@@ -38,6 +40,12 @@ export interface ReportOptions {
   sourceDirs?: string[];
   /** For reproducible output in tests. */
   generatedAt?: Date;
+  /**
+   * The resolved scenarios of the run (matched to runs by id and hash): their pushes and command
+   * changes are marked on the time axes and their robot's legNames label the feet. Optional: without
+   * them the plots say "foot i" and mark falls only.
+   */
+  scenarios?: readonly ResolvedScenario[];
 }
 
 const STATUS_GLYPH: Record<RunStatus, string> = { pass: '✓', fail: '✗', error: '!' };
@@ -210,7 +218,8 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     const anchor = `scenario-${index + 1}-${ref.id.replace(/[^A-Za-z0-9_-]/g, '-')}`;
     if (!anchors.has(ref.id)) anchors.set(ref.id, anchor);
     anchorByKey.set(`${ref.id}\u0000${ref.hash}`, anchor);
-    scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, outDir: options.outDir, traces }));
+    const resolved = options.scenarios?.find((s) => s.id === ref.id && s.hash === ref.hash) ?? null;
+    scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, outDir: options.outDir, traces, resolved }));
     index++;
   }
 
@@ -291,12 +300,20 @@ interface ScenarioContext {
   sourceDirs: string[];
   outDir: string;
   traces: { href: string; name: string }[];
+  resolved: ResolvedScenario | null;
 }
 
 function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: ScenarioContext): ScenarioView {
   const ref = runs[0].scenario;
   const baselineRun = runs.find((r) => r.build === ctx.baselineName) ?? null;
-  const loaded = runs.map((run) => ({ run, lookup: readSeriesFor(ctx.sourceDirs, ref.id, ref.hash, run.build) }));
+  const legNames = ctx.resolved?.plant.robot.legNames;
+  const fixed = ctx.resolved ? scenarioEvents(ctx.resolved) : [];
+  const loaded = runs.map((run) => {
+    const lookup = readSeriesFor(ctx.sourceDirs, ref.id, ref.hash, run.build);
+    // The robot's leg names travel with the series the plots read (footLabel in plot/timeSeries.ts).
+    if (lookup.series && legNames && legNames.length === lookup.series.footCount) lookup.series = { ...lookup.series, legNames } as RunSeries;
+    return { run, lookup };
+  });
   const withSeries = loaded.filter((l) => l.lookup.series !== null).map((l) => ({ run: l.run, series: l.lookup.series as RunSeries }));
   const tMax_s = Math.max(0.001, ...withSeries.map(({ series }) => series.t_s[series.t_s.length - 1] ?? 0));
   let forceMax = 0;
@@ -315,7 +332,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     const traceHref = traceLink(run, ctx);
     if (traceHref) ctx.traces.push({ href: traceHref, name: `${ref.id} × ${run.build}` });
     const overBudget = series ? loopOver(series) : 0;
-    const events = series ? runEvents(run, series) : [];
+    const events = series ? [...fixed, ...runEvents(run, series)] : [];
     return {
       build: run.build,
       buildIndex: b,
@@ -370,7 +387,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     floorDefinition: friction ? floorDefinition(friction, definitionId) : null,
     muLegend: friction ? muLegend(materialMus(friction)) : null,
     materials: friction ? describeMaterials(friction) : [],
-    slipOverlay: styled.length > 0 ? slipDistancePlot(styled, tMax_s, sharedEvents(loaded.map((l) => (l.lookup.series ? runEvents(l.run, l.lookup.series) : [])))) : null,
+    slipOverlay: styled.length > 0 ? slipDistancePlot(styled, tMax_s, sharedEvents([fixed, ...loaded.map((l) => (l.lookup.series ? runEvents(l.run, l.lookup.series) : []))])) : null,
     overview: { margin: marginDots(dots((r) => r.metrics?.frictionMargin.min ?? null)), slip: slipDots(dots((r) => r.metrics?.slipDistance_m ?? null)) },
     hasGovernor: views.some((v) => v.governor.length > 0 || v.governorFlat !== ''),
     hasTelemetry: views.some((v) => v.telemetry.length > 0),

@@ -189,6 +189,17 @@ describe.skipIf(!existsSync(CHROMIUM))('the bundled run in headless chromium', (
     expect(await plots.evaluateAll((svgs) => svgs.every((svg) => !svg.hasAttribute('data-window') && [...svg.querySelectorAll('g.tz')].every((g) => !g.hasAttribute('transform'))))).toBe(true);
   });
 
+  it('marks pushes, command changes and falls on the time plots, and names feet by the robot\'s legs', async () => {
+    const pushed = page.locator('details.scenario', { hasText: 'lateral-push-dry' }).first();
+    const plots = pushed.locator('svg.plot.friction-use');
+    expect(await plots.count()).toBe(DEFAULT_BUILDS.length);
+    for (const counts of await plots.evaluateAll((svgs) => svgs.map((s) => ({ push: s.querySelectorAll('path.event.push').length, legs: [...s.querySelectorAll('text.foot')].map((t) => t.textContent) })))) {
+      expect(counts).toEqual({ push: 4, legs: ['FL', 'FR', 'HL', 'HR'] });
+    }
+    const fell = results.runs.filter((r) => r.metrics?.fell).length;
+    expect(await page.locator('svg.plot.friction-use path.event.fall').count()).toBe(4 * fell);
+  });
+
   it('saves a plot as SVG and its series as CSV matching what is plotted', async () => {
     const section = page.locator('details.scenario').nth(1);
     await section.evaluate((d) => ((d as HTMLDetailsElement).open = true));

@@ -60,8 +60,18 @@ describe('report from a small real run', () => {
     expect(html).toContain(escaped('<img src=x onerror=alert(3)>'));
     expect(html).not.toContain(HOSTILE_STDERR);
     expect(html).toContain(escaped(HOSTILE_STDERR));
+    // The robot file's leg names (fixtures/hostile/robots) label the plots as text, in SVG too.
+    expect(html).not.toContain('<svg onload');
+    expect(html).toContain('&lt;svg onload=alert(6)&gt;');
     // Our one inline script is the only script element.
     expect(html.match(/<script/g)).toHaveLength(1);
+  });
+
+  it('labels feet by the robot file\'s leg names', () => {
+    const start = html.indexOf('id="scenario-2-shaped-floor"');
+    const section = html.slice(start, html.indexOf('id="bench"', start));
+    for (const leg of ['FL', 'FR', 'HL', 'HR']) expect(section).toContain(`class="foot">${leg}<`);
+    expect(html).not.toContain('class="foot">foot 0<');
   });
 
   it('draws the shaped floor: raster cells, a rectangle, a circle and a polygon patch', () => {
