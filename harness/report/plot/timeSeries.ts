@@ -101,9 +101,15 @@ const EVENT_STYLE: Record<TimeEvent['kind'], string> = {
   fall: `stroke="${SLIP_COLOUR}" stroke-width="2" stroke-dasharray="1 1.5"`,
 };
 
-function eventMarks(events: readonly TimeEvent[], scale: Scale, top: number, bottom: number): string {
+/** Vertical event lines; the hover title only where asked (the first strip of a plot), to keep pages small. */
+function eventMarks(events: readonly TimeEvent[], scale: Scale, top: number, bottom: number, titled = true): string {
   let out = '';
-  for (const e of events) out += `<path class="event ${e.kind}" d="M${num(scale(e.t_s))} ${num(top)}V${num(bottom)}" ${EVENT_STYLE[e.kind]}><title>${escapeXml(`${e.text} at ${label(e.t_s, 2)} s`)}</title></path>`;
+  for (const e of events) {
+    const d = `M${num(scale(e.t_s))} ${num(top)}V${num(bottom)}`;
+    out += titled
+      ? `<path class="event ${e.kind}" d="${d}" ${EVENT_STYLE[e.kind]}><title>${escapeXml(`${e.text} at ${label(e.t_s, 2)} s`)}</title></path>`
+      : `<path class="event ${e.kind}" d="${d}" ${EVENT_STYLE[e.kind]}/>`;
+  }
   return out;
 }
 
@@ -168,7 +174,7 @@ function footStrips(
       `<path class="stance" d="${stance}" fill="${STANCE_SHADE}" fill-opacity="0.8"/>` +
       seriesPath('', name(i), envelopePath(grid.x, merged.min.map(clamp), merged.max.map(clamp)), bottom, top, lo, hi, ` fill="none" stroke="${INK}" stroke-width="1.1" stroke-linejoin="round"`) +
       (slip ? `<path class="slip" d="${slip}" fill="${SLIP_COLOUR}"/>` : '') +
-      eventMarks(events, grid.scale, top, bottom) +
+      eventMarks(events, grid.scale, top, bottom, i === 0) +
       zoomClose;
   }
   out += timeAxis(grid.scale, tMax_s, height - 14) + '</svg>';
