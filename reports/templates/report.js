@@ -91,6 +91,8 @@
         if (full) group.removeAttribute('transform');
         else group.setAttribute('transform', 'matrix(' + k.toFixed(6) + ' 0 0 1 ' + c.toFixed(3) + ' 0)');
       });
+      // End markers sit at each run's end, outside the zoomed group: shown for the full run only.
+      Array.prototype.forEach.call(svg.querySelectorAll('g.ends'), function (ends) { ends.style.display = full ? '' : 'none'; });
       if (full) svg.removeAttribute('data-window');
       else svg.setAttribute('data-window', lo.toFixed(4) + ' ' + hi.toFixed(4));
       drawTicks(svg, g, lo, hi);
