@@ -1,7 +1,8 @@
 // The scenario's moments the report marks on its time axes, read from the resolved scenario.
 import { describe, expect, it } from 'vitest';
 import { scenarioEvents } from '../../harness/report/events.js';
-import { loadScenarioFile } from '../../harness/scenario/load.js';
+import { readFileSync } from 'node:fs';
+import { loadRobotText, loadScenarioFile } from '../../harness/scenario/load.js';
 
 async function load(file: string) {
   const loaded = await loadScenarioFile(file);
@@ -25,5 +26,14 @@ describe('scenario events on the time axes', () => {
   it('carries the robot file\'s leg names in hips_m order', async () => {
     const scenario = await load('scenarios/lateral-push-dry.yaml');
     expect(scenario.plant.robot.legNames).toEqual(['FL', 'FR', 'HL', 'HR']);
+  });
+
+  it('refuses leg names that do not match the hips one to one, naming the file and path', () => {
+    const text = readFileSync('scenarios/robots/quad-24kg.yaml', 'utf8').replace('legNames: [FL, FR, HL, HR]', 'legNames: [FL, FR, HL]');
+    const loaded = loadRobotText(text, 'scenarios/robots/three-names.yaml');
+    expect(loaded.ok).toBe(false);
+    const message = loaded.ok ? '' : loaded.errors.map((e) => `${e.file} ${e.path}: ${e.message}`).join('\n');
+    expect(message).toContain('three-names.yaml');
+    expect(message).toMatch(/\/legNames: gives 3 leg names for 4 hips/);
   });
 });
