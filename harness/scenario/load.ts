@@ -2,6 +2,7 @@
 // migrate → expand the matrix → schema → physical checks → inline referenced files → defaults →
 // hash. Every problem becomes a ScenarioIssue with file, line, column and path; nothing throws.
 
+import { createHash } from 'node:crypto';
 import { readFile as fsReadFile, realpath } from 'node:fs/promises';
 import path from 'node:path';
 import { closest } from 'fastest-levenshtein';
@@ -287,6 +288,8 @@ async function loadInstance(data: Record<string, unknown>, ctx: Context, locate:
     }
   }
 
+  await checkRecorded(rec(data.recorded), ctx, errors, locate);
+
   if (blocked || errors.length || !robot) {
     if (!blocked && errors.length === 0) errors.push(locate({ path: '/robot', message: 'no usable robot (expected a robot file path or an inline robot)' }));
     return { errors, warnings };
@@ -301,6 +304,17 @@ async function loadInstance(data: Record<string, unknown>, ctx: Context, locate:
     return { errors, warnings, scenario, family: expanded.scenarios };
   }
   return { errors, warnings, scenario };
+}
+
+/** An imported scenario's recorded trajectory must exist and still have the sha256 the file names. */
+async function checkRecorded(recorded: Record<string, unknown> | undefined, ctx: Context, errors: ScenarioIssue[], locate: (f: Finding) => ScenarioIssue): Promise<void> {
+  if (!recorded || typeof recorded.trajectory !== 'string' || typeof recorded.sha256 !== 'string') return;
+  const text = await readReference(recorded.trajectory, ctx, '/recorded/trajectory', 'recorded trajectory', errors, locate);
+  if (text === undefined) return;
+  const actual = createHash('sha256').update(text.content).digest('hex');
+  if (actual !== recorded.sha256) {
+    errors.push(locate({ path: '/recorded/sha256', message: `recorded trajectory ${text.display} has sha256 ${actual}, not the ${recorded.sha256} this scenario was imported with (the recording changed: re-import it, expected the file as written by footing import)` }));
+  }
 }
 
 async function readReference(
