@@ -14,6 +14,8 @@ import { clearCache, printConfig, runConfiguredSuite } from '../config/commands.
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
 import { TOOL_VERSION } from '../version.js';
+import { importCommand, replayCommand } from '../recorded/commands.js';
+import { statSync } from 'node:fs';
 
 /** What `footing run` replays when neither --build nor footing.config.yaml names builds. */
 export { DEFAULT_BUILDS, DEFAULT_OUT_DIR };
@@ -220,7 +222,44 @@ export async function main(argv: string[]): Promise<number> {
         exitCode = outcome.exitCode;
       },
     )
-    .demandCommand(1, 'name a command: run, check, gate, merge, report, margin, bench, config, cache (footing --help lists them)')
+    // --- recorded runs (harness/recorded): import a robot log, replay it ---
+    .command(
+      'import <log>',
+      'turn a robot log (CSV or MCAP) into a scenario: commands, push, identified friction, recorded trajectory',
+      (y: Argv) =>
+        y
+          .positional('log', { type: 'string', demandOption: true, describe: 'log file (.csv or .mcap)' })
+          .option('map', { type: 'string', demandOption: true, describe: 'log map file (format footing-log-map, docs/recorded.md)' })
+          .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'folder for the scenario and its files' })
+          .option('id', { type: 'string', describe: "scenario id (default: the map's, else the log's name)" }),
+      async (args) => {
+        let logBytes = 0;
+        try {
+          logBytes = statSync(args.log as string).size;
+        } catch {
+          // Reported by the import.
+        }
+        const outcome = await importCommand({ log: args.log as string, map: args.map as string, out: args.out as string, id: args.id as string | undefined, progress: process.stderr.isTTY === true, logBytes });
+        for (const line of outcome.lines) (outcome.exitCode === 0 ? print : printError)(line);
+        exitCode = outcome.exitCode;
+      },
+    )
+    .command(
+      'replay <scenario>',
+      'run a build on an imported scenario and score how closely it reproduces the recording (fidelity.json)',
+      (y: Argv) =>
+        y
+          .positional('scenario', { type: 'string', demandOption: true, describe: 'scenario written by footing import' })
+          .option('build', { alias: 'b', type: 'string', demandOption: true, describe: 'build spec (as for run)' })
+          .option('out', { alias: 'o', type: 'string', default: 'reports/out/replay', describe: 'folder for fidelity.json' }),
+      async (args) => {
+        const outcome = await replayCommand({ scenario: args.scenario as string, build: args.build as string, out: args.out as string });
+        for (const line of outcome.lines) (outcome.exitCode === 2 ? printError : print)(line);
+        exitCode = outcome.exitCode;
+      },
+    )
+    // --- end recorded runs ---
+    .demandCommand(1, 'name a command: run, check, gate, merge, report, margin, bench, config, cache, import, replay (footing --help lists them)')
     .strict()
     .version(TOOL_VERSION)
     .help()
