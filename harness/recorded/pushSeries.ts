@@ -2,8 +2,9 @@
 // has none — the residual of Newton's law on the whole robot, f_ext = M·a − Σ f_feet − M·g.
 // Residual assumptions (stated in docs/recorded.md): legs massless and feet light, so the trunk's
 // acceleration stands for the whole robot's centre of mass; foot forces are the ground's forces
-// on the feet; the trunk velocity is the centre of mass's. Samples whose force stays within four
-// noise standard deviations of zero are no push (P(|n| > 4σ) ≈ 6e-5 per component, Gaussian);
+// on the feet; the trunk velocity is the centre of mass's. Samples whose force magnitude stays
+// within five noise standard deviations of zero are no push (|n| of 3-D Gaussian noise is
+// chi-distributed with 3 degrees of freedom: P(|n| > 5σ) ≈ 1.5e-5, from memory);
 // the series keeps only the points needed to stay within one σ of the samples (Ramer–Douglas–
 // Peucker on each component), so a 1 kHz log does not become a 1 kHz series file.
 
@@ -69,7 +70,7 @@ export function estimatePushes(tr: Trajectory, robot: RobotParams, pushNoise_N: 
     for (let k = 0; k < tr.count; k++) magnitudes[k] = force[3 * k + 1];
     sigma = Math.max(sigma, robustSigma(magnitudes));
   }
-  const threshold_N = Math.max(MIN_THRESHOLD_N, 4 * sigma);
+  const threshold_N = Math.max(MIN_THRESHOLD_N, 5 * sigma);
   const above = (k: number) => Math.hypot(force[3 * k], force[3 * k + 1], force[3 * k + 2]) > threshold_N;
 
   const keep = new Uint8Array(tr.count);
