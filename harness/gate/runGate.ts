@@ -9,6 +9,7 @@ import { gate } from './gate.js';
 import { loadPolicy, PolicyError } from './policy.js';
 import { renderGateMarkdown, renderGateText } from './render.js';
 import { GateInputError } from './types.js';
+import { describeDivergence, gateDivergences, renderDivergenceMarkdown } from '../recorded/divergence.js';
 
 export const GATE_EXIT = { hold: 0, block: 1, badInput: 2 } as const;
 export const GATE_REPORT_NAME = 'gate.md';
@@ -62,9 +63,13 @@ export async function runGate(args: RunGateArgs): Promise<RunGateResult> {
     }
     text = renderGateText(outcome);
     exitCode = outcome.verdict === 'block' ? GATE_EXIT.block : GATE_EXIT.hold;
+    // --- first divergence of the traces (harness/recorded/divergence.ts) ---
+    const divergences = gateDivergences(baseline, candidate, outcome.buildPairs);
+    for (const d of divergences) if (!d.unavailable) text += `\nfirst divergence: ${d.scenario} (${d.baselineBuild} → ${d.candidateBuild}): ${describeDivergence(d)}`;
+    // --- end first divergence ---
     if (args.out !== undefined) {
       const file = join(args.out, GATE_REPORT_NAME);
-      writeFileAtomicSync(file, renderGateMarkdown(outcome));
+      writeFileAtomicSync(file, renderGateMarkdown(outcome) + renderDivergenceMarkdown(divergences));
       text += `\nwrote ${file}`;
     }
   } catch (error) {
