@@ -91,45 +91,53 @@ interface Fit {
   stribeck: number;
 }
 
-/** Least-squares Stribeck fit of ratio against speed; null when the samples cannot support one. */
-function fitStribeck(samples: SlideSample[], exponent: number): Fit | null {
-  let best: Fit | null = null;
-  let bestError = Number.POSITIVE_INFINITY;
-  const m = samples.length;
-  for (const vs of STRIBECK_GRID_mps) {
-    let se = 0;
-    let see = 0;
-    let sr = 0;
-    let ser = 0;
-    for (const s of samples) {
-      const e = Math.exp(-Math.pow(s.speed / vs, exponent));
-      se += e;
-      see += e * e;
-      sr += s.ratio;
-      ser += e * s.ratio;
+/**
+ * Sums the least-squares fit needs, per Stribeck-grid value: Σ1, Σe, Σe², Σr, Σe·r, Σr² with
+ * e = exp(−(v/v_s)^α). Kept per slide event, so a bootstrap resample adds event sums instead of
+ * revisiting samples (an hour-long log has hundreds of thousands of sliding samples).
+ */
+function eventSums(samples: SlideSample[], exponent: number): Float64Array {
+  const g = STRIBECK_GRID_mps.length;
+  const sums = new Float64Array(6 * g);
+  for (const s of samples) {
+    for (let k = 0; k < g; k++) {
+      const e = Math.exp(-Math.pow(s.speed / STRIBECK_GRID_mps[k], exponent));
+      const o = 6 * k;
+      sums[o] += 1;
+      sums[o + 1] += e;
+      sums[o + 2] += e * e;
+      sums[o + 3] += s.ratio;
+      sums[o + 4] += e * s.ratio;
+      sums[o + 5] += s.ratio * s.ratio;
     }
+  }
+  return sums;
+}
+
+/** Least-squares Stribeck fit from summed statistics (μk ≥ 0 free, μs − μk ≥ 0). */
+function fitFromSums(sums: Float64Array): Fit {
+  let best: Fit = { kinetic: 0, staticFriction: 0, stribeck: STRIBECK_GRID_mps[0] };
+  let bestError = Number.POSITIVE_INFINITY;
+  for (let k = 0; k < STRIBECK_GRID_mps.length; k++) {
+    const o = 6 * k;
+    const m = sums[o];
+    const se = sums[o + 1];
+    const see = sums[o + 2];
+    const sr = sums[o + 3];
+    const ser = sums[o + 4];
+    const srr = sums[o + 5];
     const det = m * see - se * se;
-    let kinetic: number;
-    let excess: number;
-    if (det > 1e-12 * m * m) {
-      excess = (m * ser - se * sr) / det;
-      kinetic = (sr - excess * se) / m;
-      if (excess < 0) {
-        excess = 0;
-        kinetic = sr / m;
-      }
-    } else {
+    let excess = det > 1e-12 * m * m ? (m * ser - se * sr) / det : 0;
+    let kinetic = (sr - excess * se) / m;
+    if (excess < 0) {
       excess = 0;
       kinetic = sr / m;
     }
-    let error = 0;
-    for (const s of samples) {
-      const r = kinetic + excess * Math.exp(-Math.pow(s.speed / vs, exponent)) - s.ratio;
-      error += r * r;
-    }
-    if (error < bestError - 1e-15) {
+    // Σ(μk + Δ·e − r)², expanded.
+    const error = srr - 2 * kinetic * sr - 2 * excess * ser + kinetic * kinetic * m + 2 * kinetic * excess * se + excess * excess * see;
+    if (error < bestError - 1e-12 * Math.max(1, srr)) {
       bestError = error;
-      best = { kinetic, staticFriction: kinetic + excess, stribeck: vs };
+      best = { kinetic, staticFriction: kinetic + excess, stribeck: STRIBECK_GRID_mps[k] };
     }
   }
   return best;
@@ -213,16 +221,25 @@ export function identifyFriction(tr: Trajectory, settings: ImportSettings['frict
       if (cell.events.size < MIN_SLIDE_EVENTS || cell.slides.length < MIN_SLIDE_SAMPLES) {
         return { ...base, verdict: 'lowerBoundOnly', reason: `too few slides to fit (${cell.events.size} events, ${cell.slides.length} samples; need ${MIN_SLIDE_EVENTS} and ${MIN_SLIDE_SAMPLES})` };
       }
-      const fit = fitStribeck(cell.slides, settings.stribeckExponent)!;
       const byEvent = new Map<number, SlideSample[]>();
-      for (const s of cell.slides) byEvent.set(s.event, [...(byEvent.get(s.event) ?? []), s]);
-      const events = [...byEvent.values()];
+      for (const s of cell.slides) {
+        const list = byEvent.get(s.event);
+        if (list) list.push(s);
+        else byEvent.set(s.event, [s]);
+      }
+      const sums = [...byEvent.values()].map((samples) => eventSums(samples, settings.stribeckExponent));
+      const total = new Float64Array(sums[0].length);
+      for (const e of sums) for (let c = 0; c < total.length; c++) total[c] += e[c];
+      const fit = fitFromSums(total);
       const kinetics: number[] = [];
+      const resample = new Float64Array(total.length);
       for (let b = 0; b < BOOTSTRAP_RESAMPLES; b++) {
-        const resample: SlideSample[] = [];
-        for (let e = 0; e < events.length; e++) resample.push(...events[Math.floor(random.uniform() * events.length)]);
-        const f = fitStribeck(resample, settings.stribeckExponent);
-        if (f) kinetics.push(f.kinetic);
+        resample.fill(0);
+        for (let e = 0; e < sums.length; e++) {
+          const picked = sums[Math.floor(random.uniform() * sums.length)];
+          for (let c = 0; c < resample.length; c++) resample[c] += picked[c];
+        }
+        kinetics.push(fitFromSums(resample).kinetic);
       }
       kinetics.sort((a, b) => a - b);
       const onsets = [...cell.onsets.values()];
