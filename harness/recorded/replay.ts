@@ -1,15 +1,19 @@
 // `footing replay SCENARIO --build SPEC --out DIR`: runs a build on an imported scenario and
-// compares the simulation with the recording the scenario names (fidelity.ts). Writes
-// DIR/fidelity.json (atomically) and prints the figures. Exit 0 the recording is reproduced within
-// the tolerances, 1 it is not (or the run broke off), 2 bad input (nothing run).
+// compares the simulation with the recording the scenario names (fidelity.ts). Writes a results
+// folder like `footing run` does (results.json with the run's `fidelity` block, report.html with
+// recorded-vs-simulated overlays, junit.xml, summary.md) plus DIR/fidelity.json, all atomically,
+// and prints the figures. Exit 0 the recording is reproduced within the tolerances, 1 it is not
+// (or the run broke off), 2 bad input (nothing run).
 
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { openBuild } from '../builds/loader.js';
+import { buildManifest } from '../builds/provenance.js';
 import { BuildSpecError, parseBuildSpec } from '../builds/spec.js';
 import { writeFileAtomicSync } from '../run/atomic.js';
-import { runEpisode } from '../run/episode.js';
-import { controllerSetup } from '../run/runOne.js';
+import { writeOutputs } from '../run/outputs.js';
+import { createResultsFile } from '../run/results/runResult.js';
+import { runOne } from '../run/runOne.js';
+import { TOOL_VERSION } from '../version.js';
 import { formatIssue } from '../scenario/issue.js';
 import { loadScenarioFile } from '../scenario/load.js';
 import { displayPath } from '../scenario/paths.js';
@@ -46,15 +50,14 @@ export async function replayRecording(options: ReplayOptions): Promise<ReplayOut
   const recording = parseTrajectory(readFileSync(trajectoryFile, 'utf8'), displayPath(trajectoryFile, cwd));
   const recorder = new FidelityRecorder(recording);
   const halfTick_s = 0.5 / scenario.control.rate_Hz;
-  const build = await openBuild(spec, controllerSetup(scenario));
-  let outcome;
-  try {
-    outcome = await runEpisode(scenario, build, { observers: [{ onTick: (s) => recorder.observe(s, halfTick_s) }] });
-  } finally {
-    await build.close().catch(() => undefined);
-  }
-  const fidelity = recorder.finish();
   const outDir = path.resolve(cwd, options.out);
+  const startedAt = new Date().toISOString();
+  const run = await runOne({ scenario, build: spec, outDir, trace: false }, [{ onTick: (s) => recorder.observe(s, halfTick_s) }]);
+  const outcome = { error: run.error };
+  const fidelity = recorder.finish();
+  const manifest = await buildManifest(spec);
+  const results = createResultsFile({ toolVersion: TOOL_VERSION, builds: [{ ...manifest, commit: manifest.git?.commit ?? null, dirty: manifest.git?.dirty ?? null }], startedAt, runs: [{ ...run, fidelity }] });
+  writeOutputs(outDir, results);
   const file = path.join(outDir, 'fidelity.json');
   writeFileAtomicSync(file, JSON.stringify({ format: 'footing-fidelity', formatVersion: 1, scenario: { id: scenario.id, revision: scenario.revision, hash: scenario.hash }, build: spec.name, ...(outcome.error ? { error: outcome.error } : {}), fidelity }, null, 2) + '\n');
   const e = fidelity.trunkPositionError_m;
@@ -67,7 +70,7 @@ export async function replayRecording(options: ReplayOptions): Promise<ReplayOut
     `  slips: ${s.recorded} recorded, ${s.reproduced} reproduced, ${s.missed} missed, ${s.extra} extra`,
     ...(outcome.error ? [`  the run broke off at ${(outcome.error.time_s ?? 0).toFixed(3)} s: ${outcome.error.message}`] : []),
     `  ${fidelity.note}`,
-    `  → ${displayPath(file, cwd)}`,
+    `  → ${displayPath(file, cwd)}, results.json and report.html in ${displayPath(outDir, cwd)}`,
   ];
   return { exitCode: fidelity.reproduces && !outcome.error ? 0 : 1, lines, fidelity };
 }

@@ -33,6 +33,8 @@ import { buildStyle, type BuildStyle } from './plot/palette.js';
 import { niceCeil } from './plot/scale.js';
 import { asSvg, label, type SvgMarkup } from './plot/svg.js';
 import { readSeriesFor } from './series/file.js';
+import { recordedErrorPlot, recordedPathPlot } from './plot/fidelity.js';
+import type { FidelityBlock } from '../recorded/fidelity.js';
 import type { RunSeries } from './series/types.js';
 
 export interface ReportOptions {
@@ -88,6 +90,8 @@ export interface RunView {
   traceHref: string | null;
   cells: MetricCell[];
   isBaseline: boolean;
+  /** footing replay: recorded vs simulated overlays (plot/fidelity.ts), with the figures. */
+  fidelity: { path: SvgMarkup; error: SvgMarkup; caption: string; note: string } | null;
 }
 
 export interface ScenarioView {
@@ -334,6 +338,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
       traceHref,
       cells: metricCells(run, baselineRun, ctx.gate),
       isBaseline: run.build === ctx.baselineName,
+      fidelity: run.fidelity ? fidelityView(run.fidelity, buildStyle(b)) : null,
     };
   });
   const byBuild = new Map(views.map((v) => [v.build, v]));
@@ -441,4 +446,15 @@ function statusBar(counts: Record<RunStatus, number>): SvgMarkup {
     x += w;
   }
   return asSvg(out + '</svg>');
+}
+
+/** The replay figures in one caption; the plots from plot/fidelity.ts. */
+function fidelityView(f: FidelityBlock, style: ReturnType<typeof buildStyle>): NonNullable<RunView['fidelity']> {
+  const e = f.trunkPositionError_m;
+  const first = f.firstExceeded;
+  const caption =
+    `trunk path error RMS ${label(e.rms * 1000, 1)} mm, max ${label(e.max * 1000, 1)} mm at ${label(e.maxAt_s, 2)} s; ` +
+    `first past tolerance: ${first ? `${label(first.time_s, 3)} s (${first.quantity})` : 'never'}; ` +
+    `slips ${f.slips.recorded} recorded, ${f.slips.reproduced} reproduced, ${f.slips.extra} extra`;
+  return { path: recordedPathPlot(f, style), error: recordedErrorPlot(f), caption, note: f.note };
 }

@@ -78,5 +78,13 @@ describe('footing import of the demo log', () => {
     expect(f.slips.reproduced / f.slips.recorded).toBeGreaterThan(0.5);
     expect(f.note).toMatch(/not a verdict on the controller/);
     expect(existsSync(path.join(out, 'fidelity.json'))).toBe(true);
+    // results.json carries the fidelity block (validated against results.schema.json when written)
+    // and the report shows recorded vs simulated overlays with the page's caveat.
+    const results = JSON.parse(readFileSync(path.join(out, 'results.json'), 'utf8'));
+    expect(results.runs[0].fidelity.slips.recorded).toBe(f.slips.recorded);
+    const html = readFileSync(path.join(out, 'report.html'), 'utf8');
+    expect(html).toContain('class="plot recorded-path"');
+    expect(html).toContain('class="plot recorded-error"');
+    expect(html).toContain('not a verdict on the controller');
   });
 });

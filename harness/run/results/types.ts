@@ -5,6 +5,7 @@
 import type { FamilySummary, RunMargin } from '../../margin/types.js';
 import type { FamilyMembership } from '../../scenario/types.js';
 import type { ScoreMetrics, SimMetrics } from '../../score/types.js';
+import type { FidelityBlock } from '../../recorded/fidelity.js';
 
 export const RESULTS_FORMAT = 'footing-results';
 /** 2 added the optional run `margin`, scenario `family` and top-level `families` (migrate.ts reads 1). */
@@ -46,6 +47,8 @@ export interface RunResult {
   metrics: ScoreMetrics | null;
   /** Trace CSV path relative to the results folder, with --trace. */
   trace?: string;
+  /** footing replay only: the comparison with the scenario's recorded trajectory. */
+  fidelity?: FidelityBlock;
   /** Critical friction and push scales, written by `footing margin` (docs/margin.md). */
   margin?: RunMargin;
 }
