@@ -3,8 +3,10 @@
 // inside DIR, loaded back through the scenario loader (the same validation `footing check` does),
 // and only then moved into place, each by an atomic rename. Bad input: exit 2, nothing written.
 
-import { copyFileSync, mkdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { closeSync, copyFileSync, mkdirSync, openSync, readFileSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import { mkdtemp } from 'node:fs/promises';
+import { createReadStream } from 'node:fs';
+import { createHash } from 'node:crypto';
 import path from 'node:path';
 import { formatIssue } from '../scenario/issue.js';
 import { loadScenarioFile } from '../scenario/load.js';
@@ -21,7 +23,7 @@ import { readMcapLog } from './mcapLog.js';
 import { estimatePushes } from './pushSeries.js';
 import type { ProgressCallback } from './rawLog.js';
 import { pushCsv, scenarioFileNames, scenarioYaml } from './scenarioWriter.js';
-import { formatTrajectory, sha256Hex, type Trajectory } from './trajectory.js';
+import { formatTrajectoryChunks, sha256Hex, type Trajectory } from './trajectory.js';
 
 export const IMPORT_EXIT = { ok: 0, badInput: 2, internal: 3 } as const;
 
@@ -45,9 +47,25 @@ export interface ImportOutcome {
   trajectory?: Trajectory;
 }
 
+/** sha256 of a file, streamed (logs can be gigabytes). */
+export async function fileSha256(file: string): Promise<string> {
+  const hash = createHash('sha256');
+  for await (const chunk of createReadStream(file, { highWaterMark: 1 << 20 })) hash.update(chunk as Buffer);
+  return hash.digest('hex');
+}
+
 export function logFormatOf(file: string): LogFormat | undefined {
   const ext = path.extname(file).toLowerCase();
   return ext === '.csv' ? 'csv' : ext === '.mcap' ? 'mcap' : undefined;
+}
+
+function writeChunks(file: string, chunks: Buffer[]): void {
+  const fd = openSync(file, 'wx');
+  try {
+    for (const chunk of chunks) for (let at = 0; at < chunk.length; ) at += writeSync(fd, chunk, at);
+  } finally {
+    closeSync(fd);
+  }
 }
 
 const fail = (lines: string[]): ImportOutcome => ({ exitCode: IMPORT_EXIT.badInput, lines: [...lines, 'footing import: nothing was written'] });
@@ -91,9 +109,9 @@ export async function importLog(options: ImportOptions): Promise<ImportOutcome> 
   const push = estimatePushes(tr, loaded.robot, settings.pushNoise_N);
   const friction = identifyFriction(tr, settings.friction, settings.forceNoise_N);
   const names = scenarioFileNames(id, loaded.robotFile);
-  const trajectoryText = formatTrajectory(tr, map.feet);
-  const trajectorySha256 = sha256Hex(trajectoryText);
-  const logSha256 = sha256Hex(readFileSync(logAbsolute));
+  const trajectoryChunks = formatTrajectoryChunks(tr, map.feet);
+  const trajectorySha256 = sha256Hex(trajectoryChunks);
+  const logSha256 = await fileSha256(logAbsolute);
   const provenance = [
     `Imported by footing import from ${path.basename(logAbsolute)} (${read.format}, sha256 ${logSha256.slice(0, 16)}…)`,
     `with map ${path.basename(loaded.absolute)}; ${tr.count} samples over ${tr.t_s[tr.count - 1].toFixed(3)} s.`,
@@ -122,7 +140,7 @@ export async function importLog(options: ImportOptions): Promise<ImportOutcome> 
     mkdirSync(outDir, { recursive: true });
     stage = await mkdtemp(path.join(outDir, '.footing-import-'));
     const staged = (name: string) => path.join(stage!, name);
-    writeFileSync(staged(names.trajectory), trajectoryText);
+    writeChunks(staged(names.trajectory), trajectoryChunks);
     if (push.t_s.length > 0) writeFileSync(staged(names.push), pushCsv(push));
     writeFileSync(staged(names.friction), JSON.stringify({ format: 'footing-friction-identification', formatVersion: 1, scenario: id, ...friction }, null, 2) + '\n');
     mkdirSync(staged('robots'));

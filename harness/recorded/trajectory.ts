@@ -44,43 +44,125 @@ export function trajectoryColumns(footCount: number, withExternal: boolean): str
   return columns;
 }
 
-/** The trajectory as CSV text (a comment header names the format and the feet). */
-export function formatTrajectory(tr: Trajectory, footNames: string[]): string {
-  const d = DECIMALS;
-  const n = tr.footCount;
-  const parts: string[] = [
-    `# ${TRAJECTORY_FORMAT} ${TRAJECTORY_VERSION}; feet ${footNames.join(' ')} (foot0…foot${n - 1}); SI units, world frame, ground force on the foot\n`,
-    trajectoryColumns(n, tr.externalForce_N !== null).join(',') + '\n',
-  ];
-  let block = '';
-  for (let k = 0; k < tr.count; k++) {
-    let row = tr.t_s[k].toFixed(d.time);
-    for (let c = 0; c < 3; c++) row += ',' + tr.trunkPosition_m[3 * k + c].toFixed(d.position);
-    for (let c = 0; c < 4; c++) row += ',' + tr.trunkQuaternion[4 * k + c].toFixed(d.quaternion);
-    for (let c = 0; c < 3; c++) row += ',' + tr.trunkVelocity_mps[3 * k + c].toFixed(d.velocity);
-    for (let i = 0; i < n; i++) {
-      const j = 3 * (n * k + i);
-      row += ',' + tr.footPosition_m[j].toFixed(d.position) + ',' + tr.footPosition_m[j + 1].toFixed(d.position) + ',' + tr.footPosition_m[j + 2].toFixed(d.position);
-      row += ',' + tr.footVelocity_mps[j].toFixed(d.velocity) + ',' + tr.footVelocity_mps[j + 1].toFixed(d.velocity) + ',' + tr.footVelocity_mps[j + 2].toFixed(d.velocity);
-      row += ',' + tr.footForce_N[j].toFixed(d.force) + ',' + tr.footForce_N[j + 1].toFixed(d.force) + ',' + tr.footForce_N[j + 2].toFixed(d.force);
-      const c = tr.contact[n * k + i];
-      row += c < 0 ? ',' : c === 1 ? ',1' : ',0';
-    }
-    row += ',' + tr.commandVelocity_mps[2 * k].toFixed(d.velocity) + ',' + tr.commandVelocity_mps[2 * k + 1].toFixed(d.velocity) + ',' + tr.commandYawRate_radps[k].toFixed(d.rate);
-    row += tr.commandGait[k] < 0 ? ',' : ',' + tr.commandGait[k];
-    if (tr.externalForce_N) for (let c = 0; c < 3; c++) row += ',' + tr.externalForce_N[3 * k + c].toFixed(d.force);
-    block += row + '\n';
-    if (block.length > 1 << 16) {
-      parts.push(block);
-      block = '';
-    }
-  }
-  parts.push(block);
-  return parts.join('');
+const POWERS = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8];
+const ZEROS = ['', '0', '00', '000', '0000', '00000', '000000', '0000000', '00000000', '000000000'];
+
+/**
+ * x with d decimals, rounded half away from zero — like toFixed, but through one integer-to-string
+ * conversion (toFixed's exact decimal expansion is the import's hot spot on hour-long logs). Zero
+ * has no sign. Values beyond 2^53 at that scale fall back to toFixed.
+ */
+export function fixed(x: number, d: number): string {
+  const scaled = Math.round(Math.abs(x) * POWERS[d]);
+  if (scaled === 0) return d === 0 ? '0' : `0.${ZEROS[d]}`;
+  if (!(scaled < 9007199254740992)) return x.toFixed(d);
+  let digits = String(scaled);
+  if (digits.length <= d) digits = ZEROS[d - digits.length + 1] + digits;
+  const cut = digits.length - d;
+  const text = d === 0 ? digits : `${digits.slice(0, cut)}.${digits.slice(cut)}`;
+  return x < 0 ? `-${text}` : text;
 }
 
-export function sha256Hex(data: string | Uint8Array): string {
-  return createHash('sha256').update(data).digest('hex');
+/**
+ * Bytes of CSV, written digit by digit into 1 MB buffers: an hour at 1 kHz is ~1.6 GB of text,
+ * more than one JavaScript string may hold, and building it from strings costs more than the rest
+ * of the import together.
+ */
+class ByteWriter {
+  readonly chunks: Buffer[] = [];
+  private buffer = Buffer.allocUnsafe(1 << 20);
+  private at = 0;
+  private readonly digits = new Uint8Array(24);
+
+  private room(bytes: number): void {
+    if (this.at + bytes <= this.buffer.length) return;
+    this.chunks.push(this.buffer.subarray(0, this.at));
+    this.buffer = Buffer.allocUnsafe(1 << 20);
+    this.at = 0;
+  }
+
+  text(value: string): void {
+    this.room(Buffer.byteLength(value) + 1);
+    this.at += this.buffer.write(value, this.at);
+  }
+
+  byte(code: number): void {
+    this.room(1);
+    this.buffer[this.at++] = code;
+  }
+
+  /** Same digits as fixed(x, d). */
+  fixed(x: number, d: number): void {
+    let scaled = Math.round(Math.abs(x) * POWERS[d]);
+    if (!(scaled < 9007199254740992)) return this.text(fixed(x, d));
+    this.room(24);
+    if (x < 0 && scaled !== 0) this.buffer[this.at++] = 45; // '-'
+    let count = 0;
+    do {
+      this.digits[count++] = 48 + (scaled % 10);
+      scaled = Math.floor(scaled / 10);
+    } while (scaled > 0 || count <= d);
+    for (let k = count - 1; k >= 0; k--) {
+      this.buffer[this.at++] = this.digits[k];
+      if (k === d && d > 0) this.buffer[this.at++] = 46; // '.'
+    }
+  }
+
+  finish(): Buffer[] {
+    this.chunks.push(this.buffer.subarray(0, this.at));
+    return this.chunks;
+  }
+}
+
+const COMMA = 44;
+const NEWLINE = 10;
+
+/** The trajectory as CSV bytes, in chunks (a comment header names the format and the feet). */
+export function formatTrajectoryChunks(tr: Trajectory, footNames: string[]): Buffer[] {
+  const d = DECIMALS;
+  const n = tr.footCount;
+  const w = new ByteWriter();
+  w.text(`# ${TRAJECTORY_FORMAT} ${TRAJECTORY_VERSION}; feet ${footNames.join(' ')} (foot0…foot${n - 1}); SI units, world frame, ground force on the foot\n`);
+  w.text(trajectoryColumns(n, tr.externalForce_N !== null).join(',') + '\n');
+  const value = (x: number, decimals: number) => {
+    w.byte(COMMA);
+    w.fixed(x, decimals);
+  };
+  for (let k = 0; k < tr.count; k++) {
+    w.fixed(tr.t_s[k], d.time);
+    for (let c = 0; c < 3; c++) value(tr.trunkPosition_m[3 * k + c], d.position);
+    for (let c = 0; c < 4; c++) value(tr.trunkQuaternion[4 * k + c], d.quaternion);
+    for (let c = 0; c < 3; c++) value(tr.trunkVelocity_mps[3 * k + c], d.velocity);
+    for (let i = 0; i < n; i++) {
+      const j = 3 * (n * k + i);
+      for (let c = 0; c < 3; c++) value(tr.footPosition_m[j + c], d.position);
+      for (let c = 0; c < 3; c++) value(tr.footVelocity_mps[j + c], d.velocity);
+      for (let c = 0; c < 3; c++) value(tr.footForce_N[j + c], d.force);
+      const flag = tr.contact[n * k + i];
+      w.byte(COMMA);
+      if (flag >= 0) w.byte(flag === 1 ? 49 : 48);
+    }
+    value(tr.commandVelocity_mps[2 * k], d.velocity);
+    value(tr.commandVelocity_mps[2 * k + 1], d.velocity);
+    value(tr.commandYawRate_radps[k], d.rate);
+    w.byte(COMMA);
+    if (tr.commandGait[k] >= 0) w.text(String(tr.commandGait[k]));
+    if (tr.externalForce_N) for (let c = 0; c < 3; c++) value(tr.externalForce_N[3 * k + c], d.force);
+    w.byte(NEWLINE);
+  }
+  return w.finish();
+}
+
+/** The trajectory as one string (small trajectories: tests, replay of short logs). */
+export function formatTrajectory(tr: Trajectory, footNames: string[]): string {
+  return Buffer.concat(formatTrajectoryChunks(tr, footNames)).toString('utf8');
+}
+
+export function sha256Hex(data: string | Uint8Array | Uint8Array[]): string {
+  const hash = createHash('sha256');
+  if (Array.isArray(data)) for (const chunk of data) hash.update(chunk);
+  else hash.update(data);
+  return hash.digest('hex');
 }
 
 /** Reads a trajectory file written by formatTrajectory. Throws with the line on a malformed file. */

@@ -3,6 +3,7 @@
 // hash. Every problem becomes a ScenarioIssue with file, line, column and path; nothing throws.
 
 import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
 import { readFile as fsReadFile, realpath } from 'node:fs/promises';
 import path from 'node:path';
 import { closest } from 'fastest-levenshtein';
@@ -309,11 +310,33 @@ async function loadInstance(data: Record<string, unknown>, ctx: Context, locate:
 /** An imported scenario's recorded trajectory must exist and still have the sha256 the file names. */
 async function checkRecorded(recorded: Record<string, unknown> | undefined, ctx: Context, errors: ScenarioIssue[], locate: (f: Finding) => ScenarioIssue): Promise<void> {
   if (!recorded || typeof recorded.trajectory !== 'string' || typeof recorded.sha256 !== 'string') return;
-  const text = await readReference(recorded.trajectory, ctx, '/recorded/trajectory', 'recorded trajectory', errors, locate);
-  if (text === undefined) return;
-  const actual = createHash('sha256').update(text.content).digest('hex');
+  const pointer = '/recorded/trajectory';
+  let display: string;
+  let actual: string;
+  if (ctx.realFiles) {
+    // Streamed: an hour-long recording is more text than one string may hold.
+    const resolved = await resolveInside(recorded.trajectory, ctx);
+    if (!resolved.ok) {
+      errors.push(locate({ path: pointer, message: `recorded trajectory ${resolved.message}` }));
+      return;
+    }
+    display = displayPath(resolved.absolute, ctx.cwd);
+    try {
+      const hash = createHash('sha256');
+      for await (const chunk of createReadStream(resolved.absolute, { highWaterMark: 1 << 20 })) hash.update(chunk as Buffer);
+      actual = hash.digest('hex');
+    } catch (e) {
+      errors.push(locate({ path: pointer, message: `recorded trajectory "${recorded.trajectory}" cannot be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}; resolved to ${display})` }));
+      return;
+    }
+  } else {
+    const text = await readReference(recorded.trajectory, ctx, pointer, 'recorded trajectory', errors, locate);
+    if (text === undefined) return;
+    display = text.display;
+    actual = createHash('sha256').update(text.content).digest('hex');
+  }
   if (actual !== recorded.sha256) {
-    errors.push(locate({ path: '/recorded/sha256', message: `recorded trajectory ${text.display} has sha256 ${actual}, not the ${recorded.sha256} this scenario was imported with (the recording changed: re-import it, expected the file as written by footing import)` }));
+    errors.push(locate({ path: '/recorded/sha256', message: `recorded trajectory ${display} has sha256 ${actual}, not the ${recorded.sha256} this scenario was imported with (the recording changed: re-import it, expected the file as written by footing import)` }));
   }
 }
 
