@@ -2,7 +2,7 @@
 // the plain view model the templates lay out. Every user string stays a plain string here (the
 // templates escape it); every plot is SvgMarkup built from numbers by plot/charts.ts.
 
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
 import { gateWithinResults } from '../gate/gate.js';
@@ -35,6 +35,7 @@ import { asSvg, label, type SvgMarkup } from './plot/svg.js';
 import { readSeriesFor } from './series/file.js';
 import { recordedErrorPlot, recordedPathPlot } from './plot/fidelity.js';
 import type { FidelityBlock } from '../recorded/fidelity.js';
+import { describeDivergence, firstDivergence } from '../recorded/divergence.js';
 import type { RunSeries } from './series/types.js';
 
 export interface ReportOptions {
@@ -115,6 +116,8 @@ export interface ScenarioView {
   overview: { margin: SvgMarkup; slip: SvgMarkup };
   hasGovernor: boolean;
   duration: string;
+  /** "governed → overtrusting: first differs at …" per gated build pair with traces. */
+  divergences: string[];
 }
 
 export interface RegressionView {
@@ -289,6 +292,34 @@ interface ScenarioContext {
   traces: { href: string; name: string }[];
 }
 
+/** First divergence of each gated build pair's traces on this scenario (recorded/divergence.ts). */
+function scenarioDivergences(runs: RunResult[], ctx: ScenarioContext): string[] {
+  if (!ctx.gate) return [];
+  const traceText = (run: RunResult | undefined): string | null => {
+    if (!run?.trace) return null;
+    for (const dir of ctx.sourceDirs) {
+      const file = path.join(dir, run.trace);
+      if (existsSync(file)) return readFileSync(file, 'utf8');
+    }
+    return null;
+  };
+  const lines: string[] = [];
+  for (const [base, cand] of ctx.gate.buildPairs) {
+    const a = runs.find((r) => r.build === base);
+    const b = runs.find((r) => r.build === cand);
+    if (!a || !b) continue;
+    const ta = traceText(a);
+    const tb = traceText(b);
+    if (ta === null || tb === null) continue;
+    try {
+      lines.push(`${base} → ${cand}: ${describeDivergence({ scenario: a.scenario.id, baselineBuild: base, candidateBuild: cand, divergence: firstDivergence(ta, tb) })}`);
+    } catch (e) {
+      lines.push(`${base} → ${cand}: not computed (${(e as Error).message})`);
+    }
+  }
+  return lines;
+}
+
 function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: ScenarioContext): ScenarioView {
   const ref = runs[0].scenario;
   const baselineRun = runs.find((r) => r.build === ctx.baselineName) ?? null;
@@ -365,6 +396,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     overview: { margin: marginDots(dots((r) => r.metrics?.frictionMargin.min ?? null)), slip: slipDots(dots((r) => r.metrics?.slipDistance_m ?? null)) },
     hasGovernor: views.some((v) => v.governor.length > 0 || v.governorFlat !== ''),
     duration: `${label(tMax_s, 2)} s`,
+    divergences: scenarioDivergences(runs, ctx),
   };
 }
 

@@ -26,6 +26,7 @@ import { runBench } from '../bench/run.js';
 import { formatIssue, loadScenarioFile } from '../scenario/index.js';
 import { prepareBuilds, prepareScenarios } from './prepare.js';
 import { parseShard, shardIndices, ShardSpecError } from './shard.js';
+import { gateDivergences, renderDivergenceMarkdown } from '../recorded/divergence.js';
 
 export const EXIT = { pass: 0, fail: 1, badInput: 2, internal: 3 } as const;
 export type ExitCode = (typeof EXIT)[keyof typeof EXIT];
@@ -233,7 +234,10 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   const counts = countStatuses(ordered);
   log(`${ordered.length} runs: ${counts.pass} pass, ${counts.fail} fail, ${counts.error} error — ${path.relative(cwd, outDir) || '.'}/${OUTPUT_FILES.report}`);
   if (gateOutcome) {
-    writeFileAtomicSync(path.join(outDir, OUTPUT_FILES.gate), renderGateMarkdown(gateOutcome));
+    // First divergence of the traces (harness/recorded/divergence.ts), when the runs kept traces.
+    const resultsRef = { file: path.join(outDir, OUTPUT_FILES.results), results: resultsFile };
+    const divergences = options.trace ? gateDivergences(resultsRef, resultsRef, gateOutcome.buildPairs) : [];
+    writeFileAtomicSync(path.join(outDir, OUTPUT_FILES.gate), renderGateMarkdown(gateOutcome) + renderDivergenceMarkdown(divergences));
     log(`gate against ${options.baseline}: ${gateOutcome.verdict === 'hold' ? 'holds' : 'BLOCKS'} (${path.relative(cwd, path.join(outDir, OUTPUT_FILES.gate))})`);
     if (gateOutcome.verdict === 'block') exitCode = EXIT.fail;
   }

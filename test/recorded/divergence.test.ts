@@ -8,6 +8,8 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { parseBuildSpec } from '../../harness/builds/spec.js';
 import { describeDivergence, firstDivergence } from '../../harness/recorded/divergence.js';
 import { runOne } from '../../harness/run/runOne.js';
+import { runSuite } from '../../harness/run/suite.js';
+import { runGate } from '../../harness/gate/runGate.js';
 import { loadScenarioFile } from '../../harness/scenario/index.js';
 import type { ResolvedScenario } from '../../harness/scenario/types.js';
 import { DEMO_DIR, REPO, tempDir } from './support.js';
@@ -59,5 +61,22 @@ describe('first divergence of two builds', () => {
     const slip = Math.min(firstSlip_s(governed), firstSlip_s(overtrusting));
     expect(d!.time_s).toBeLessThan(slip);
     expect(describeDivergence({ scenario: 'x', baselineBuild: 'a', candidateBuild: 'b', divergence: d })).toMatch(/^first differs at \d+\.\d{3} s: /);
+  });
+});
+
+describe('first divergence in gate.md and the report', () => {
+  it('names the first difference of governed vs over-trusting on the slick-patch scenario', async () => {
+    const outDir = tempDir('gate-divergence');
+    const scenario = path.join(REPO, 'scenarios', 'slick-patch-abrupt.yaml');
+    const run = await runSuite({ paths: [scenario], builds: ['ref:governed', 'ref:overtrusting'], outDir, trace: true, baseline: 'governed', jobs: 1, quiet: true, cwd: REPO });
+    expect(run.exitCode).toBeLessThan(2);
+    const gateMd = readFileSync(path.join(outDir, 'gate.md'), 'utf8');
+    expect(gateMd).toMatch(/\*\*First divergence\*\*[\s\S]*`slick-patch-abrupt` \(`governed` → `overtrusting`\): first differs at \d+\.\d{3} s: /);
+    expect(readFileSync(path.join(outDir, 'report.html'), 'utf8')).toMatch(/First divergence \(traces\): governed → overtrusting: first differs at/);
+    // footing gate between the folder and itself, pairing the builds, says the same.
+    const gate = await runGate({ baseline: outDir, candidate: outDir, pairs: ['governed=overtrusting'] });
+    expect(gate.text).toMatch(/first divergence: slick-patch-abrupt \(governed → overtrusting\): first differs at/);
+    const same = await runGate({ baseline: outDir, candidate: outDir, pairs: ['governed=governed'] });
+    expect(same.text).toMatch(/first divergence: slick-patch-abrupt \(governed → governed\): none \(traces identical\)/);
   });
 });
