@@ -27,6 +27,9 @@ import { formatTrajectoryChunks, sha256Hex, type Trajectory } from './trajectory
 
 export const IMPORT_EXIT = { ok: 0, badInput: 2, internal: 3 } as const;
 
+/** The scenario schema's limit on duration_s (harness/scenario/scenario.schema.json). */
+const MAX_SCENARIO_DURATION_s: number = JSON.parse(readFileSync(new URL('../scenario/scenario.schema.json', import.meta.url), 'utf8')).properties.duration_s.maximum;
+
 export interface ImportOptions {
   log: string;
   map: string;
@@ -104,6 +107,10 @@ export async function importLog(options: ImportOptions): Promise<ImportOutcome> 
   const read = await readRecording(options.log, loaded, cwd, options.onProgress);
   if (!read.ok) return fail(read.lines);
   const tr = read.trajectory;
+  const last_s = tr.t_s[tr.count - 1];
+  if (last_s > MAX_SCENARIO_DURATION_s) {
+    return fail([`${displayPath(logAbsolute, cwd)}: the log runs to ${last_s.toFixed(3)} s of scenario time (with the map's offset_s), longer than a scenario may last (expected ≤ ${MAX_SCENARIO_DURATION_s} s: cut the log, or import it in parts)`]);
+  }
   const settings = importSettings(map);
   const commands = commandTimeline(tr, settings.commandTolerance);
   const push = estimatePushes(tr, loaded.robot, settings.pushNoise_N);

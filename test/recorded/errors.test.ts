@@ -77,6 +77,13 @@ describe('footing import refuses bad input', () => {
     expect(text).toMatch(/log\.csv:4: unit mismatch: trunk orientation .* has norm 90\.006 \(expected a unit quaternion/);
   });
 
+  it('a log longer than a scenario may last', async () => {
+    const dir = tempDir('long');
+    // Header, then two samples 3601 s apart (the scenario limit is 3600 s).
+    const log = writeCsv(dir, (lines) => [...lines.slice(0, 4), lines[4].replace(/^[^,]*/, '3601.004')]);
+    expect(await refused(log, writeMap(dir))).toMatch(/the log runs to 3601\.004 s of scenario time .*expected ≤ 3600 s/);
+  });
+
   it('a log of unknown format', async () => {
     const dir = tempDir('format');
     const log = path.join(dir, 'log.txt');
