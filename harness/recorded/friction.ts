@@ -153,7 +153,7 @@ function percentile(sorted: number[], p: number): number {
 export function identifyFriction(tr: Trajectory, settings: ImportSettings['friction'], forceNoise_N: number): FrictionIdentification {
   const n = tr.footCount;
   const { cell_m, origin_m } = settings;
-  const cells = new Map<string, CellData>();
+  const cells = new Map<number, CellData>();
   const allowance = NOISE_ALLOWANCE_SIGMAS * forceNoise_N;
   let event = 0;
   const sliding = new Int32Array(n).fill(-1); // current event per foot, −1 when not sliding
@@ -180,7 +180,8 @@ export function identifyFriction(tr: Trajectory, settings: ImportSettings['frict
       const y = tr.footPosition_m[j3 + 1];
       const ci = Math.floor((x - origin_m[0]) / cell_m);
       const cj = Math.floor((y - origin_m[1]) / cell_m);
-      const key = `${ci},${cj}`;
+      // One number per cell (grids up to a million cells a side; a string key per sample costs more than the rest).
+      const key = ci * 2_000_003 + cj;
       let cell = cells.get(key);
       if (!cell) {
         cell = { i: ci, j: cj, loaded: 0, stick: 0, lowerBound: Number.NEGATIVE_INFINITY, slides: [], events: new Set(), onsets: new Map() };
