@@ -6,12 +6,17 @@
 // demo-wet-hall.map.yaml says where everything lives. Conventions picked to exercise the map:
 // quaternions x-y-z-w, trunk velocity in the trunk (body) frame, gait as text.
 //
-//   npx tsx examples/recorded/make-demo-log.ts [out-folder]      (default: this folder)
+//   npx tsx examples/recorded/make-demo-log.ts [out-folder] [--cdr]   (default: this folder)
+//
+// --cdr also writes demo-wet-hall.cdr.mcap: the same messages in ROS 2 CDR with ros2msg schemas
+// (invented package demo_msgs), as a ROS 2 recorder would store them.
 
 import { writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { McapWriter, type IWritable } from '@mcap/core';
+import { parse as parseMessageDefinition } from '@foxglove/rosmsg';
+import { MessageWriter } from '@foxglove/rosmsg2-serialization';
 import { openBuild } from '../../harness/builds/loader.js';
 import { parseBuildSpec } from '../../harness/builds/spec.js';
 import { PushSchedule } from '../../harness/plant/pushes.js';
@@ -125,14 +130,34 @@ class MemoryWritable implements IWritable {
   }
 }
 
-async function mcapBytes(rows: Row[]): Promise<Buffer> {
+/** ROS 2 message definitions (ros2msg text, dependencies appended) of the demo's topics. */
+const SEPARATOR = '================================================================================';
+const VECTOR3 = `MSG: demo_msgs/Vector3\nfloat64 x\nfloat64 y\nfloat64 z`;
+const ROS2_DEFINITIONS: Record<string, string> = {
+  'demo_msgs/BaseState': ['demo_msgs/Vector3 position\ndemo_msgs/Quaternion orientation\ndemo_msgs/Vector3 velocity_body', VECTOR3, 'MSG: demo_msgs/Quaternion\nfloat64 x\nfloat64 y\nfloat64 z\nfloat64 w'].join(`\n${SEPARATOR}\n`),
+  'demo_msgs/FeetState': ['demo_msgs/Foot[] feet', 'MSG: demo_msgs/Foot\nstring name\ndemo_msgs/Vector3 position\ndemo_msgs/Vector3 velocity\ndemo_msgs/Vector3 force\nbool contact', VECTOR3].join(`\n${SEPARATOR}\n`),
+  'demo_msgs/Command': ['demo_msgs/Planar linear\nfloat64 yaw_rate\nstring gait', 'MSG: demo_msgs/Planar\nfloat64 x\nfloat64 y'].join(`\n${SEPARATOR}\n`),
+  'demo_msgs/ExternalForce': ['demo_msgs/Vector3 force', VECTOR3].join(`\n${SEPARATOR}\n`),
+};
+
+async function mcapBytes(rows: Row[], encoding: 'json' | 'cdr' = 'json'): Promise<Buffer> {
   const out = new MemoryWritable();
   const writer = new McapWriter({ writable: out });
-  await writer.start({ profile: '', library: 'footing demo-log generator' });
+  await writer.start({ profile: encoding === 'cdr' ? 'ros2' : '', library: 'footing demo-log generator' });
   const encoder = new TextEncoder();
+  const encoders = new Map<number, (message: unknown) => Uint8Array>();
   const channel = async (topic: string, name: string) => {
-    const schemaId = await writer.registerSchema({ name, encoding: 'jsonschema', data: encoder.encode(JSON.stringify({ type: 'object', title: name })) });
-    return writer.registerChannel({ topic, schemaId, messageEncoding: 'json', metadata: new Map([['note', 'invented demo data']]) });
+    const cdrName = name.replace('demo.', 'demo_msgs/');
+    const schemaId = encoding === 'json'
+      ? await writer.registerSchema({ name, encoding: 'jsonschema', data: encoder.encode(JSON.stringify({ type: 'object', title: name })) })
+      : await writer.registerSchema({ name: cdrName, encoding: 'ros2msg', data: encoder.encode(ROS2_DEFINITIONS[cdrName]) });
+    const id = await writer.registerChannel({ topic, schemaId, messageEncoding: encoding, metadata: new Map([['note', 'invented demo data']]) });
+    if (encoding === 'json') encoders.set(id, (message) => encoder.encode(JSON.stringify(message)));
+    else {
+      const cdr = new MessageWriter(parseMessageDefinition(ROS2_DEFINITIONS[cdrName], { ros2: true }));
+      encoders.set(id, (message) => cdr.writeMessage(message));
+    }
+    return id;
   };
   const base = await channel('/estimator/base', 'demo.BaseState');
   const feet = await channel('/estimator/feet', 'demo.FeetState');
@@ -142,7 +167,7 @@ async function mcapBytes(rows: Row[]): Promise<Buffer> {
   for (const r of rows) {
     const logTime = BigInt(Math.round(r.t_s * 1e9));
     const send = (channelId: number, message: unknown) =>
-      writer.addMessage({ channelId, sequence: sequence++, logTime, publishTime: logTime, data: encoder.encode(JSON.stringify(message)) });
+      writer.addMessage({ channelId, sequence: sequence++, logTime, publishTime: logTime, data: encoders.get(channelId)!(message) });
     const xyz = (v: number[]) => ({ x: v[0], y: v[1], z: v[2] });
     await send(base, { position: xyz(r.p), orientation: { x: r.q[0], y: r.q[1], z: r.q[2], w: r.q[3] }, velocity_body: xyz(r.vBody) });
     await send(feet, { feet: r.feet.map((f, i) => ({ name: FEET[i], position: xyz(f.p), velocity: xyz(f.v), force: xyz(f.f), contact: f.contact })) });
@@ -153,8 +178,8 @@ async function mcapBytes(rows: Row[]): Promise<Buffer> {
   return out.bytes();
 }
 
-/** Writes demo-wet-hall.csv and demo-wet-hall.mcap into `outDir`; returns their paths. */
-export async function makeDemoLog(outDir: string): Promise<{ csv: string; mcap: string; samples: number }> {
+/** Writes demo-wet-hall.csv and demo-wet-hall.mcap (and with `cdr`, demo-wet-hall.cdr.mcap) into `outDir`. */
+export async function makeDemoLog(outDir: string, options: { cdr?: boolean } = {}): Promise<{ csv: string; mcap: string; cdrMcap?: string; samples: number }> {
   const loaded = await loadScenarioFile(path.join(here, 'demo-truth.yaml'), { suiteRoot: path.join(here, '..', '..') });
   if (!loaded.ok) throw new Error(`demo-truth.yaml: ${loaded.errors.map((e) => e.message).join('; ')}`);
   const rows = await record(loaded.scenarios[0]);
@@ -162,11 +187,15 @@ export async function makeDemoLog(outDir: string): Promise<{ csv: string; mcap: 
   const mcap = path.join(outDir, `${DEMO_LOG_NAME}.mcap`);
   writeFileSync(csv, csvText(rows));
   writeFileSync(mcap, await mcapBytes(rows));
-  return { csv, mcap, samples: rows.length };
+  if (!options.cdr) return { csv, mcap, samples: rows.length };
+  const cdrMcap = path.join(outDir, `${DEMO_LOG_NAME}.cdr.mcap`);
+  writeFileSync(cdrMcap, await mcapBytes(rows, 'cdr'));
+  return { csv, mcap, cdrMcap, samples: rows.length };
 }
 
 if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
-  const outDir = path.resolve(process.argv[2] ?? here);
-  const made = await makeDemoLog(outDir);
-  console.log(`wrote ${made.csv} and ${made.mcap} (${made.samples} samples, invented data)`);
+  const args = process.argv.slice(2);
+  const outDir = path.resolve(args.find((a) => !a.startsWith('--')) ?? here);
+  const made = await makeDemoLog(outDir, { cdr: args.includes('--cdr') });
+  console.log(`wrote ${[made.csv, made.mcap, made.cdrMcap].filter(Boolean).join(', ')} (${made.samples} samples, invented data)`);
 }

@@ -1,12 +1,15 @@
 // MCAP logs (the open container ROS 2 records by default), read with @mcap/core's stream reader.
-// Messages must be JSON-encoded (messageEncoding "json"); ROS 2 CDR channels are refused with a
-// message saying so (no decoder is bundled). The trunk position topic sets the sample clock: its
+// Messages JSON-encoded (messageEncoding "json"), or ROS 2 CDR (messageEncoding "cdr" with a
+// "ros2msg" schema, decoded by @foxglove/rosmsg2-serialization from the definition @foxglove/rosmsg
+// parses); other encodings are refused naming the topic. The trunk position topic sets the sample clock: its
 // messages' log (or publish) times, strictly increasing. Every other topic is resampled onto that
 // clock — linearly for numbers, holding the last value for gait and contact flags — because real
 // recorders publish estimator, foot and command topics at their own rates.
 
 import { createReadStream, statSync } from 'node:fs';
 import { McapStreamReader } from '@mcap/core';
+import { parse as parseMessageDefinition } from '@foxglove/rosmsg';
+import { MessageReader } from '@foxglove/rosmsg2-serialization';
 import type { SlotLayout } from './layout.js';
 import { textValue } from './layout.js';
 import type { LoadedLogMap } from './map.js';
@@ -51,7 +54,8 @@ export async function readMcapLog(file: string, display: string, loaded: LoadedL
   const clockTopic = slots[layout.trunkPosition].topic!;
   const useLogTime = loaded.map.time.mcap === 'logTime';
   const topics = new Map<string, TopicData>();
-  const channels = new Map<number, { topic: string; data: TopicData } | null>();
+  const channels = new Map<number, { topic: string; data: TopicData; decode: (bytes: Uint8Array) => unknown } | null>();
+  const schemas = new Map<number, { name: string; encoding: string; data: Uint8Array }>();
   const seenTopics = new Set<string>();
   const decoder = new TextDecoder();
   const reader = new McapStreamReader({ validateCrcs: true });
@@ -65,15 +69,36 @@ export async function readMcapLog(file: string, display: string, loaded: LoadedL
   let reported = 0;
 
   const handle = (record: NonNullable<ReturnType<McapStreamReader['nextRecord']>>): void => {
+    if (record.type === 'Schema') {
+      schemas.set(record.id, { name: record.name, encoding: record.encoding, data: record.data });
+      return;
+    }
     if (record.type === 'Channel') {
       seenTopics.add(record.topic);
       if (!byTopic.has(record.topic)) {
         channels.set(record.id, null);
         return;
       }
-      if (record.messageEncoding !== 'json') {
-        const cdr = record.messageEncoding === 'cdr' ? ' ROS 2 CDR messages are not decoded by this version: record the topic as JSON, or convert the log' : '';
-        errors.push(`${display}: topic ${record.topic} has message encoding "${record.messageEncoding}" (expected json).${cdr}`);
+      let decode: (bytes: Uint8Array) => unknown;
+      if (record.messageEncoding === 'json') {
+        decode = (bytes) => JSON.parse(decoder.decode(bytes));
+      } else if (record.messageEncoding === 'cdr') {
+        const schema = schemas.get(record.schemaId);
+        if (!schema || schema.encoding !== 'ros2msg') {
+          errors.push(`${display}: topic ${record.topic} is CDR with schema encoding ${schema ? `"${schema.encoding}"` : '(none)'} (expected ros2msg, the message definition text ROS 2 records)`);
+          channels.set(record.id, null);
+          return;
+        }
+        try {
+          const reader = new MessageReader(parseMessageDefinition(decoder.decode(schema.data), { ros2: true }));
+          decode = (bytes) => reader.readMessage(bytes);
+        } catch (e) {
+          errors.push(`${display}: topic ${record.topic}: its message definition ${schema.name} does not parse (${(e as Error).message})`);
+          channels.set(record.id, null);
+          return;
+        }
+      } else {
+        errors.push(`${display}: topic ${record.topic} has message encoding "${record.messageEncoding}" (expected json or cdr)`);
         channels.set(record.id, null);
         return;
       }
@@ -82,7 +107,7 @@ export async function readMcapLog(file: string, display: string, loaded: LoadedL
         data = { times: [], values: new Map(byTopic.get(record.topic)!.map((s) => [s, []])), messages: 0 };
         topics.set(record.topic, data);
       }
-      channels.set(record.id, { topic: record.topic, data });
+      channels.set(record.id, { topic: record.topic, data, decode });
       return;
     }
     if (record.type !== 'Message') return;
@@ -92,9 +117,9 @@ export async function readMcapLog(file: string, display: string, loaded: LoadedL
     data.messages++;
     let message: unknown;
     try {
-      message = JSON.parse(decoder.decode(record.data));
+      message = channel.decode(record.data);
     } catch (e) {
-      errors.push(`${display}: topic ${topic} message ${data.messages}: not valid JSON (${(e as Error).message})`);
+      errors.push(`${display}: topic ${topic} message ${data.messages}: cannot be decoded (${(e as Error).message})`);
       return;
     }
     const t_s = Number(useLogTime ? record.logTime : record.publishTime) * 1e-9;
