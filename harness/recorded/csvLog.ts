@@ -24,6 +24,7 @@ export async function readCsvLog(file: string, display: string, loaded: LoadedLo
   const lineColumn = slots.length;
   const errors: string[] = [];
   let index: number[] | undefined;
+  const bounds = new Int32Array(4097); // field starts of a plain line (up to 4096 columns)
   let previousTime = Number.NEGATIVE_INFINITY;
   let previousLine = 0;
   let total = 0;
@@ -44,10 +45,10 @@ export async function readCsvLog(file: string, display: string, loaded: LoadedLo
   });
   try {
     rows: for await (const batch of csvLines(stream)) for (const item of batch) {
-      const { record, info } = item;
+      const info = { lines: item.line };
       if (index === undefined) {
         index = [];
-        const known = record;
+        const known = item.record ?? item.text!.split(',').map((c) => c.trim());
         for (const slot of slots) {
           const at = known.indexOf(slot.column!);
           if (at < 0) {
@@ -65,19 +66,35 @@ export async function readCsvLog(file: string, display: string, loaded: LoadedLo
       const row = store.addRow();
       const columns = store.columns;
       columns[lineColumn][row] = info.lines;
+      const text = item.text;
+      let fields: number;
+      if (text !== undefined) {
+        // Plain line: field k spans [bounds[k], bounds[k + 1] − 1).
+        fields = 0;
+        bounds[0] = 0;
+        for (let at = text.indexOf(','); at >= 0; at = text.indexOf(',', at + 1)) {
+          if (fields + 2 >= bounds.length) break;
+          bounds[++fields] = at + 1;
+        }
+        fields++;
+        bounds[fields] = text.length + 1;
+      } else fields = item.record!.length;
       for (let s = 0; s < slots.length; s++) {
-        const cell = record[index[s]];
-        let value: number | undefined;
-        if (cell === undefined) {
-          errors.push(`${display}:${info.lines}: row has ${record.length} cells, column "${slots[s].column}" is number ${index[s] + 1}`);
+        const k = index[s];
+        if (k >= fields) {
+          errors.push(`${display}:${info.lines}: row has ${fields} cells, column "${slots[s].column}" is number ${k + 1}`);
           break;
         }
-        const text = slots[s].text;
-        if (NUMBER.test(cell)) value = Number(cell);
-        else if (text) value = textValue(text, cell);
-        if (value === undefined || !Number.isFinite(value)) {
-          errors.push(`${display}:${info.lines}: column "${slots[s].column}" holds ${JSON.stringify(cell)} (expected a number${text === 'gait' ? ', stand or trot' : text === 'flag' ? ', true or false' : ''})`);
-          continue;
+        let value = text !== undefined ? parseDecimal(text, bounds[k], bounds[k + 1] - 1) : Number.NaN;
+        if (Number.isNaN(value)) {
+          const cell = text !== undefined ? text.slice(bounds[k], bounds[k + 1] - 1).trim() : item.record![k];
+          const kind = slots[s].text;
+          const parsed = NUMBER.test(cell) ? Number(cell) : kind ? textValue(kind, cell) : undefined;
+          if (parsed === undefined || !Number.isFinite(parsed)) {
+            errors.push(`${display}:${info.lines}: column "${slots[s].column}" holds ${JSON.stringify(cell)} (expected a number${kind === 'gait' ? ', stand or trot' : kind === 'flag' ? ', true or false' : ''})`);
+            continue;
+          }
+          value = parsed;
         }
         columns[s][row] = value;
       }
@@ -108,44 +125,100 @@ export async function readCsvLog(file: string, display: string, loaded: LoadedLo
 
 const CSV_OPTIONS = { comment: '#', skip_empty_lines: true, trim: true, relax_column_count: true } as const;
 
+/** A line of the log: plain text (no quote, no comment mark) or the record csv-parse made of it. */
+interface CsvLine {
+  line: number;
+  text?: string;
+  record?: string[];
+}
+
 /**
- * The records of a CSV stream with their line numbers, a batch per chunk read. One record per line: a quoted field that
- * spans lines is not supported in logs (refused with its line), which every logger we know of obeys.
+ * The lines of a CSV stream with their line numbers, a batch per chunk read. One record per line:
+ * a quoted field that spans lines is not supported in logs (refused with its line), which every
+ * logger we know of obeys.
  */
-async function* csvLines(stream: AsyncIterable<Buffer | string>): AsyncGenerator<{ record: string[]; info: { lines: number } }[]> {
+async function* csvLines(stream: AsyncIterable<Buffer | string>): AsyncGenerator<CsvLine[]> {
   let rest = '';
   let line = 0;
-  const one = (text: string): string[] | null => {
-    if (text.indexOf('"') < 0 && text.indexOf('#') < 0) {
-      if (text.trim() === '') return null;
-      const cells = text.split(',');
-      for (let c = 0; c < cells.length; c++) cells[c] = cells[c].trim();
-      return cells;
-    }
+  const one = (text: string): CsvLine | null => {
+    if (text.indexOf('"') < 0 && text.indexOf('#') < 0) return text.trim() === '' ? null : { line, text };
     let records: string[][];
     try {
       records = parse(text, CSV_OPTIONS) as string[][];
     } catch (e) {
       throw Object.assign(new Error((e as Error).message), { line });
     }
-    return records.length === 0 ? null : records[0];
+    return records.length === 0 ? null : { line, record: records[0] };
   };
   for await (const chunk of stream) {
     const text = rest + (typeof chunk === 'string' ? chunk : chunk.toString('utf8'));
-    const batch: { record: string[]; info: { lines: number } }[] = [];
+    const batch: CsvLine[] = [];
     let start = 0;
     for (let end = text.indexOf('\n', start); end >= 0; end = text.indexOf('\n', start)) {
       line++;
-      const record = one(text.charCodeAt(end - 1) === 13 ? text.slice(start, end - 1) : text.slice(start, end));
+      const item = one(text.charCodeAt(end - 1) === 13 ? text.slice(start, end - 1) : text.slice(start, end));
       start = end + 1;
-      if (record) batch.push({ record, info: { lines: line } });
+      if (item) batch.push(item);
     }
     rest = text.slice(start);
     yield batch;
   }
   if (rest.length > 0) {
     line++;
-    const record = one(rest);
-    if (record) yield [{ record, info: { lines: line } }];
+    const item = one(rest);
+    if (item) yield [item];
   }
+}
+
+const EXACT_POWERS = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
+
+/**
+ * The decimal number in text[start, end) (spaces around it allowed), or NaN when the field is not
+ * one. Exact: at most 15 significant digits and a power of ten up to 10^22 are both exact doubles,
+ * so one division or multiplication rounds correctly (Clinger, "How to read floating point numbers
+ * accurately", PLDI 1990); anything longer goes to Number().
+ */
+export function parseDecimal(text: string, start: number, end: number): number {
+  while (start < end && text.charCodeAt(start) === 32) start++;
+  while (end > start && text.charCodeAt(end - 1) === 32) end--;
+  if (start >= end) return Number.NaN;
+  let at = start;
+  let negative = false;
+  const first = text.charCodeAt(at);
+  if (first === 45 || first === 43) {
+    negative = first === 45;
+    at++;
+  }
+  let mantissa = 0;
+  let digits = 0;
+  let significant = 0;
+  let fraction = 0;
+  let c = text.charCodeAt(at);
+  while (at < end && c >= 48 && c <= 57) {
+    mantissa = mantissa * 10 + (c - 48);
+    digits++;
+    if (mantissa > 0) significant++;
+    c = text.charCodeAt(++at);
+  }
+  if (at < end && c === 46) {
+    c = text.charCodeAt(++at);
+    while (at < end && c >= 48 && c <= 57) {
+      mantissa = mantissa * 10 + (c - 48);
+      digits++;
+      fraction++;
+      if (mantissa > 0) significant++;
+      c = text.charCodeAt(++at);
+    }
+  }
+  if (digits === 0) return Number.NaN;
+  let exponent = 0;
+  if (at < end && (c === 101 || c === 69)) {
+    const slice = text.slice(start, end);
+    return NUMBER.test(slice) ? Number(slice) : Number.NaN;
+  }
+  if (at !== end) return Number.NaN;
+  if (significant > 15) return Number(text.slice(start, end));
+  exponent -= fraction;
+  const value = exponent >= 0 ? (exponent <= 22 ? mantissa * EXACT_POWERS[exponent] : Number(text.slice(start, end))) : -exponent <= 22 ? mantissa / EXACT_POWERS[-exponent] : Number(text.slice(start, end));
+  return negative ? -value : value;
 }
