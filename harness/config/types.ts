@@ -34,6 +34,8 @@ export interface ConfigData {
   loopBudget_us?: number;
   bench?: boolean;
   cache?: string;
+  /** History store file (harness/history), relative to this file. */
+  history?: string;
 }
 
 /** Same shape and printing as the gate policy's issues: file:line:col: path: message. */
