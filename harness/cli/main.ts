@@ -14,6 +14,8 @@ import { clearCache, printConfig, runConfiguredSuite } from '../config/commands.
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
 import { TOOL_VERSION } from '../version.js';
+import { registerHistoryCommands } from '../history/cli.js';
+import { addRunToHistory } from '../history/commands.js';
 
 /** What `footing run` replays when neither --build nor footing.config.yaml names builds. */
 export { DEFAULT_BUILDS, DEFAULT_OUT_DIR };
@@ -58,7 +60,7 @@ const printError = (line: string) => process.stderr.write(`${line}\n`);
 
 export async function main(argv: string[]): Promise<number> {
   let exitCode: number = EXIT.pass;
-  const parser = yargs(argv)
+  let parser = yargs(argv)
     .scriptName('footing')
     .usage('$0 <command> [options]\n\nRegression harness for legged-robot controllers: replays contact scenarios through controller builds, scores friction-cone use, slip, falls and loop time, and gates merges.')
     .command(
@@ -70,10 +72,16 @@ export async function main(argv: string[]): Promise<number> {
           .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic)' })
           .option('resume', { type: 'boolean', describe: 'skip pairs already complete in --out', default: false })
           .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
-          .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false }),
+          .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false })
+          .option('history', { type: 'string', describe: 'also add the results to the history store (FILE, or alone: the config\'s history store)' }),
       async (args) => {
         const outcome = await runConfiguredSuite(runFlags(args), { log: printError });
         exitCode = outcome.exitCode === EXIT.fail && args['exit-zero'] ? EXIT.pass : outcome.exitCode;
+        if (args.history !== undefined && outcome.results) {
+          const added = addRunToHistory(outcome.results, { store: (args.history as string) || undefined, config: args.config as string | undefined });
+          for (const line of added.lines) printError(line);
+          if (added.exitCode !== 0) exitCode = Math.max(exitCode, added.exitCode);
+        }
       },
     )
     .command(
@@ -219,8 +227,9 @@ export async function main(argv: string[]): Promise<number> {
         });
         exitCode = outcome.exitCode;
       },
-    )
-    .demandCommand(1, 'name a command: run, check, gate, merge, report, margin, bench, config, cache (footing --help lists them)')
+    );
+  parser = registerHistoryCommands(parser, { print, printError, setExit: (code) => (exitCode = code) })
+    .demandCommand(1, 'name a command: run, check, gate, merge, report, margin, bench, config, cache, history, bisect (footing --help lists them)')
     .strict()
     .version(TOOL_VERSION)
     .help()

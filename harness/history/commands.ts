@@ -52,6 +52,7 @@ export interface HistoryAddArgs extends ProjectFlags {
   results: string[];
   /** File the nights under this commit (the nightly script passes its checkout's HEAD). */
   commit?: string;
+  /** Progress while a large set is written (the returned lines say what was done). */
   log?: (line: string) => void;
 }
 
@@ -62,9 +63,12 @@ export function historyAdd(args: HistoryAddArgs): HistoryOutcome {
   if (args.commit !== undefined && !/^[0-9a-f]{7,64}$/.test(args.commit)) {
     return { exitCode: HISTORY_EXIT.badInput, lines: [`footing history add: --commit ${JSON.stringify(args.commit)}: expected a commit id (7 to 64 hexadecimal digits)`] };
   }
-  const sets: { file: string; results: ResultsFile }[] = [];
+  const sets: { label: string; results: ResultsFile }[] = [];
   try {
-    for (const p of args.results) sets.push(readResultsFile(path.resolve(cwd, p)));
+    for (const p of args.results) {
+      const read = readResultsFile(path.resolve(cwd, p));
+      sets.push({ label: displayPath(read.file, cwd), results: read.results });
+    }
   } catch (error) {
     if (error instanceof ResultsReadError) return { exitCode: HISTORY_EXIT.badInput, lines: [`footing history add: ${error.message}`, 'footing history add: nothing was added'] };
     throw error;
@@ -73,16 +77,13 @@ export function historyAdd(args: HistoryAddArgs): HistoryOutcome {
 }
 
 /** The add step shared by `history add` and `run --history`: results already read. */
-export function addResultSets(sets: { file: string; results: ResultsFile }[], args: ProjectFlags & { commit?: string; log?: (line: string) => void }): HistoryOutcome {
+export function addResultSets(sets: { label: string; results: ResultsFile }[], args: ProjectFlags & { commit?: string; log?: (line: string) => void }): HistoryOutcome {
   const cwd = args.cwd ?? process.cwd();
   return withStore(args, false, (store, file) => {
     const lines: string[] = [];
-    const say = (line: string) => {
-      lines.push(line);
-      args.log?.(line);
-    };
+    const say = (line: string) => lines.push(line);
     for (const set of sets) {
-      const source = displayPath(set.file, cwd);
+      const source = set.label;
       say(`history: adding ${source} (${set.results.runs.length} runs) to ${displayPath(file, cwd)}`);
       const outcome = store.add(set.results, {
         commit: args.commit,
@@ -166,4 +167,9 @@ export function historyReport(args: HistoryReportArgs): HistoryOutcome {
     lines.push(`history report: ${model.nights.length} nights, ${model.scenarios.reduce((n, s) => n + s.lines.length, 0)} trend lines, ${model.changeCount} change point${model.changeCount === 1 ? '' : 's'} → ${displayPath(out, cwd)} (${Math.round(html.length / 1024)} KB)`);
     return { exitCode: HISTORY_EXIT.ok, lines };
   });
+}
+
+/** `footing run --history`: the run's results added as one night (labelled by the run, not a file). */
+export function addRunToHistory(results: ResultsFile, flags: ProjectFlags & { commit?: string }): HistoryOutcome {
+  return addResultSets([{ label: `footing run of ${results.startedAt}`, results }], flags);
 }
