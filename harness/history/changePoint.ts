@@ -6,7 +6,7 @@
 // odd outlier night, and ties (a deterministic simulator gives bit-identical nights) score 0.
 // Several changes are found by binary segmentation: test the whole series, split at a significant
 // change, test each side again (each test at α; a flat series stops after its first test, so its
-// false-alarm rate is that one test's).
+// false-alarm rate is that one test's), then re-place each change between its neighbours.
 //
 // Known limit of the method: K weighs splits near the middle most, so a change needs enough
 // nights on both sides — a perfect step in the middle needs n ≳ 15 nights to reach p < 0.01
@@ -113,5 +113,17 @@ export function detectChangePoints(values: readonly number[], options: ChangePoi
     });
     pending.push([from, split], [split, to]);
   }
-  return found.sort((a, b) => a.before - b.before);
+  found.sort((a, b) => a.before - b.before);
+  // Refinement: with two changes of like size the first split may land between them (every split
+  // there scores about the same); each change is re-placed by the test on the stretch between its
+  // neighbours, where it is the only change.
+  for (let k = 0; k < found.length; k++) {
+    const from = k === 0 ? 0 : found[k - 1].after;
+    const to = k === found.length - 1 ? values.length : found[k + 1].after;
+    const test = pettitt(values.slice(from, to), minSegment);
+    if (test === null || !(test.p < alpha)) continue;
+    const split = from + test.at + 1;
+    found[k] = { before: split - 1, after: split, p: test.p, statistic: test.statistic, shift: median(values.slice(split, to)) - median(values.slice(from, split)) };
+  }
+  return found;
 }
