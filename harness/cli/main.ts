@@ -16,6 +16,7 @@ import type { RunFlags } from '../config/resolve.js';
 import { TOOL_VERSION } from '../version.js';
 import { registerHistoryCommands } from '../history/cli.js';
 import { addRunToHistory } from '../history/commands.js';
+import { benchHistory, renderHistoryBench } from '../history/bench.js';
 
 /** What `footing run` replays when neither --build nor footing.config.yaml names builds. */
 export { DEFAULT_BUILDS, DEFAULT_OUT_DIR };
@@ -164,8 +165,13 @@ export async function main(argv: string[]): Promise<number> {
           .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
           .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
           .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
-          .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' }),
+          .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' })
+          .option('history', { type: 'boolean', describe: 'instead: load 365 nights × 200 scenarios × 3 builds (generated) into a history store, time a trend query' }),
       async (args) => {
+        if (args.history) {
+          for (const line of renderHistoryBench(await benchHistory({ log: printError, time_ms: args['time-ms'] as number | undefined }))) print(line);
+          return;
+        }
         if (args['suite-runs'] !== undefined) {
           const runs = args['suite-runs'] as number;
           if (!(Number.isInteger(runs) && runs > 0)) {

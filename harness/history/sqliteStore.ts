@@ -200,6 +200,11 @@ class SqliteHistoryStore implements HistoryStore {
     }
   }
 
+  counts(): { nights: number; runs: number; values: number } {
+    const count = (table: string) => this.db.prepare(`SELECT count(*) FROM ${table}`).pluck().get() as number;
+    return { nights: count('nights'), runs: count('runs'), values: count('metric_values') };
+  }
+
   schemaVersion(): number {
     return this.db.pragma('user_version', { simple: true }) as number;
   }

@@ -82,6 +82,8 @@ export interface HistoryStore {
   trend(query: TrendQuery): TrendPoint[];
   /** Every stored metric value, oldest night first. */
   exportRows(): Iterable<ExportRow>;
+  /** How much the store holds. */
+  counts(): { nights: number; runs: number; values: number };
   /** The schema version of the open store (schema.ts). */
   schemaVersion(): number;
   close(): void;

@@ -109,3 +109,15 @@ describe('history store (SQLite)', () => {
     expect(fullYear_MB).toBeLessThan(200);
   });
 });
+
+describe('history bench (smoke test: small shape, figures finite — no timed assertion)', () => {
+  it('loads the generated nights and measures the trend query', async () => {
+    const { benchHistory, renderHistoryBench } = await import('../../harness/history/bench.js');
+    const figures = await benchHistory({ nights: 12, scenarios: 5, builds: 2, time_ms: 20 });
+    expect(figures.runs).toBe(12 * 5 * 2);
+    expect(figures.metricValues).toBeGreaterThan(figures.runs * 20);
+    expect(figures.fileSize_MB).toBeGreaterThan(0);
+    expect(Number.isFinite(figures.scenarioTrend.mean_us) && figures.scenarioTrend.mean_us > 0).toBe(true);
+    expect(renderHistoryBench(figures)[0]).toMatch(/^history store: 12 nights × 5 scenarios × 2 builds = 120 runs/);
+  });
+});
