@@ -74,12 +74,13 @@ export async function main(argv: string[]): Promise<number> {
           .option('resume', { type: 'boolean', describe: 'skip pairs already complete in --out', default: false })
           .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
           .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false })
-          .option('history', { type: 'string', describe: 'also add the results to the history store (FILE, or alone: the config\'s history store)' }),
+          .option('history', { type: 'boolean', describe: 'also add the results to the history store as a night (docs/history.md)' })
+          .option('store', { type: 'string', describe: 'history store file for --history (default: the config\'s history, else .footing/history.sqlite)' }),
       async (args) => {
         const outcome = await runConfiguredSuite(runFlags(args), { log: printError });
         exitCode = outcome.exitCode === EXIT.fail && args['exit-zero'] ? EXIT.pass : outcome.exitCode;
-        if (args.history !== undefined && outcome.results) {
-          const added = addRunToHistory(outcome.results, { store: (args.history as string) || undefined, config: args.config as string | undefined });
+        if (args.history && outcome.results) {
+          const added = addRunToHistory(outcome.results, { store: args.store as string | undefined, config: args.config as string | undefined });
           for (const line of added.lines) printError(line);
           if (added.exitCode !== 0) exitCode = Math.max(exitCode, added.exitCode);
         }

@@ -25,7 +25,7 @@ function emit(io: CliIo, outcome: { exitCode: number; lines: string[] }): void {
 
 export function registerHistoryCommands(parser: Argv, io: CliIo): Argv {
   return parser
-    .command('history <verb>', 'the nights remembered: add results, list, export, trend report with change points', (y: Argv) =>
+    .command('history', 'the nights remembered: add results, list, export, trend report with change points', (y: Argv) =>
       y
         .command('add <results..>', 'add results sets (results.json or folders) to the history store; the same results twice change nothing', (a: Argv) =>
           projectOptions(a)

@@ -53,6 +53,10 @@ describe('footing bisect over a 16-commit controller repository (functions, no C
     const rule = await runBisectCommand({ good: repo.commits[0], bad: 'main', rule: 'frictionMargin.mean', paths: [SCENARIO], cwd: repo.dir });
     expect(rule.exitCode).toBe(2);
     expect(rule.lines[0]).toMatch(/--rule "frictionMargin\.mean": expected "gate", a gate rule name/);
+    const missing = await runBisectCommand({ good: repo.commits[0], bad: 'main', paths: ['scenarios/stand-wet.yaml'], cwd: repo.dir });
+    expect(missing.exitCode).toBe(2);
+    expect(missing.lines.join('\n')).toMatch(/stand-wet\.yaml/);
+    expect(missing.lines.at(-1)).toBe('footing bisect: nothing was built');
     expect(existsSync(path.join(repo.dir, '.footing-cache'))).toBe(false);
   });
 });

@@ -119,3 +119,17 @@ describe('footing history add, killed midway', () => {
     expect(retry.lines[1]).toMatch(/^history: added night .* 20000 runs/);
   });
 });
+
+describe('footing run --history (through the CLI function)', () => {
+  it('adds the finished run to the store as one night', async () => {
+    const { main } = await import('../../harness/cli/main.js');
+    const dir = mkdtempSync(path.join(tmpdir(), 'footing-run-history-'));
+    const scenario = path.join(FOOTING_ROOT, 'test', 'builds', 'git', 'fixtures', 'controller', 'scenarios', 'stand-dry.yaml');
+    const store = path.join(dir, 'nights.sqlite');
+    const code = await main(['run', scenario, '--build', 'governed=ref:governed', '--out', path.join(dir, 'out'), '--quiet', '--history', '--store', store]);
+    expect(code).toBe(0);
+    const listed = historyList({ store, cwd: dir });
+    expect(listed.lines[0]).toBe('1 night in nights.sqlite');
+    expect(listed.lines[1]).toMatch(/1 runs \(1 pass, 0 fail, 0 error\) · builds governed$/);
+  });
+});

@@ -9,6 +9,7 @@ import { resolveSettings, settingsErrorLines, type ResolvedSettings } from '../.
 import { defaultPolicy, type GatePolicy } from '../../gate/defaults.js';
 import { loadPolicy, PolicyError } from '../../gate/policy.js';
 import { writeFileAtomicSync } from '../../run/atomic.js';
+import { prepareScenarios } from '../../run/prepare.js';
 import { displayPath } from '../../scenario/paths.js';
 import { BisectInputError, runBisect } from './engine.js';
 import { JudgeError, parseJudge, type Judge } from './judge.js';
@@ -71,6 +72,9 @@ export async function runBisectCommand(args: BisectArgs): Promise<{ exitCode: 0 
     if (error instanceof PolicyError || error instanceof JudgeError || error instanceof GitRefError) return bad(`footing bisect: ${error.message}`);
     throw error;
   }
+  // The scenarios are checked before anything is built: a typo should not cost a build.
+  const scenarios = await prepareScenarios('bisect', settings.paths.value, cwd);
+  if (!scenarios.ok) return bad(...scenarios.lines.filter((line) => !line.startsWith('footing bisect: nothing was run')));
   if (range.commits.length === 0) return bad(`footing bisect: --good ${args.good} and --bad ${args.bad} are the same commit (${range.good.commit.slice(0, 12)})`);
   const outDir = args.out !== undefined ? path.resolve(cwd, args.out) : path.join(path.dirname(settings.out.value), 'bisect');
 
