@@ -15,6 +15,13 @@ export type BuildKind = 'module' | 'process' | 'reference';
 export const REFERENCE_BUILD_IDS = ['nominal', 'governed', 'clamped', 'qp', 'overtrusting'] as const;
 export type ReferenceBuildId = (typeof REFERENCE_BUILD_IDS)[number];
 
+/**
+ * What run, margin and bench use when no build is named: the four reference controllers of
+ * docs/reference-controllers.md (the demo-only over-trusting build is left out).
+ */
+export const DEFAULT_REFERENCE_BUILDS: readonly ReferenceBuildId[] = ['nominal', 'governed', 'clamped', 'qp'];
+export const DEFAULT_BUILDS: readonly string[] = DEFAULT_REFERENCE_BUILDS.map((id) => `ref:${id}`);
+
 export const MODULE_EXTENSIONS = ['.js', '.mjs', '.ts', '.mts'] as const;
 
 export type BuildOptionValue = string | number | boolean;

@@ -3,9 +3,9 @@
 // not one or is newer than this Footing, bad flags) with nothing written.
 
 import path from 'node:path';
-import { writeFileAtomicSync } from '../run/atomic.js';
-import { readResultsFile, ResultsReadError } from '../run/results/read.js';
-import type { ResultsFile } from '../run/results/types.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { readResultsFile, ResultsReadError } from '../results/read.js';
+import type { ResultsFile } from '../results/types.js';
 import { displayPath } from '../scenario/paths.js';
 import { CSV_HEADER, csvLine } from './csv.js';
 import { prepareStoreFolder } from './location.js';

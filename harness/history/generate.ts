@@ -3,7 +3,7 @@
 // plus seeded normal noise, and optionally one planted step (a change point whose night is known).
 
 import { SeededRandom } from '../plant/random.js';
-import { RESULTS_FORMAT, RESULTS_FORMAT_VERSION, type ResultsFile, type RunResult } from '../run/results/types.js';
+import { RESULTS_FORMAT, RESULTS_FORMAT_VERSION, type ResultsFile, type RunResult } from '../results/types.js';
 import type { ScoreMetrics } from '../score/types.js';
 
 export interface PlantedStep {

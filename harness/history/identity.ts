@@ -3,7 +3,7 @@
 // nights — their start times and wall times differ — and adding one file twice changes nothing.
 
 import { createHash } from 'node:crypto';
-import type { ResultsFile } from '../run/results/types.js';
+import type { ResultsFile } from '../results/types.js';
 
 function canonical(value: unknown): string {
   if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`;

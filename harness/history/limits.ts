@@ -13,27 +13,35 @@ export interface GateLimit {
 }
 
 /** Null when the rule allows any value (or the metric has no gate rule). */
-export function gateLimit(metric: string, reference: number, rules: GateRules, extra: { loopBudget_us?: number } = {}): GateLimit | null {
+export function gateLimit(metric: string, reference: number, rules: GateRules, _extra: { loopBudget_us?: number } = {}): GateLimit | null {
+  // A rule set to null in the policy is off: no line for it.
   switch (metric) {
-    case 'frictionMargin.min':
-      return { value: reference - rules.frictionMarginMinLoss, breaks: 'below', rule: `loss ≤ ${rules.frictionMarginMinLoss}` };
-    case 'frictionMargin.p05':
-      return { value: reference - rules.frictionMarginP05Loss, breaks: 'below', rule: `loss ≤ ${rules.frictionMarginP05Loss}` };
-    case 'slipDistance_m':
-      // A breach must exceed both allowances, so the line is the larger of the two.
-      return {
-        value: Math.max(reference + rules.slipDistanceGrowth_m, reference * (1 + rules.slipDistanceGrowthFraction)),
-        breaks: 'above',
-        rule: `growth ≤ +${Math.round(rules.slipDistanceGrowthFraction * 100)} % or ≤ +${rules.slipDistanceGrowth_m} m`,
-      };
+    case 'frictionMargin.min': {
+      const loss = rules.frictionMarginMinLoss;
+      return loss === null ? null : { value: reference - loss, breaks: 'below', rule: `loss ≤ ${loss}` };
+    }
+    case 'frictionMargin.p05': {
+      const loss = rules.frictionMarginP05Loss;
+      return loss === null ? null : { value: reference - loss, breaks: 'below', rule: `loss ≤ ${loss}` };
+    }
+    case 'slipDistance_m': {
+      const absolute_m = rules.slipDistanceGrowth_m;
+      const fraction = rules.slipDistanceGrowthFraction;
+      if (absolute_m === null && fraction === null) return null;
+      // A breach must exceed every allowance that is on, so the line is the larger of them.
+      const lines = [...(absolute_m === null ? [] : [reference + absolute_m]), ...(fraction === null ? [] : [reference * (1 + fraction)])];
+      const parts = [...(fraction === null ? [] : [`+${Math.round(fraction * 100)} %`]), ...(absolute_m === null ? [] : [`+${absolute_m} m`])];
+      return { value: Math.max(...lines), breaks: 'above', rule: `growth ≤ ${parts.join(' or ≤ ')}` };
+    }
     case 'violations.commanded':
-      return rules.allowNewCommandedViolations ? null : { value: reference, breaks: 'above', rule: 'no new commanded violations' };
+      return rules.allowNewCommandedViolations !== false ? null : { value: reference, breaks: 'above', rule: 'no new commanded violations' };
     case 'fell':
-      return rules.allowNewFalls || reference !== 0 ? null : { value: 0, breaks: 'above', rule: 'no new falls' };
+      return rules.allowNewFalls !== false || reference !== 0 ? null : { value: 0, breaks: 'above', rule: 'no new falls' };
     case 'loopTime_us.p99': {
-      const growth = reference * (1 + rules.loopTimeP99GrowthFraction);
-      const budget = !rules.allowLoopTimeOverBudget && extra.loopBudget_us !== undefined ? extra.loopBudget_us : Infinity;
-      return { value: Math.min(growth, budget), breaks: 'above', rule: `growth ≤ +${Math.round(rules.loopTimeP99GrowthFraction * 100)} %${budget < Infinity ? `, ≤ budget ${budget} µs` : ''}` };
+      // Single-pass p99 is gated only when the policy sets a growth fraction (off by default).
+      const fraction = rules.loopTimeP99GrowthFraction;
+      if (fraction === null) return null;
+      return { value: reference * (1 + fraction), breaks: 'above', rule: `single-pass growth ≤ +${Math.round(fraction * 100)} %` };
     }
     default:
       return null;

@@ -4,7 +4,7 @@
 // trend of a night is read per run, and per-foot lines would multiply the store by the leg count.
 // Booleans are stored as 0/1; strings (fallReason) are not metrics.
 
-import type { RunResult } from '../run/results/types.js';
+import type { RunResult } from '../results/types.js';
 
 const SKIPPED_KEYS = new Set(['perFoot', 'slipDistancePerFoot_m']);
 

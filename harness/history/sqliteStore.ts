@@ -6,7 +6,7 @@
 import { existsSync, mkdirSync } from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
-import type { ResultsFile } from '../run/results/types.js';
+import type { ResultsFile } from '../results/types.js';
 import { nightCommit, resultsIdentity } from './identity.js';
 import { runMetricValues } from './metrics.js';
 import { migrate, SCHEMA_VERSION } from './schema.js';

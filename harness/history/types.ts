@@ -3,7 +3,7 @@
 // trend report or the nightly script. A "night" is one results set (one `footing run`), however
 // often it is run.
 
-import type { ResultsFile, RunStatus } from '../run/results/types.js';
+import type { ResultsFile, RunStatus } from '../results/types.js';
 
 /** One results set in the store. */
 export interface NightSummary {

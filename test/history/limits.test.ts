@@ -3,7 +3,7 @@ import { defaultPolicy } from '../../harness/gate/defaults.js';
 import { gate } from '../../harness/gate/gate.js';
 import { generateNight } from '../../harness/history/generate.js';
 import { gateLimit } from '../../harness/history/limits.js';
-import type { ResultsFile, RunResult } from '../../harness/run/results/types.js';
+import type { ResultsFile, RunResult } from '../../harness/results/types.js';
 import type { ScoreMetrics } from '../../harness/score/types.js';
 
 const night = generateNight({ nights: 1, scenarios: 1, builds: 1, seed: 2 }, 0);
@@ -26,7 +26,6 @@ const cases: Case[] = [
   { metric: 'frictionMargin.p05', reference: 0.45, set: (m, v) => (m.frictionMargin.p05 = v) },
   { metric: 'slipDistance_m', reference: 0.004, set: (m, v) => (m.slipDistance_m = v) },
   { metric: 'slipDistance_m', reference: 0.2, set: (m, v) => (m.slipDistance_m = v) },
-  { metric: 'loopTime_us.p99', reference: 9, set: (m, v) => (m.loopTime_us.p99 = v) },
   { metric: 'violations.commanded', reference: 0, set: (m, v) => (m.violations.commanded = v) },
 ];
 
@@ -44,6 +43,12 @@ describe("the trend page's gate lines", () => {
       expect(brokenMetrics(base, withMetrics((m) => c.set(m, beyond)))).toContain(c.metric);
     });
   }
+
+  it('loopTime_us.p99: no line by default (a single pass is not gated), the growth line when the policy sets one', () => {
+    expect(gateLimit('loopTime_us.p99', 9, policy.rules)).toBeNull();
+    const gated = { ...policy.rules, loopTimeP99GrowthFraction: 0.25 };
+    expect(gateLimit('loopTime_us.p99', 9, gated)).toMatchObject({ value: 11.25, breaks: 'above' });
+  });
 
   it('fell: a night that falls where the first stood breaks "no new falls"; none is drawn once the first fell', () => {
     expect(gateLimit('fell', 0, policy.rules)).toMatchObject({ value: 0, breaks: 'above' });

@@ -19,18 +19,16 @@ git:
   entry: dist/controller.mjs
 builds:
   controller: git:HEAD
-gate:
-  loopTimeP99GrowthFraction: 1000
 jobs: 1
 out: out/footing
 `;
 
-// Minimum friction margin on stand-damp, measured with `footing run` of the fixture controller:
-// 0.200 at TRUST 1.0 and 0.083 at TRUST 1.6 (the minimum is the landing transient; p05 is
-// 0.55 → 0.31). An acceptance minimum of 0.15 passes the first and fails the second.
+// Minimum friction margin on stand-damp, measured with `footing run` of the fixture controller
+// from the settled start: 0.521 at TRUST 1.0 and 0.233 at TRUST 1.6 (no landing transient any
+// more: min equals p05). An acceptance minimum of 0.4 passes the first and fails the second.
 function marginScenario(dir: string): void {
   const damp = readFileSync(path.join(dir, 'scenarios', 'stand-damp.yaml'), 'utf8');
-  writeFileSync(path.join(dir, 'scenarios', 'stand-margin.yaml'), damp.replace('id: stand-damp', 'id: stand-margin').replace('acceptance: { mustNotFall: true }', 'acceptance: { mustNotFall: true, minFrictionMargin: 0.15 }'));
+  writeFileSync(path.join(dir, 'scenarios', 'stand-margin.yaml'), damp.replace('id: stand-damp', 'id: stand-margin').replace('acceptance: { mustNotFall: true }', 'acceptance: { mustNotFall: true, minFrictionMargin: 0.4 }'));
 }
 
 function nightly(dir: string, env: Record<string, string> = {}) {

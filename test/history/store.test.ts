@@ -9,7 +9,7 @@ import { runMetricValues } from '../../harness/history/metrics.js';
 import { SCHEMA_VERSION } from '../../harness/history/schema.js';
 import { openSqliteStore } from '../../harness/history/sqliteStore.js';
 import { HistoryStoreError } from '../../harness/history/types.js';
-import { sampleResults } from '../run/results/fixtures.js';
+import { sampleResults } from '../results/fixtures.js';
 
 const tempStore = () => path.join(mkdtempSync(path.join(tmpdir(), 'footing-history-')), 'history.sqlite');
 const options = { nights: 10, scenarios: 4, builds: 2, seed: 3 };

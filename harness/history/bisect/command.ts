@@ -8,7 +8,7 @@ import { GitRefError } from '../../builds/git.js';
 import { resolveSettings, settingsErrorLines, type ResolvedSettings } from '../../config/resolve.js';
 import { defaultPolicy, type GatePolicy } from '../../gate/defaults.js';
 import { loadPolicy, PolicyError } from '../../gate/policy.js';
-import { writeFileAtomicSync } from '../../run/atomic.js';
+import { writeFileAtomicSync } from '../../files/atomic.js';
 import { prepareScenarios } from '../../run/prepare.js';
 import { displayPath } from '../../scenario/paths.js';
 import { BisectInputError, runBisect } from './engine.js';

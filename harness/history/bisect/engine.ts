@@ -6,8 +6,8 @@
 
 import path from 'node:path';
 import { prepareGitBuild, type GitBuildRecipe } from '../../builds/git.js';
-import { runSuite } from '../../run/suite.js';
-import type { ResultsFile } from '../../run/results/types.js';
+import { runSuite } from '../../commands/run.js';
+import type { ResultsFile } from '../../results/types.js';
 import { TREND_METRICS, runMetricValues } from '../metrics.js';
 import { judgeResults, type Judge } from './judge.js';
 import type { CommitRange } from './range.js';

@@ -5,7 +5,7 @@
 import type { GatePolicy, GateRules } from '../../gate/defaults.js';
 import { GATE_RULE_NAMES } from '../../gate/defaults.js';
 import { gate } from '../../gate/gate.js';
-import type { ResultsFile } from '../../run/results/types.js';
+import type { ResultsFile } from '../../results/types.js';
 import { runMetricValues } from '../metrics.js';
 
 export type Judge =
