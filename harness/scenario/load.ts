@@ -177,8 +177,13 @@ export async function loadScenarioText(text: string, fileName: string, opts: Loa
   }
 }
 
+/** `.json` files are strict JSON; everything else is YAML (of which JSON is a subset). */
+function isJsonFile(fileName: string): boolean {
+  return /\.json$/i.test(fileName);
+}
+
 async function loadScenario(text: string, ctx: Context): Promise<LoadResult> {
-  const src = parseSource(text);
+  const src = parseSource(text, { json: isJsonFile(ctx.display) });
   const located = locator(ctx, src);
   if (src.errors.length) return { ok: false, errors: sortIssues(src.errors.map(located), ctx.display) };
   const warnings: FileIssue[] = src.warnings.map(located);
@@ -386,7 +391,7 @@ export function loadRobotText(text: string, fileName: string, opts: { cwd?: stri
   const absolute = path.resolve(cwd, fileName);
   const display = displayPath(absolute, cwd);
   try {
-    const src = parseSource(text);
+    const src = parseSource(text, { json: isJsonFile(display) });
     const ctx = { display } as Context;
     const located = locator(ctx, src);
     if (src.errors.length) return { ok: false, errors: src.errors.map(located) };
