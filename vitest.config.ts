@@ -3,10 +3,14 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
   test: {
     include: ['test/**/*.test.ts'],
+    // Repeated-trial checks run in `npm run soak` (vitest.soak.config.ts).
+    exclude: ['test/soak/**', '**/node_modules/**'],
     // Physics tests integrate seconds of simulated time; allow them room on a 2-core machine.
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',
+    // A private TMPDIR for the run; every junit.xml written there is checked by a strict XML parser.
+    globalSetup: ['test/support/globalSetup.ts'],
     // The JSON copy feeds the one-line tally .ci/run prints ("N passed, N failed").
     reporters: ['default', ['json', { outputFile: 'test/.artifacts/vitest-results.json' }]],
   },

@@ -2,7 +2,7 @@
 // field `bench` (results.schema.json accepts it; bench.schema.json is its full schema), so the
 // report and the gate read them from the same file as the runs.
 
-import type { ResultsFile } from '../run/results/types.js';
+import type { ResultsFile } from '../results/types.js';
 import type { BenchReport } from './types.js';
 import { validateBench } from './validate.js';
 

@@ -3,7 +3,7 @@
 // scenario; the closed loop (plant + build + sensing + scorer, i.e. what `footing run` does per
 // tick, without trace or plot recording); and for process builds the protocol overhead.
 
-import { createAction, STANCE, type Action } from '../builds/interface.js';
+import { createAction, STANCE, type Action } from '../contract/tick.js';
 import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/loader.js';
 import type { BuildSpec } from '../builds/spec.js';
 import { Plant } from '../plant/plant.js';

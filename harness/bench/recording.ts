@@ -3,7 +3,7 @@
 // not on constants. The ring is preallocated; recording copies into it, replay hands out its
 // entries in order and wraps.
 
-import { copyObservation, createObservation, type Action, type Observation } from '../builds/interface.js';
+import { copyObservation, createObservation, type Action, type Observation } from '../contract/tick.js';
 import type { OpenedBuild } from '../builds/loader.js';
 
 export class ObservationRing {

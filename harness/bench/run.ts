@@ -4,7 +4,7 @@
 
 import type { OpenBuildOptions } from '../builds/loader.js';
 import type { BuildSpec } from '../builds/spec.js';
-import { describeMachine } from '../run/results/runResult.js';
+import { describeMachine } from '../results/runResult.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { TOOL_VERSION } from '../version.js';
 import type { TaskBudget } from './batch.js';

@@ -2,7 +2,7 @@
 // the one place its version lives). Rates are per second of wall time; every figure comes from a
 // tinybench task whose statistics are kept as tinybench reports them, converted to one call.
 
-import type { MachineInfo } from '../run/results/types.js';
+import type { MachineInfo } from '../results/types.js';
 
 export const BENCH_FORMAT = 'footing-bench';
 export const BENCH_FORMAT_VERSION = 1;

@@ -1,22 +1,11 @@
 // Validation of bench figures against bench.schema.json (JSON Schema 2020-12, ajv).
 
-import { readFileSync } from 'node:fs';
-import { Ajv2020, type ValidateFunction } from 'ajv/dist/2020.js';
+import { schemaValidator } from '../files/schema.js';
 import type { BenchReport } from './types.js';
 
 export const BENCH_SCHEMA_URL = new URL('./bench.schema.json', import.meta.url);
 
-let compiled: ValidateFunction | undefined;
-
-function validator(): ValidateFunction {
-  if (compiled === undefined) {
-    const schema = JSON.parse(readFileSync(BENCH_SCHEMA_URL, 'utf8'));
-    // strictRequired off: `required` inside allOf-extended objects names fields declared beside it.
-    const ajv = new Ajv2020({ allErrors: true, strict: true, strictRequired: false, strictTypes: false });
-    compiled = ajv.compile(schema);
-  }
-  return compiled;
-}
+const validator = () => schemaValidator(BENCH_SCHEMA_URL);
 
 export type BenchValidation = { ok: true; value: BenchReport } | { ok: false; issues: string[] };
 

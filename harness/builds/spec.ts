@@ -9,11 +9,19 @@
 // numbers become numbers, everything else stays a string.
 
 import { isAbsolute, resolve } from 'node:path';
+import { suggestName } from '../files/suggest.js';
 
 export type BuildKind = 'module' | 'process' | 'reference';
 
 export const REFERENCE_BUILD_IDS = ['nominal', 'governed', 'clamped', 'qp', 'overtrusting'] as const;
 export type ReferenceBuildId = (typeof REFERENCE_BUILD_IDS)[number];
+
+/**
+ * What run, margin and bench use when no build is named: the four reference controllers of
+ * docs/reference-controllers.md (the demo-only over-trusting build is left out).
+ */
+export const DEFAULT_REFERENCE_BUILDS: readonly ReferenceBuildId[] = ['nominal', 'governed', 'clamped', 'qp'];
+export const DEFAULT_BUILDS: readonly string[] = DEFAULT_REFERENCE_BUILDS.map((id) => `ref:${id}`);
 
 export const MODULE_EXTENSIONS = ['.js', '.mjs', '.ts', '.mts'] as const;
 
@@ -79,7 +87,8 @@ export function parseBuildSpec(text: string, cwd: string): BuildSpec {
     const { head, options } = splitOptions(body.slice(4), fail);
     const id = head.trim();
     if (!(REFERENCE_BUILD_IDS as readonly string[]).includes(id)) {
-      fail(`unknown reference build '${id}'; expected one of ${REFERENCE_BUILD_IDS.join(', ')}`);
+      const guess = suggestName(id, REFERENCE_BUILD_IDS);
+      fail(`unknown reference build '${id}'${guess === undefined ? '' : `; did you mean 'ref:${guess}'?`} (expected one of ${REFERENCE_BUILD_IDS.join(', ')})`);
     }
     return { name: name ?? id, kind: 'reference', entry: id, args: [], options, cwd, text };
   }

@@ -1,24 +1,43 @@
-// The thin command-line layer: yargs parses, each command calls a function the tests can call
-// directly, and the function's exit code becomes the process's.
+// The thin command-line layer: a yargs table over harness/commands. Each row parses its options,
+// calls one command function (the same function the tests call) and prints the lines it returns;
+// the command's exit code becomes the process's.
 
 import yargs, { type Argv } from 'yargs';
-import { checkPaths } from '../scenario/index.js';
-import { runGate } from '../gate/runGate.js';
-import { DEFAULT_SCENARIO_PATHS, EXIT } from '../run/suite.js';
-import { mergeResults } from '../run/merge.js';
-import { runReportCommand } from '../report/command.js';
-import { runMarginCommand } from '../margin/command.js';
-import { runBenchCommand } from '../bench/command.js';
-import { benchSuite, renderSuiteBench } from '../bench/suite.js';
-import { clearCache, printConfig, runConfiguredSuite } from '../config/commands.js';
-import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../config/defaults.js';
+import { runBenchCommand } from '../commands/bench.js';
+import { clearCache } from '../commands/cache.js';
+import { checkPaths } from '../commands/check.js';
+import { printConfig } from '../commands/config.js';
+import { EXIT, type ExitCode } from '../commands/exit.js';
+import { runGate } from '../commands/gate.js';
+import { MARGIN_COMMAND_DEFAULTS, runMarginCommand } from '../commands/margin.js';
+import { mergeResults } from '../commands/merge.js';
+import { runReportCommand } from '../commands/report.js';
+import { runConfiguredSuite } from '../commands/run.js';
+import type { CommandOutcome } from '../commands/skeleton.js';
+import { DEFAULT_BUILDS, DEFAULT_OUT_DIR, DEFAULT_SCENARIO_PATHS } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
-import { TOOL_VERSION } from '../version.js';
+import { benchHistory, renderHistoryBench } from '../history/bench.js';
+import { registerHistoryCommands } from '../history/cli.js';
+import { addRunToHistory } from '../history/commands.js';
 import { importCommand, replayCommand } from '../recorded/commands.js';
+import { TOOL_VERSION } from '../version.js';
 import { statSync } from 'node:fs';
 
 /** What `footing run` replays when neither --build nor footing.config.yaml names builds. */
 export { DEFAULT_BUILDS, DEFAULT_OUT_DIR };
+
+type Args = Record<string, unknown>;
+
+/** Where a command's returned lines go: run and margin log theirs to stderr as they happen. */
+type Printing = 'logged' | 'stdout' | 'stderrUnlessPass' | 'stderrOnBadInput';
+
+interface CommandRow {
+  usage: string;
+  describe: string;
+  options: (y: Argv) => Argv;
+  printing: Printing;
+  call: (args: Args, log: (line: string) => void) => Promise<CommandOutcome>;
+}
 
 /** The options `run` and `config --print` share: what decides the resolved settings. */
 function settingOptions(y: Argv): Argv {
@@ -35,7 +54,7 @@ function settingOptions(y: Argv): Argv {
     .option('bench', { type: 'boolean', describe: 'also bench every build (governor rate, tick time, real-time factor) into results.json' });
 }
 
-function runFlags(args: Record<string, unknown>): RunFlags {
+function runFlags(args: Args): RunFlags {
   const paths = args.paths as string[] | undefined;
   return {
     config: args.config as string | undefined,
@@ -55,211 +74,209 @@ function runFlags(args: Record<string, unknown>): RunFlags {
   };
 }
 
+const COMMANDS: CommandRow[] = [
+  {
+    usage: 'run [paths..]',
+    describe: 'replay scenarios through builds, score every run, write the results folder',
+    options: (y) =>
+      settingOptions(y)
+        .positional('paths', { type: 'string', array: true, describe: `scenario files or folders (default: the suite's, else ${DEFAULT_SCENARIO_PATHS.join(' ')})` })
+        .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic)' })
+        .option('resume', { type: 'boolean', describe: 'skip pairs already complete in --out', default: false })
+        .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
+        .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false })
+        .option('history', { type: 'boolean', describe: 'also add the results to the history store as a night (docs/history.md)' })
+        .option('store', { type: 'string', describe: 'history store file for --history (default: the config\'s history, else .footing/history.sqlite)' }),
+    printing: 'logged',
+    call: async (args, log) => {
+      const outcome = await runConfiguredSuite(runFlags(args), { log, exitZero: args['exit-zero'] as boolean });
+      if (!args.history || !outcome.results) return outcome;
+      const added = addRunToHistory(outcome.results, { store: args.store as string | undefined, config: args.config as string | undefined });
+      for (const line of added.lines) log(line);
+      return added.exitCode === 0 ? outcome : { ...outcome, exitCode: Math.max(outcome.exitCode, added.exitCode) as ExitCode };
+    },
+  },
+  {
+    usage: 'config',
+    describe: 'show the resolved configuration and where each value came from (file, flag, default)',
+    options: (y) =>
+      settingOptions(y)
+        .option('print', { type: 'boolean', describe: 'print the resolved configuration', default: true })
+        .option('json', { type: 'boolean', describe: 'as JSON', default: false }),
+    printing: 'stderrUnlessPass',
+    call: (args) => printConfig(runFlags(args), { json: args.json as boolean }),
+  },
+  {
+    usage: 'cache',
+    describe: 'manage the cache of git-ref builds (.footing-cache/ by default)',
+    options: (y) =>
+      y
+        .option('clear', { type: 'boolean', demandOption: true, describe: 'remove every cached build and its worktree' })
+        .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' }),
+    printing: 'stderrUnlessPass',
+    call: (args) => clearCache({ config: args.config as string | undefined }),
+  },
+  {
+    usage: 'check [paths..]',
+    describe: 'validate scenario files (exit 0 all valid, 2 otherwise)',
+    options: (y) => y.positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS }),
+    printing: 'stdout',
+    call: (args) => checkPaths(args.paths as string[]),
+  },
+  {
+    usage: 'gate',
+    describe: 'compare two result sets; exit 1 when the candidate breaks a policy rule',
+    options: (y) =>
+      y
+        .option('baseline', { type: 'string', demandOption: true, describe: 'results.json or results folder of the reference' })
+        .option('candidate', { type: 'string', demandOption: true, describe: 'results.json or results folder to judge' })
+        .option('policy', { type: 'string', describe: 'gate policy YAML' })
+        .option('pair', { type: 'string', array: true, describe: 'pair builds explicitly: BASE=CAND (repeatable)' })
+        .option('out', { type: 'string', describe: 'folder for gate.md (default: the candidate folder)' }),
+    printing: 'stdout',
+    call: (args) =>
+      runGate({
+        baseline: args.baseline as string,
+        candidate: args.candidate as string,
+        policyFile: args.policy as string | undefined,
+        pairs: args.pair as string[] | undefined,
+        out: args.out as string | undefined,
+      }),
+  },
+  {
+    usage: 'merge <dirs..>',
+    describe: 'combine shard result folders into one results set',
+    options: (y) =>
+      y
+        .positional('dirs', { type: 'string', array: true, demandOption: true })
+        .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'merged results folder' }),
+    printing: 'stderrUnlessPass',
+    call: async (args) => mergeResults(args.dirs as string[], args.out as string),
+  },
+  {
+    usage: 'bench',
+    describe: 'measure governor update rate, controller tick time and closed-loop real-time factor per build',
+    options: (y) =>
+      y
+        .option('build', { alias: 'b', type: 'string', array: true, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
+        .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
+        .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
+        .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
+        .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' })
+        .option('history', { type: 'boolean', describe: 'instead: load 365 nights × 200 scenarios × 3 builds (generated) into a history store, time a trend query' }),
+    printing: 'stderrOnBadInput',
+    call: async (args, log) =>
+      args.history
+        ? { exitCode: EXIT.pass, lines: renderHistoryBench(await benchHistory({ log, time_ms: args['time-ms'] as number | undefined })) }
+        : runBenchCommand({
+        builds: args.build as string[],
+        scenario: args.scenario as string | undefined,
+        json: args.json as string | undefined,
+        time_ms: args['time-ms'] as number | undefined,
+        suiteRuns: args['suite-runs'] as number | undefined,
+      }),
+  },
+  {
+    usage: 'report <results..>',
+    describe: 're-render the HTML report from saved results (and their series/traces) without re-running',
+    options: (y) =>
+      y
+        .positional('results', { type: 'string', array: true, demandOption: true, describe: 'results.json files or results folders' })
+        .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'HTML file to write' })
+        .option('baseline', { type: 'string', describe: 'build to compare the others with' })
+        .option('bench', { type: 'string', describe: 'bench JSON (footing bench --json) to show' }),
+    printing: 'stderrOnBadInput',
+    call: (args) =>
+      runReportCommand({
+        results: args.results as string[],
+        out: args.out as string,
+        baseline: args.baseline as string | undefined,
+        bench: args.bench as string | undefined,
+      }),
+  },
+  {
+    usage: 'margin [paths..]',
+    describe: 'find, per scenario and build, the lowest friction scale and the largest push scale it survives',
+    options: (y) =>
+      y
+        .positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS, describe: 'scenario files or folders' })
+        .option('build', { alias: 'b', type: 'string', array: true, default: DEFAULT_BUILDS, describe: 'build spec (repeatable)' })
+        .option('out', { alias: 'o', type: 'string', default: MARGIN_COMMAND_DEFAULTS.out, describe: 'results folder' })
+        .option('tolerance', { type: 'number', default: MARGIN_COMMAND_DEFAULTS.tolerance, describe: 'bisection tolerance on the scale' })
+        .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' }),
+    printing: 'logged',
+    call: (args, log) =>
+      runMarginCommand({
+        paths: args.paths as string[],
+        build: args.build as string[],
+        out: args.out as string,
+        tolerance: args.tolerance as number,
+        jobs: args.jobs as number | undefined,
+        log,
+      }),
+  },
+  {
+    usage: 'import <log>',
+    describe: 'turn a robot log (CSV or MCAP) into a scenario: commands, push, identified friction, recorded trajectory',
+    options: (y) =>
+      y
+        .positional('log', { type: 'string', demandOption: true, describe: 'log file (.csv or .mcap)' })
+        .option('map', { type: 'string', demandOption: true, describe: 'log map file (format footing-log-map, docs/recorded.md)' })
+        .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'folder for the scenario and its files' })
+        .option('id', { type: 'string', describe: "scenario id (default: the map's, else the log's name)" }),
+    printing: 'stderrUnlessPass',
+    call: async (args) => {
+      let logBytes = 0;
+      try {
+        logBytes = statSync(args.log as string).size;
+      } catch {
+        // Reported by the import.
+      }
+      const outcome = await importCommand({ log: args.log as string, map: args.map as string, out: args.out as string, id: args.id as string | undefined, progress: process.stderr.isTTY === true, logBytes });
+      return { exitCode: outcome.exitCode as ExitCode, lines: outcome.lines };
+    },
+  },
+  {
+    usage: 'replay <scenario>',
+    describe: 'run a build on an imported scenario and score how closely it reproduces the recording (fidelity.json)',
+    options: (y) =>
+      y
+        .positional('scenario', { type: 'string', demandOption: true, describe: 'scenario written by footing import' })
+        .option('build', { alias: 'b', type: 'string', demandOption: true, describe: 'build spec (as for run)' })
+        .option('out', { alias: 'o', type: 'string', default: 'reports/out/replay', describe: 'folder for fidelity.json' }),
+    printing: 'stderrOnBadInput',
+    call: async (args) => {
+      const outcome = await replayCommand({ scenario: args.scenario as string, build: args.build as string, out: args.out as string });
+      return { exitCode: outcome.exitCode as ExitCode, lines: outcome.lines };
+    },
+  },
+];
+
 const print = (line: string) => process.stdout.write(`${line}\n`);
 const printError = (line: string) => process.stderr.write(`${line}\n`);
 
+function printOutcome(printing: Printing, outcome: CommandOutcome): void {
+  if (printing === 'logged') return;
+  const toStderr =
+    (printing === 'stderrUnlessPass' && outcome.exitCode !== EXIT.pass) || (printing === 'stderrOnBadInput' && outcome.exitCode === EXIT.badInput);
+  for (const line of outcome.lines) (toStderr ? printError : print)(line);
+}
+
 export async function main(argv: string[]): Promise<number> {
-  let exitCode: number = EXIT.pass;
-  const parser = yargs(argv)
+  let exitCode: ExitCode = EXIT.pass;
+  let parser = yargs(argv)
     .scriptName('footing')
-    .usage('$0 <command> [options]\n\nRegression harness for legged-robot controllers: replays contact scenarios through controller builds, scores friction-cone use, slip, falls and loop time, and gates merges.')
-    .command(
-      'run [paths..]',
-      'replay scenarios through builds, score every run, write the results folder',
-      (y: Argv) =>
-        settingOptions(y)
-          .positional('paths', { type: 'string', array: true, describe: `scenario files or folders (default: the suite's, else ${DEFAULT_SCENARIO_PATHS.join(' ')})` })
-          .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic)' })
-          .option('resume', { type: 'boolean', describe: 'skip pairs already complete in --out', default: false })
-          .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
-          .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false }),
-      async (args) => {
-        const outcome = await runConfiguredSuite(runFlags(args), { log: printError });
-        exitCode = outcome.exitCode === EXIT.fail && args['exit-zero'] ? EXIT.pass : outcome.exitCode;
-      },
-    )
-    .command(
-      'config',
-      'show the resolved configuration and where each value came from (file, flag, default)',
-      (y: Argv) =>
-        settingOptions(y)
-          .option('print', { type: 'boolean', describe: 'print the resolved configuration', default: true })
-          .option('json', { type: 'boolean', describe: 'as JSON', default: false }),
-      async (args) => {
-        const outcome = await printConfig(runFlags(args), { json: args.json as boolean });
-        for (const line of outcome.lines) (outcome.exitCode === EXIT.pass ? print : printError)(line);
-        exitCode = outcome.exitCode;
-      },
-    )
-    .command(
-      'cache',
-      'manage the cache of git-ref builds (.footing-cache/ by default)',
-      (y: Argv) =>
-        y
-          .option('clear', { type: 'boolean', demandOption: true, describe: 'remove every cached build and its worktree' })
-          .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' }),
-      async (args) => {
-        const outcome = await clearCache({ config: args.config as string | undefined });
-        for (const line of outcome.lines) (outcome.exitCode === EXIT.pass ? print : printError)(line);
-        exitCode = outcome.exitCode;
-      },
-    )
-    .command(
-      'check [paths..]',
-      'validate scenario files (exit 0 all valid, 2 otherwise)',
-      (y: Argv) => y.positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS }),
-      async (args) => {
-        const outcome = await checkPaths(args.paths as string[]);
-        for (const line of outcome.lines) print(line);
-        exitCode = outcome.exitCode;
-      },
-    )
-    .command(
-      'gate',
-      'compare two result sets; exit 1 when the candidate breaks a policy rule',
-      (y: Argv) =>
-        y
-          .option('baseline', { type: 'string', demandOption: true, describe: 'results.json or results folder of the reference' })
-          .option('candidate', { type: 'string', demandOption: true, describe: 'results.json or results folder to judge' })
-          .option('policy', { type: 'string', describe: 'gate policy YAML' })
-          .option('pair', { type: 'string', array: true, describe: 'pair builds explicitly: BASE=CAND (repeatable)' })
-          .option('out', { type: 'string', describe: 'folder for gate.md (default: the candidate folder)' }),
-      async (args) => {
-        const outcome = await runGate({
-          baseline: args.baseline as string,
-          candidate: args.candidate as string,
-          policyFile: args.policy as string | undefined,
-          pairs: args.pair as string[] | undefined,
-          out: args.out as string | undefined,
-        });
-        print(outcome.text);
-        exitCode = outcome.exitCode;
-      },
-    )
-    .command(
-      'merge <dirs..>',
-      'combine shard result folders into one results set',
-      (y: Argv) =>
-        y
-          .positional('dirs', { type: 'string', array: true, demandOption: true })
-          .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'merged results folder' }),
-      async (args) => {
-        const outcome = mergeResults(args.dirs as string[], args.out as string);
-        for (const line of outcome.lines) (outcome.exitCode === 0 ? print : printError)(line);
-        exitCode = outcome.exitCode;
-      },
-    )
-    .command(
-      'bench',
-      'measure governor update rate, controller tick time and closed-loop real-time factor per build',
-      (y: Argv) =>
-        y
-          .option('build', { alias: 'b', type: 'string', array: true, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
-          .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
-          .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
-          .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
-          .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' }),
-      async (args) => {
-        if (args['suite-runs'] !== undefined) {
-          const runs = args['suite-runs'] as number;
-          if (!(Number.isInteger(runs) && runs > 0)) {
-            printError(`footing bench: --suite-runs ${runs}: expected a positive whole number`);
-            exitCode = EXIT.badInput;
-            return;
-          }
-          for (const line of renderSuiteBench(await benchSuite({ runs }))) print(line);
-          return;
-        }
-        const outcome = await runBenchCommand({
-          builds: args.build as string[],
-          scenario: args.scenario as string | undefined,
-          json: args.json as string | undefined,
-          time_ms: args['time-ms'] as number | undefined,
-        });
-        for (const line of outcome.lines) (outcome.exitCode === 2 ? printError : print)(line);
-        exitCode = outcome.exitCode;
-      },
-    )
-    .command(
-      'report <results..>',
-      're-render the HTML report from saved results (and their series/traces) without re-running',
-      (y: Argv) =>
-        y
-          .positional('results', { type: 'string', array: true, demandOption: true, describe: 'results.json files or results folders' })
-          .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'HTML file to write' })
-          .option('baseline', { type: 'string', describe: 'build to compare the others with' })
-          .option('bench', { type: 'string', describe: 'bench JSON (footing bench --json) to show' }),
-      async (args) => {
-        const outcome = await runReportCommand({
-          results: args.results as string[],
-          out: args.out as string,
-          baseline: args.baseline as string | undefined,
-          bench: args.bench as string | undefined,
-        });
-        for (const line of outcome.lines) (outcome.exitCode === 2 ? printError : print)(line);
-        exitCode = outcome.exitCode;
-      },
-    )
-    .command(
-      'margin [paths..]',
-      'find, per scenario and build, the lowest friction scale and the largest push scale it survives',
-      (y: Argv) =>
-        y
-          .positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS, describe: 'scenario files or folders' })
-          .option('build', { alias: 'b', type: 'string', array: true, default: DEFAULT_BUILDS, describe: 'build spec (repeatable)' })
-          .option('out', { alias: 'o', type: 'string', default: 'reports/out/margin', describe: 'results folder' })
-          .option('tolerance', { type: 'number', default: 0.01, describe: 'bisection tolerance on the scale' })
-          .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' }),
-      async (args) => {
-        const outcome = await runMarginCommand({
-          paths: args.paths as string[],
-          build: args.build as string[],
-          out: args.out as string,
-          tolerance: args.tolerance as number,
-          jobs: args.jobs as number | undefined,
-          log: printError,
-        });
-        exitCode = outcome.exitCode;
-      },
-    )
-    // --- recorded runs (harness/recorded): import a robot log, replay it ---
-    .command(
-      'import <log>',
-      'turn a robot log (CSV or MCAP) into a scenario: commands, push, identified friction, recorded trajectory',
-      (y: Argv) =>
-        y
-          .positional('log', { type: 'string', demandOption: true, describe: 'log file (.csv or .mcap)' })
-          .option('map', { type: 'string', demandOption: true, describe: 'log map file (format footing-log-map, docs/recorded.md)' })
-          .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'folder for the scenario and its files' })
-          .option('id', { type: 'string', describe: "scenario id (default: the map's, else the log's name)" }),
-      async (args) => {
-        let logBytes = 0;
-        try {
-          logBytes = statSync(args.log as string).size;
-        } catch {
-          // Reported by the import.
-        }
-        const outcome = await importCommand({ log: args.log as string, map: args.map as string, out: args.out as string, id: args.id as string | undefined, progress: process.stderr.isTTY === true, logBytes });
-        for (const line of outcome.lines) (outcome.exitCode === 0 ? print : printError)(line);
-        exitCode = outcome.exitCode;
-      },
-    )
-    .command(
-      'replay <scenario>',
-      'run a build on an imported scenario and score how closely it reproduces the recording (fidelity.json)',
-      (y: Argv) =>
-        y
-          .positional('scenario', { type: 'string', demandOption: true, describe: 'scenario written by footing import' })
-          .option('build', { alias: 'b', type: 'string', demandOption: true, describe: 'build spec (as for run)' })
-          .option('out', { alias: 'o', type: 'string', default: 'reports/out/replay', describe: 'folder for fidelity.json' }),
-      async (args) => {
-        const outcome = await replayCommand({ scenario: args.scenario as string, build: args.build as string, out: args.out as string });
-        for (const line of outcome.lines) (outcome.exitCode === 2 ? printError : print)(line);
-        exitCode = outcome.exitCode;
-      },
-    )
-    // --- end recorded runs ---
-    .demandCommand(1, 'name a command: run, check, gate, merge, report, margin, bench, config, cache, import, replay (footing --help lists them)')
+    .usage('$0 <command> [options]\n\nRegression harness for legged-robot controllers: replays contact scenarios through controller builds, scores friction-cone use, slip, falls and loop time, and gates merges.');
+  const setExit = (code: number) => (exitCode = code as ExitCode);
+  for (const row of COMMANDS) {
+    parser = parser.command(row.usage, row.describe, row.options, async (args) => {
+      const outcome = await row.call(args, printError);
+      printOutcome(row.printing, outcome);
+      exitCode = outcome.exitCode;
+    });
+  }
+  parser = registerHistoryCommands(parser, { print, printError, setExit })
+    .demandCommand(1, `name a command: ${[...COMMANDS.map((row) => row.usage.split(' ')[0]), 'history', 'bisect'].join(', ')} (footing --help lists them)`)
     .strict()
     .version(TOOL_VERSION)
     .help()

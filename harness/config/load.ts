@@ -1,25 +1,26 @@
 // Finding, parsing and validating footing.config.yaml. Errors name the file, line, column and
 // dotted path, the value and what is expected, with a did-you-mean for misspelt keys and names —
 // the same form as the gate policy's (harness/gate/policy.ts) and located with the same helper
-// (harness/gate/yamlLocation.ts).
+// (positionOf, harness/files/source.ts).
 
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
-import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
-import { LineCounter, parseDocument, stringify, type Document } from 'yaml';
+import type { ErrorObject } from 'ajv/dist/2020.js';
+import { stringify, type Document, type LineCounter } from 'yaml';
 import { BuildSpecError, parseBuildSpec } from '../builds/spec.js';
 import type { GatePolicy } from '../gate/defaults.js';
 import { formatPolicyIssue, parsePolicy, POLICY_SCHEMA_URL } from '../gate/policy.js';
-import { locate } from '../gate/yamlLocation.js';
 import { displayPath } from '../scenario/paths.js';
-import { kindOf, showValue } from '../scenario/issue.js';
-import { didYouMean } from './suggest.js';
-import { CONFIG_FILE_NAMES, type ConfigData, type ConfigIssue, type GitBuildData } from './types.js';
+import { schemaValidator } from '../files/schema.js';
+import { parseSettingsYaml, positionOf, valueAt } from '../files/source.js';
+import { didYouMean } from '../files/suggest.js';
+import { kindOf, pointerSegments, showValue, type FileIssue } from '../files/issue.js';
+import { CONFIG_FILE_NAMES, type ConfigData, type GitBuildData } from './types.js';
 
 export const CONFIG_SCHEMA_URL = new URL('./config.schema.json', import.meta.url);
 
 export class ConfigError extends Error {
-  constructor(readonly issues: ConfigIssue[]) {
+  constructor(readonly issues: FileIssue[]) {
     super(issues.map(formatPolicyIssue).join('\n'));
     this.name = 'ConfigError';
   }
@@ -39,15 +40,7 @@ export interface LoadedConfig {
   inlinePolicy?: GatePolicy;
 }
 
-let compiled: ValidateFunction | undefined;
-function validator(): ValidateFunction {
-  if (compiled === undefined) {
-    const ajv = new Ajv2020({ allErrors: true, strict: true, strictTypes: false, verbose: true });
-    ajv.addSchema(JSON.parse(readFileSync(POLICY_SCHEMA_URL, 'utf8')));
-    compiled = ajv.compile(JSON.parse(readFileSync(CONFIG_SCHEMA_URL, 'utf8')));
-  }
-  return compiled;
-}
+const validator = () => schemaValidator(CONFIG_SCHEMA_URL, { references: [POLICY_SCHEMA_URL] });
 
 /** The config file to use: `--config FILE`, else footing.config.yaml in `cwd`; null when there is none. */
 export function findConfigFile(cwd: string, given?: string): string | null {
@@ -73,19 +66,11 @@ export function loadConfig(file: string, cwd = process.cwd()): LoadedConfig {
 /** Parses config text; `file` (absolute) names it in messages and anchors its relative paths. */
 export function parseConfig(text: string, file: string, cwd = process.cwd()): LoadedConfig {
   const display = displayPath(file, cwd);
-  const lineCounter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
-  if (doc.errors.length > 0) {
-    throw new ConfigError(
-      doc.errors.map((e) => {
-        const pos = e.linePos?.[0];
-        return { file: display, line: pos?.line, col: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
-      }),
-    );
-  }
+  const { doc, lineCounter, issues: syntax } = parseSettingsYaml(text, display);
+  if (syntax.length > 0) throw new ConfigError(syntax);
   const value: unknown = doc.toJS() ?? {};
   const where = (segments: readonly (string | number)[], options: { key?: boolean } = {}) => {
-    const pos = locate(doc, lineCounter, segments.map(String), options);
+    const pos = positionOf(doc, lineCounter, segments.map(String), options.key ? 'key' : 'value');
     return { line: pos?.line, col: pos?.col, label: pos ? `${display}:${pos.line}:${pos.col}` : display };
   };
   const validate = validator();
@@ -102,12 +87,12 @@ export function parseConfig(text: string, file: string, cwd = process.cwd()): Lo
 }
 
 /** Names used across sections must exist: suite builds, baselines, and what git:REF builds need. */
-function checkReferences(config: LoadedConfig): ConfigIssue[] {
+function checkReferences(config: LoadedConfig): FileIssue[] {
   const { data, display } = config;
-  const issues: ConfigIssue[] = [];
+  const issues: FileIssue[] = [];
   const issue = (segments: (string | number)[], message: string, key = false) => {
     const pos = config.where(segments, { key });
-    issues.push({ file: display, line: pos.line, col: pos.col, path: segments.join('.'), message });
+    issues.push({ file: display, line: pos.line, column: pos.col, path: segments.join('.'), message });
   };
   const buildNames = Object.keys(data.builds ?? {});
   const known = (name: string) => buildNames.includes(name);
@@ -176,27 +161,17 @@ export function recipeOf(data: ConfigData, build: Partial<GitBuildData>): GitBui
 
 // --- ajv errors → issues -------------------------------------------------------------------
 
-function decodePointer(pointer: string): string[] {
-  return pointer === '' ? [] : pointer.slice(1).split('/').map((s) => s.replace(/~1/g, '/').replace(/~0/g, '~'));
-}
-
-function valueAt(root: unknown, segments: readonly string[]): unknown {
-  let value = root;
-  for (const s of segments) value = value !== null && typeof value === 'object' ? (value as Record<string, unknown>)[s] : undefined;
-  return value;
-}
-
 function knownKeys(schema: unknown): string[] {
   const properties = (schema as { properties?: Record<string, unknown> } | undefined)?.properties;
   return properties ? Object.keys(properties) : [];
 }
 
-function translate(errors: ErrorObject[], value: unknown, doc: Document, lineCounter: LineCounter, file: string): ConfigIssue[] {
-  const issues: ConfigIssue[] = [];
+function translate(errors: ErrorObject[], value: unknown, doc: Document, lineCounter: LineCounter, file: string): FileIssue[] {
+  const issues: FileIssue[] = [];
   const seen = new Set<string>();
   const push = (segments: string[], message: string, key = false) => {
-    const pos = locate(doc, lineCounter, segments, { key });
-    const issue = { file, line: pos?.line, col: pos?.col, path: segments.join('.'), message };
+    const pos = positionOf(doc, lineCounter, segments, key ? 'key' : 'value');
+    const issue = { file, line: pos?.line, column: pos?.col, path: segments.join('.'), message };
     const text = formatPolicyIssue(issue);
     if (!seen.has(text)) {
       seen.add(text);
@@ -204,7 +179,7 @@ function translate(errors: ErrorObject[], value: unknown, doc: Document, lineCou
     }
   };
   for (const error of errors) {
-    const segments = decodePointer(error.instancePath);
+    const segments = pointerSegments(error.instancePath);
     const params = error.params as Record<string, unknown>;
     const v = valueAt(value, segments);
     switch (error.keyword) {
@@ -260,6 +235,6 @@ function translate(errors: ErrorObject[], value: unknown, doc: Document, lineCou
   return issues;
 }
 
-function sortIssues(issues: ConfigIssue[]): ConfigIssue[] {
-  return [...issues].sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.col ?? 0) - (b.col ?? 0));
+function sortIssues(issues: FileIssue[]): FileIssue[] {
+  return [...issues].sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.column ?? 0) - (b.column ?? 0));
 }

@@ -15,8 +15,9 @@ import { displayPath } from '../scenario/paths.js';
 import { DEFAULT_BUILDS, DEFAULT_CACHE_DIR, DEFAULT_OUT_DIR, DEFAULT_SCENARIO_PATHS } from './defaults.js';
 import { expandGlob, isGlob } from './glob.js';
 import { ConfigError, findConfigFile, gitRefOfSpec, loadConfig, recipeOf, type LoadedConfig } from './load.js';
-import { didYouMean } from './suggest.js';
-import type { ConfigIssue, GitBuildData, Origin, Sourced, SuiteData } from './types.js';
+import { didYouMean } from '../files/suggest.js';
+import type { FileIssue } from '../files/issue.js';
+import type { GitBuildData, Origin, Sourced, SuiteData } from './types.js';
 
 /** The flags of `footing run` (and `config --print`, `cache --clear`) as plain data. */
 export interface RunFlags {
@@ -280,6 +281,6 @@ export function resolveSettings(flags: RunFlags): ResolvedSettings {
 /** Settings errors and config errors as printable lines (or null for anything else). */
 export function settingsErrorLines(error: unknown): string[] | null {
   if (error instanceof SettingsError) return error.lines;
-  if (error instanceof ConfigError) return error.issues.map((issue: ConfigIssue) => formatPolicyIssue(issue));
+  if (error instanceof ConfigError) return error.issues.map((issue: FileIssue) => formatPolicyIssue(issue));
   return null;
 }

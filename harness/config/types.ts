@@ -2,7 +2,6 @@
 // config.schema.json), and the settings a command resolves from it, the flags and the defaults.
 
 import type { BuildOptionValue } from '../builds/spec.js';
-import type { PolicyIssue } from '../gate/policy.js';
 
 export const CONFIG_FILE_NAMES = ['footing.config.yaml', 'footing.config.yml'] as const;
 
@@ -34,10 +33,9 @@ export interface ConfigData {
   loopBudget_us?: number;
   bench?: boolean;
   cache?: string;
+  /** History store file (harness/history), relative to this file. */
+  history?: string;
 }
-
-/** Same shape and printing as the gate policy's issues: file:line:col: path: message. */
-export type ConfigIssue = PolicyIssue;
 
 /** Where a resolved value came from. */
 export type Origin =

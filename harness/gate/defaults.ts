@@ -1,44 +1,65 @@
 // The gate's policy: its rules and their defaults — the one place these numbers live
 // (docs/scoring.md writes them out as a complete example policy; a test keeps the two equal).
+// Every rule may be set to null in a policy file: the rule is then off (a numeric allowance is not
+// checked, an `allow…` rule allows, a `block…` rule does not block).
 
 export interface GateRules {
+  /** A run that passed on the baseline and fails (or errors) on the candidate. */
+  allowNewFailures: boolean | null;
+  /** Runs failing on both sides ("still failing") block too; by default they are only listed. */
+  blockStillFailing: boolean | null;
+  /** A baseline run the candidate did not run (missing coverage) is allowed. */
+  allowMissingRuns: boolean | null;
   /** Allowed drop of frictionMargin.min (absolute, margin units). */
-  frictionMarginMinLoss: number;
+  frictionMarginMinLoss: number | null;
   /** Allowed drop of frictionMargin.p05 (absolute). */
-  frictionMarginP05Loss: number;
+  frictionMarginP05Loss: number | null;
   /** Slip distance may grow by this fraction of the baseline … */
-  slipDistanceGrowthFraction: number;
+  slipDistanceGrowthFraction: number | null;
   /** … and by this many metres: a breach must exceed both allowances. */
-  slipDistanceGrowth_m: number;
+  slipDistanceGrowth_m: number | null;
   /** A run that fell where the baseline stood. */
-  allowNewFalls: boolean;
+  allowNewFalls: boolean | null;
   /** More commanded friction-cone violation intervals than the baseline. */
-  allowNewCommandedViolations: boolean;
-  /** Allowed growth of the loop time p99 as a fraction of the baseline's. */
-  loopTimeP99GrowthFraction: number;
-  /** The candidate's loop time p99 above the scenario's loop budget. */
-  allowLoopTimeOverBudget: boolean;
+  allowNewCommandedViolations: boolean | null;
+  /**
+   * Allowed slowdown of the candidate's tick against the baseline's, as a fraction, judged on the
+   * paired measurement (harness/bench/pairedTiming.ts): blocks only when the whole confidence
+   * interval of the median time ratio lies above 1 + this fraction.
+   */
+  loopTimeSlowdownFraction: number | null;
+  /** The candidate's tick over the scenario's loop budget, judged on the paired measurement. */
+  allowLoopTimeOverBudget: boolean | null;
+  /**
+   * Allowed growth of a single run's loop-time p99 (off by default: one pass's p99 moves with the
+   * machine's load, so it is reported, not gated; set a fraction to gate it anyway).
+   */
+  loopTimeP99GrowthFraction: number | null;
   /** Allowed drop of a governor update rate (bench data; validated, not applied to run results). */
-  governorRateDrop: number;
+  governorRateDrop: number | null;
   /** Allowed rise of margin.friction.criticalScale (footing margin): the build needing more grip. */
-  criticalFrictionScaleRise: number;
+  criticalFrictionScaleRise: number | null;
   /** Allowed drop of margin.push.criticalScale (footing margin). */
-  criticalPushScaleDrop: number;
+  criticalPushScaleDrop: number | null;
   /** A family's success rate may drop by this much before a supported drop blocks (0: any). */
-  familySuccessRateDrop: number;
+  familySuccessRateDrop: number | null;
   /** Confidence of the family drop test (Newcombe 1998 interval), e.g. 0.95. */
   familyConfidence: number;
 }
 
 export const GATE_RULE_NAMES = [
+  'allowNewFailures',
+  'blockStillFailing',
+  'allowMissingRuns',
   'frictionMarginMinLoss',
   'frictionMarginP05Loss',
   'slipDistanceGrowthFraction',
   'slipDistanceGrowth_m',
   'allowNewFalls',
   'allowNewCommandedViolations',
-  'loopTimeP99GrowthFraction',
+  'loopTimeSlowdownFraction',
   'allowLoopTimeOverBudget',
+  'loopTimeP99GrowthFraction',
   'governorRateDrop',
   'criticalFrictionScaleRise',
   'criticalPushScaleDrop',
@@ -47,6 +68,11 @@ export const GATE_RULE_NAMES = [
 ] as const satisfies readonly (keyof GateRules)[];
 
 export const DEFAULT_GATE_RULES: Readonly<GateRules> = Object.freeze({
+  // Only what the candidate changed blocks: a failure it introduced, not one it inherited.
+  allowNewFailures: false,
+  blockStillFailing: false,
+  // A scenario the candidate skipped is not evidence that it holds.
+  allowMissingRuns: false,
   // 0.02 of margin is about the run-to-run spread of p05 between builds that differ only in
   // numerics (common practice: tolerate noise, catch a lost safety factor).
   frictionMarginMinLoss: 0.02,
@@ -57,9 +83,12 @@ export const DEFAULT_GATE_RULES: Readonly<GateRules> = Object.freeze({
   slipDistanceGrowth_m: 0.01,
   allowNewFalls: false,
   allowNewCommandedViolations: false,
-  // Loop timings vary ±10–20 % between quiet runs on a shared CI machine (common practice).
-  loopTimeP99GrowthFraction: 0.25,
+  // Paired, interleaved timing removes the machine's drift; what is left is the build's cost. 25 %
+  // is above the ±10–20 % that differing inlining decisions move a controller tick by (common
+  // practice) and far below the cost of a real algorithmic change.
+  loopTimeSlowdownFraction: 0.25,
   allowLoopTimeOverBudget: false,
+  loopTimeP99GrowthFraction: null,
   governorRateDrop: 0.3,
   // Three times the margin search's default tolerance (0.01): two searches that each land within a
   // tolerance of the same boundary never trip it, a build that needs 3 % more grip does.

@@ -4,10 +4,10 @@
 // baseline − candidate is supported when its whole interval lies above the allowed drop. A move
 // whose interval reaches the allowance is reported as "within noise", not as a regression.
 
-import { summarizeFamilies } from '../margin/familySummary.js';
-import { differenceInterval, wilsonInterval } from '../margin/proportion.js';
-import type { FamilySummary } from '../margin/types.js';
-import type { ResultsFile } from '../run/results/types.js';
+import { summarizeFamilies } from '../results/familySummary.js';
+import { differenceInterval, wilsonInterval } from '../score/proportion.js';
+import type { FamilySummary } from '../results/margin.js';
+import type { ResultsFile } from '../results/types.js';
 import { rulesFor, type GatePolicy } from './defaults.js';
 import type { GateRow, NotComparable } from './types.js';
 
@@ -51,16 +51,17 @@ export function compareFamilies(baseline: ResultsFile, candidate: ResultsFile, b
       const drop = differenceInterval(b.successes, b.runs, c.successes, c.runs, confidence);
       if (drop.difference === 0) continue;
       const percent = Math.round(confidence * 100);
-      const supported = drop.lower > rules.familySuccessRateDrop;
+      const allowedDrop = rules.familySuccessRateDrop;
+      const supported = allowedDrop !== null && drop.lower > allowedDrop;
       const interval = `[${drop.lower.toFixed(2)}, ${drop.upper.toFixed(2)}]`;
       const noise = drop.difference > 0 && !supported ? ` (within noise: ${percent} % interval of the drop ${interval})` : '';
       const change = `${drop.difference > 0 ? '−' : '+'}${Math.abs(drop.difference).toFixed(2)}${noise}`;
       rows.push({
         scenario: b.id, baselineBuild: baseBuild, candidateBuild: candBuild, metric: 'family.successRate',
         baseline: b.successRate, candidate: c.successRate, change,
-        rule: `no supported drop > ${rules.familySuccessRateDrop} (Newcombe ${percent} %)`, broken: supported,
+        rule: allowedDrop === null ? null : `no supported drop > ${allowedDrop} (Newcombe ${percent} %)`, broken: supported,
         ...(supported
-          ? { reason: `family success rate fell from ${rate(b, confidence)} to ${rate(c, confidence)}; the ${percent} % interval of the drop ${interval} lies above ${rules.familySuccessRateDrop} (Newcombe 1998 hybrid score)` }
+          ? { reason: `family success rate fell from ${rate(b, confidence)} to ${rate(c, confidence)}; the ${percent} % interval of the drop ${interval} lies above ${allowedDrop} (Newcombe 1998 hybrid score)` }
           : {}),
       });
     }

@@ -4,7 +4,7 @@
 // --bench`); a pair where either side was not measured yields no row (nothing to judge).
 // Rates are compared within one machine only: a drop between machines is not a regression.
 
-import type { ResultsFile } from '../run/results/types.js';
+import type { ResultsFile } from '../results/types.js';
 import type { GateRules } from './defaults.js';
 import type { GateRow } from './types.js';
 
@@ -46,6 +46,7 @@ export function governorRateRows(
 ): GateRow[] {
   const rows: GateRow[] = [];
   const drop = rules.governorRateDrop;
+  if (drop === null) return rows;
   const percent = Math.round(drop * 100);
   const baseMachine = machineOf(baseline), candMachine = machineOf(candidate);
   for (const [baseBuild, candBuild] of buildPairs) {

@@ -3,7 +3,7 @@
 // scale may not drop by more than allowed. Both are judged on paired runs (same scenario and
 // hash), so a build that loses margin is caught even when every run still passes as written.
 
-import type { MarginSearchRecord } from '../margin/types.js';
+import type { MarginSearchRecord } from '../results/margin.js';
 import type { GateRules } from './defaults.js';
 import type { RunPair } from './pairing.js';
 import type { GateRow } from './types.js';
@@ -34,17 +34,18 @@ function searchRule(
   label: string,
   base: MarginSearchRecord | null | undefined,
   cand: MarginSearchRecord | null | undefined,
-  allowed: number,
+  allowed: number | null,
   worse: 1 | -1,
 ): GateRow | null {
   if (!base || !cand) return null;
-  const rule = `${worse > 0 ? 'rise' : 'drop'} ≤ ${allowed}`;
+  // A rule set to null is off: the change is still shown, for information.
+  const rule = allowed === null ? null : `${worse > 0 ? 'rise' : 'drop'} ≤ ${allowed}`;
   const b = base.criticalScale;
   const c = cand.criticalScale;
   if (b === null && c === null) return null;
   if (c === null) {
     return {
-      ...at, metric, baseline: b, candidate: null, change: 'lost', rule, broken: true,
+      ...at, metric, baseline: b, candidate: null, change: 'lost', rule, broken: rule !== null,
       reason: `${label} was ${b!.toFixed(3)}, but the candidate ${worse > 0 ? 'fails even at the top of the searched range' : 'fails even without the push'} (${cand.range[0]}–${cand.range[1]})`,
     };
   }
@@ -52,7 +53,7 @@ function searchRule(
   const monotoneNote = base.monotone && cand.monotone ? '' : ' (a boundary is not monotone: see the samples in margin.md)';
   if (b === c && monotoneNote === '') return null;
   const loss = worse * (c - b);
-  const broken = loss > allowed + ALLOWANCE_SLACK;
+  const broken = allowed !== null && loss > allowed + ALLOWANCE_SLACK;
   return {
     ...at, metric, baseline: b, candidate: c, change: signed(c - b) + monotoneNote, rule, broken,
     ...(broken ? { reason: `${label} ${worse > 0 ? 'rose' : 'fell'} by ${Math.abs(c - b).toFixed(3)} (${shown(base)} → ${shown(cand)}), more than the ${allowed} allowed` } : {}),

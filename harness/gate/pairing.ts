@@ -3,8 +3,8 @@
 // pair by scenario id, compared only when the scenario hash is equal.
 
 import { compareIdentity } from '../scenario/identity.js';
-import { buildNames } from '../run/results/buildOrder.js';
-import type { ResultsFile, RunResult } from '../run/results/types.js';
+import { buildNames } from '../results/buildOrder.js';
+import type { ResultsFile, RunResult } from '../results/types.js';
 import { GateInputError, type NotComparable, type Unpaired } from './types.js';
 
 export interface RunPair {
@@ -116,4 +116,17 @@ function scenarioChange(base: RunResult, cand: RunResult): string {
   const identity = compareIdentity(base.scenario, cand.scenario);
   if (identity.kind === 'changedWithoutRevision') return `warning: ${identity.message}`;
   return `scenario changed (revision ${base.scenario.revision} → ${cand.scenario.revision}, hash ${base.scenario.hash.slice(0, 12)} → ${cand.scenario.hash.slice(0, 12)})`;
+}
+
+/** `--pair BASE=CAND` texts as build-name pairs; a malformed one is a GateInputError. */
+export function parsePairs(pairs: readonly string[]): [string, string][] {
+  return pairs.map((text) => {
+    const at = text.indexOf('=');
+    const base = text.slice(0, at).trim();
+    const cand = text.slice(at + 1).trim();
+    if (at < 0 || base === '' || cand === '' || cand.includes('=')) {
+      throw new GateInputError(`--pair "${text}": expected BASE=CAND, two build names joined by "="`);
+    }
+    return [base, cand];
+  });
 }

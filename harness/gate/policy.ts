@@ -3,68 +3,52 @@
 // for misspelt keys.
 
 import { readFileSync } from 'node:fs';
-import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
-import { closest, distance } from 'fastest-levenshtein';
-import { LineCounter, parseDocument } from 'yaml';
+import type { ErrorObject } from 'ajv/dist/2020.js';
+import { pointerSegments, type FileIssue } from '../files/issue.js';
+import { schemaValidator } from '../files/schema.js';
+import { parseSettingsYaml, positionOf, valueAt } from '../files/source.js';
+import { suggestName } from '../files/suggest.js';
 import { DEFAULT_GATE_RULES, GATE_RULE_NAMES, type GatePolicy, type GateRules } from './defaults.js';
-import { locate } from './yamlLocation.js';
 
 export const POLICY_SCHEMA_URL = new URL('./policy.schema.json', import.meta.url);
 
-export interface PolicyIssue {
-  file: string;
-  line?: number;
-  col?: number;
-  /** Dotted path, e.g. overrides.ice-walk.frictionMarginMinLoss. */
-  path: string;
-  message: string;
-}
-
 export class PolicyError extends Error {
-  constructor(readonly issues: PolicyIssue[]) {
+  constructor(readonly issues: FileIssue[]) {
     super(issues.map(formatPolicyIssue).join('\n'));
     this.name = 'PolicyError';
   }
 }
 
-export function formatPolicyIssue(issue: PolicyIssue): string {
-  const where = issue.line === undefined ? issue.file : `${issue.file}:${issue.line}:${issue.col}`;
+/** `file:line:column: dotted.path: message`, the form of policy and config issues (paths as keys). */
+export function formatPolicyIssue(issue: FileIssue): string {
+  const where = issue.line === undefined ? issue.file : `${issue.file}:${issue.line}:${issue.column}`;
   return `${where}: ${issue.path === '' ? '(top level)' : issue.path}: ${issue.message}`;
 }
 
-let compiled: ValidateFunction | undefined;
-function validator(): ValidateFunction {
-  if (compiled === undefined) {
-    const ajv = new Ajv2020({ allErrors: true, strict: true, strictTypes: false });
-    compiled = ajv.compile(JSON.parse(readFileSync(POLICY_SCHEMA_URL, 'utf8')));
-  }
-  return compiled;
-}
+const validator = () => schemaValidator(POLICY_SCHEMA_URL);
 
 const TOP_LEVEL_KEYS: readonly string[] = [...GATE_RULE_NAMES, 'version', 'overrides'];
 
 function didYouMean(key: string, allowed: readonly string[]): string {
-  const guess = closest(key, allowed as string[]);
-  return distance(key, guess) <= Math.max(2, Math.floor(guess.length / 3)) ? `; did you mean "${guess}"?` : '';
+  const guess = suggestName(key, allowed);
+  return guess === undefined ? '' : `; did you mean "${guess}"?`;
 }
 
 function show(value: unknown): string {
   return typeof value === 'string' ? JSON.stringify(value) : JSON.stringify(value) ?? String(value);
 }
 
-function valueAt(root: unknown, segments: readonly string[]): unknown {
-  let value = root;
-  for (const s of segments) value = value !== null && typeof value === 'object' ? (value as Record<string, unknown>)[s] : undefined;
-  return value;
-}
-
 function expectation(error: ErrorObject): string {
   const p = error.params as Record<string, unknown>;
   switch (error.keyword) {
-    case 'type':
-      if (p.type === 'boolean') return 'expected true or false';
-      if (p.type === 'object') return 'expected a mapping (key: value lines)';
-      return `expected a ${p.type}`;
+    case 'type': {
+      // Rules accept null (off), so their type is a list: name the useful type, then null.
+      const types = String(p.type).split(',');
+      const orOff = types.includes('null') ? ', or null to switch the rule off' : '';
+      if (types.includes('boolean')) return `expected true or false${orOff}`;
+      if (types.includes('object')) return 'expected a mapping (key: value lines)';
+      return `expected a ${types.filter((t) => t !== 'null').join(' or ')}${orOff}`;
+    }
     case 'minimum':
       return `expected a number ≥ ${p.limit}`;
     case 'maximum':
@@ -76,11 +60,7 @@ function expectation(error: ErrorObject): string {
   }
 }
 
-function decodePointer(pointer: string): string[] {
-  return pointer === '' ? [] : pointer.slice(1).split('/').map((s) => s.replace(/~1/g, '/').replace(/~0/g, '~'));
-}
-
-function dedupeAndSort(issues: PolicyIssue[]): PolicyIssue[] {
+function dedupeAndSort(issues: FileIssue[]): FileIssue[] {
   const seen = new Set<string>();
   const unique = issues.filter((issue) => {
     const text = formatPolicyIssue(issue);
@@ -88,38 +68,30 @@ function dedupeAndSort(issues: PolicyIssue[]): PolicyIssue[] {
     seen.add(text);
     return true;
   });
-  return unique.sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.col ?? 0) - (b.col ?? 0));
+  return unique.sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.column ?? 0) - (b.column ?? 0));
 }
 
 /** Parses policy YAML text; `file` is used in messages. An empty document is the default policy. */
 export function parsePolicy(text: string, file: string): GatePolicy {
-  const lineCounter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
-  if (doc.errors.length > 0) {
-    throw new PolicyError(
-      doc.errors.map((e) => {
-        const pos = e.linePos?.[0];
-        return { file, line: pos?.line, col: pos?.col, path: '', message: `YAML: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}` };
-      }),
-    );
-  }
+  const { doc, lineCounter, issues: syntax } = parseSettingsYaml(text, file);
+  if (syntax.length > 0) throw new PolicyError(syntax);
   const value: unknown = doc.toJS() ?? {};
   const validate = validator();
   if (!validate(value)) {
-    const issues: PolicyIssue[] = [];
+    const issues: FileIssue[] = [];
     for (const error of validate.errors ?? []) {
-      const segments = decodePointer(error.instancePath);
+      const segments = pointerSegments(error.instancePath);
       if (error.keyword === 'unevaluatedProperties' || error.keyword === 'additionalProperties') {
         const key = String((error.params as Record<string, unknown>).unevaluatedProperty ?? (error.params as Record<string, unknown>).additionalProperty);
         const allowed = segments.length === 0 ? TOP_LEVEL_KEYS : GATE_RULE_NAMES;
-        const pos = locate(doc, lineCounter, [...segments, key], { key: true });
-        issues.push({ file, line: pos?.line, col: pos?.col, path: [...segments, key].join('.'), message: `unknown key${didYouMean(key, allowed)}` });
+        const pos = positionOf(doc, lineCounter, [...segments, key], 'key');
+        issues.push({ file, line: pos?.line, column: pos?.col, path: [...segments, key].join('.'), message: `unknown key${didYouMean(key, allowed)}` });
       } else if (error.keyword === '$ref') {
         continue;
       } else {
-        const pos = locate(doc, lineCounter, segments);
+        const pos = positionOf(doc, lineCounter, segments);
         const v = valueAt(value, segments);
-        issues.push({ file, line: pos?.line, col: pos?.col, path: segments.join('.'), message: `${show(v)}: ${expectation(error)}` });
+        issues.push({ file, line: pos?.line, column: pos?.col, path: segments.join('.'), message: `${show(v)}: ${expectation(error)}` });
       }
     }
     throw new PolicyError(dedupeAndSort(issues));

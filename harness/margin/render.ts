@@ -2,9 +2,9 @@
 // values side by side across builds, every non-monotone boundary with its samples, and the
 // family success rates with their intervals.
 
-import { markdownCell } from '../run/results/writeSummary.js';
-import type { ResultsFile, RunResult } from '../run/results/types.js';
-import type { FrictionMarginRecord, MarginSearchRecord, PushMarginRecord } from './types.js';
+import { markdownCell } from '../results/writeSummary.js';
+import type { ResultsFile, RunResult } from '../results/types.js';
+import type { FrictionMarginRecord, MarginSearchRecord, PushMarginRecord } from '../results/margin.js';
 
 function n(x: number, decimals = 3): string {
   return String(Number(x.toFixed(decimals)));

@@ -3,24 +3,18 @@
 // (largest factor on every push's force it survives). Pairs run concurrently on the worker pool;
 // each pair's probes run one after another, because each bisection step needs the last outcome.
 
-import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { buildManifest } from '../builds/provenance.js';
 import type { BuildSpec } from '../builds/spec.js';
-import { createRunPool, RunTimeoutError, type RunPool } from '../run/pool.js';
-import { createErrorRunResult, createResultsFile } from '../run/results/runResult.js';
-import type { BuildManifest, ResultsFile, RunResult } from '../run/results/types.js';
-import { writeFileAtomicSync } from '../run/atomic.js';
-import { OUTPUT_FILES, writeOutputs } from '../run/outputs.js';
-import { prepareBuilds, prepareScenarios } from '../run/prepare.js';
-import { EXIT, defaultJobs, type ExitCode } from '../run/suite.js';
+import { createRunPool, defaultJobs, runOnPool, DEFAULT_RUN_TIMEOUT, type RunTimeout } from '../run/pool.js';
+import type { RunResult } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { lowestStaticFriction, peakPushForce_N, scaleFriction, scalePushes } from '../scenario/variation.js';
-import { TOOL_VERSION } from '../version.js';
-import { renderMarginLines, renderMarginMarkdown } from './render.js';
-import { searchBoundary, type SearchOptions, type SearchResult } from './search.js';
-import type { FrictionMarginRecord, MarginSample, MarginSearchRecord, PushMarginRecord, RunMargin } from './types.js';
+import { renderMarginLines } from './render.js';
+import type { SearchResult } from '../results/margin.js';
+import { searchBoundary, type SearchOptions } from './search.js';
+import type { FrictionMarginRecord, MarginSample, MarginSearchRecord, PushMarginRecord, RunMargin } from '../results/margin.js';
 
 /**
  * Search settings, the one place these defaults live. Tolerance 0.01 of the scenario's own
@@ -36,32 +30,7 @@ export const MARGIN_DEFAULTS = Object.freeze({
   checks: 2,
 });
 
-export const MARGIN_REPORT_NAME = 'margin.md';
-
 export type MarginQuantity = 'friction' | 'push';
-
-export interface MarginRunOptions {
-  paths?: string[];
-  builds: string[];
-  outDir: string;
-  jobs?: number;
-  tolerance?: number;
-  frictionRange?: readonly [number, number];
-  pushRange?: readonly [number, number];
-  checks?: number;
-  /** Which searches to run (default both). */
-  quantities?: readonly MarginQuantity[];
-  /** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
-  runTimeout?: { base_s: number; perSimulatedSecond: number };
-  cwd?: string;
-  log?: (line: string) => void;
-}
-
-export interface MarginRunOutcome {
-  exitCode: ExitCode;
-  results?: ResultsFile;
-  lines: string[];
-}
 
 type Runner = (scenario: ResolvedScenario, outDir: string) => Promise<RunResult>;
 
@@ -101,7 +70,7 @@ export async function searchPair(
   scenario: ResolvedScenario,
   run: Runner,
   dirs: { outDir: string; scratchDir: string },
-  settings: { tolerance: number; frictionRange: readonly [number, number]; pushRange: readonly [number, number]; checks: number; quantities: readonly MarginQuantity[] },
+  settings: MarginSettings,
 ): Promise<RunResult> {
   const nominal = await run(scenario, dirs.outDir);
   const notes: string[] = [];
@@ -149,6 +118,29 @@ export async function searchPair(
   return { ...nominal, margin };
 }
 
+export interface MarginSettings {
+  tolerance: number;
+  frictionRange: readonly [number, number];
+  pushRange: readonly [number, number];
+  checks: number;
+  quantities: readonly MarginQuantity[];
+}
+
+/** The settings' problem as one sentence (bad input), or null when they are usable. */
+export function checkMarginSettings(settings: MarginSettings): string | null {
+  if (!(Number.isFinite(settings.tolerance) && settings.tolerance > 0 && settings.tolerance < 1)) {
+    return `--tolerance ${settings.tolerance} must be a number above 0 and below 1 (a fraction of the scenario's own friction or push)`;
+  }
+  if (!Number.isInteger(settings.checks) || settings.checks < 0 || settings.checks > 20) {
+    return `checks ${settings.checks} must be a whole number from 0 to 20`;
+  }
+  for (const [name, range] of [['friction range', settings.frictionRange], ['push range', settings.pushRange]] as const) {
+    const problem = checkRange(name, range);
+    if (problem) return problem;
+  }
+  return null;
+}
+
 function checkRange(name: string, range: readonly [number, number]): string | null {
   const [lo, hi] = range;
   if (!(Number.isFinite(lo) && Number.isFinite(hi) && lo >= 0 && lo <= 1 && hi >= 1 && lo < hi)) {
@@ -157,71 +149,34 @@ function checkRange(name: string, range: readonly [number, number]): string | nu
   return null;
 }
 
-export async function runMargins(options: MarginRunOptions): Promise<MarginRunOutcome> {
-  const lines: string[] = [];
-  const log = (line: string) => {
-    lines.push(line);
-    options.log?.(line);
-  };
-  const badInput = (message: string): MarginRunOutcome => {
-    log(message);
-    return { exitCode: EXIT.badInput, lines };
-  };
-  const cwd = options.cwd ?? process.cwd();
-  const settings = {
-    tolerance: options.tolerance ?? MARGIN_DEFAULTS.tolerance,
-    frictionRange: options.frictionRange ?? MARGIN_DEFAULTS.frictionRange,
-    pushRange: options.pushRange ?? MARGIN_DEFAULTS.pushRange,
-    checks: options.checks ?? MARGIN_DEFAULTS.checks,
-    quantities: options.quantities ?? (['friction', 'push'] as const),
-  };
-  if (!(Number.isFinite(settings.tolerance) && settings.tolerance > 0 && settings.tolerance < 1)) {
-    return badInput(`footing margin: --tolerance ${settings.tolerance} must be a number above 0 and below 1 (a fraction of the scenario's own friction or push)`);
-  }
-  if (!Number.isInteger(settings.checks) || settings.checks < 0 || settings.checks > 20) {
-    return badInput(`footing margin: checks ${settings.checks} must be a whole number from 0 to 20`);
-  }
-  for (const [name, range] of [['friction range', settings.frictionRange], ['push range', settings.pushRange]] as const) {
-    const problem = checkRange(name, range);
-    if (problem) return badInput(`footing margin: ${problem}`);
-  }
+export interface MarginSearchOptions {
+  scenarios: readonly ResolvedScenario[];
+  builds: readonly BuildSpec[];
+  /** Absolute results folder (the nominal runs' series go here). */
+  outDir: string;
+  settings: MarginSettings;
+  jobs?: number;
+  runTimeout?: RunTimeout;
+  log: (line: string) => void;
+}
 
-  const parsed = prepareBuilds('margin', options.builds, cwd);
-  if (!parsed.ok) return badInput(parsed.lines.join('\n'));
-  const specs = parsed.value;
-
-  // The order footing run uses: scenarios by file then id (run/prepare.ts), builds as given.
-  const loaded = await prepareScenarios('margin', options.paths, cwd);
-  if (!loaded.ok) {
-    for (const line of loaded.lines) log(line);
-    return { exitCode: EXIT.badInput, lines };
-  }
-  for (const line of loaded.warnings) log(line);
-  const scenarios = loaded.value;
-
-  const outDir = path.resolve(cwd, options.outDir);
-  mkdirSync(outDir, { recursive: true });
+/** Both searches of every pair, pairs in parallel on the worker pool; runs in pair order. */
+export async function searchMargins(options: MarginSearchOptions): Promise<{ runs: RunResult[]; wall_s: number; jobs: number }> {
+  const { scenarios, builds, outDir, settings, log } = options;
   // Probe runs write their report series too; those belong to no result and go to a scratch folder.
   const scratchDir = mkdtempSync(path.join(tmpdir(), 'footing-margin-'));
-  const manifests: BuildManifest[] = await Promise.all(
-    specs.map(async (spec) => {
-      const manifest = await buildManifest(spec);
-      return { ...manifest, commit: manifest.git?.commit ?? null, dirty: manifest.git?.dirty ?? null };
-    }),
-  );
-  const startedAt = new Date();
   const wallStart = performance.now();
-  const pairCount = scenarios.length * specs.length;
+  const pairCount = scenarios.length * builds.length;
   const jobs = Math.max(1, Math.min(options.jobs ?? defaultJobs(), pairCount));
-  const timeout = options.runTimeout ?? { base_s: 120, perSimulatedSecond: 30 };
+  const timeout = options.runTimeout ?? DEFAULT_RUN_TIMEOUT;
   const pool = createRunPool(jobs);
-  const runner = (spec: BuildSpec): Runner => (scenario, dir) => runOnPool(pool, scenario, spec, dir, timeout.base_s + timeout.perSimulatedSecond * scenario.duration_s);
-  let ordered: RunResult[];
+  const runner = (build: BuildSpec): Runner => (scenario, dir) => runOnPool(pool, { scenario, build, outDir: dir, trace: false }, timeout);
+  let runs: RunResult[];
   try {
-    ordered = await Promise.all(
+    runs = await Promise.all(
       scenarios.flatMap((scenario) =>
-        specs.map(async (spec) => {
-          const result = await searchPair(scenario, runner(spec), { outDir, scratchDir }, settings);
+        builds.map(async (build) => {
+          const result = await searchPair(scenario, runner(build), { outDir, scratchDir }, settings);
           log(renderMarginLines([result])[0]);
           return result;
         }),
@@ -231,23 +186,5 @@ export async function runMargins(options: MarginRunOptions): Promise<MarginRunOu
     await pool.close();
     rmSync(scratchDir, { recursive: true, force: true });
   }
-  const wall_s = (performance.now() - wallStart) / 1000;
-
-  const results = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs: ordered });
-  writeOutputs(outDir, results);
-  writeFileAtomicSync(path.join(outDir, MARGIN_REPORT_NAME), renderMarginMarkdown(results, { wall_s, jobs }));
-  const probes = ordered.reduce((n, r) => n + (r.margin?.friction?.runs ?? 0) + (r.margin?.push?.runs ?? 0) - (r.margin?.friction && r.margin?.push ? 1 : 0), 0);
-  log(`${ordered.length} pairs, ${probes} runs in ${wall_s.toFixed(1)} s on ${jobs} worker${jobs === 1 ? '' : 's'} — ${path.relative(cwd, path.join(outDir, MARGIN_REPORT_NAME)) || MARGIN_REPORT_NAME}, ${OUTPUT_FILES.results}`);
-  const allPass = ordered.every((r) => r.status === 'pass');
-  return { exitCode: allPass ? EXIT.pass : EXIT.fail, results, lines };
+  return { runs, wall_s: (performance.now() - wallStart) / 1000, jobs };
 }
-
-async function runOnPool(pool: RunPool, scenario: ResolvedScenario, build: BuildSpec, outDir: string, timeout_s: number): Promise<RunResult> {
-  try {
-    return await pool.run({ scenario, build, outDir, trace: false }, timeout_s);
-  } catch (error) {
-    const reason = error instanceof RunTimeoutError ? 'run-timeout' : 'worker';
-    return createErrorRunResult(scenario, build.name, { message: (error as Error).message, reason });
-  }
-}
-

@@ -16,7 +16,7 @@
 // scale above every failing one; for pushes the largest passing scale below every failing one.
 // For a monotone boundary that is the passing end of the final bracket.
 
-export type ProbeStatus = 'pass' | 'fail' | 'error';
+import type { ProbeStatus, SampleRole, SearchOutcomeKind, SearchResult, SearchSample } from '../results/margin.js';
 
 export type SearchDirection = 'passAbove' | 'passBelow';
 
@@ -31,33 +31,6 @@ export interface SearchOptions {
   checks: number;
 }
 
-export type SampleRole = 'nominal' | 'end' | 'bisection' | 'check';
-
-export interface SearchSample<D> {
-  scale: number;
-  status: ProbeStatus;
-  role: SampleRole;
-  detail: D;
-}
-
-export type SearchOutcomeKind = 'found' | 'passesWholeRange' | 'failsWholeRange';
-
-export interface SearchResult<D> {
-  outcome: SearchOutcomeKind;
-  /** Conservative critical scale (see above); at a range end for 'passesWholeRange'; null for 'failsWholeRange'. */
-  critical: number | null;
-  /** Closest failing and passing scales around the critical one; null unless 'found'. */
-  bracket: { failing: number; passing: number } | null;
-  /** The half of the search range that was searched. */
-  range: [number, number];
-  tolerance: number;
-  monotone: boolean;
-  /** Probes made (= samples.length). */
-  runs: number;
-  bisectionRuns: number;
-  /** Every probe, sorted by scale. */
-  samples: SearchSample<D>[];
-}
 
 export type Probe<D> = (scale: number) => Promise<{ status: ProbeStatus; detail: D }>;
 

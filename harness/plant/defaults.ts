@@ -10,7 +10,11 @@ export const STANDARD_GRAVITY_mps2 = 9.80665;
  */
 export const DEFAULT_PHYSICS_STEP_s = 0.0005;
 
-/** Hunt–Crossley defaults: k in N/m^1.5 (Hertzian exponent 1.5), c in s/m (e ≈ 1 − c·v). */
+/**
+ * Hunt–Crossley law for a robot file without foot material data: k in N/m^1.5 (Hertzian exponent
+ * 1.5), c in s/m (exact restitution 0.66 at 1 m/s, contactLaw.ts). Common practice for a soft
+ * foot, from no material; robots that name their foot's radius and material get Hertz's law.
+ */
 export const DEFAULT_CONTACT = {
   stiffness_N_per_m: 2.0e5,
   exponent: 1.5,

@@ -16,7 +16,12 @@ export interface RobotParams {
   };
   /** Hip attachment points in the trunk frame, one per foot (order = foot index). */
   hips_m: Vec3[];
-  foot: { mass_kg: number };
+  foot: {
+    mass_kg: number;
+    /** Radius of the foot's spherical tip, m; with `material`, the contact law follows Hertz. */
+    radius_m?: number;
+    material?: FootMaterial;
+  };
   leg: {
     minLength_m: number;
     maxLength_m: number;
@@ -30,6 +35,16 @@ export interface RobotParams {
   standingHeight_m: number;
   /** Gait timing hints for controllers. */
   gait: { period_s: number; dutyFactor: number; swingApex_m: number };
+}
+
+/** Elastic and impact data of a foot's material (harness/plant/contactLaw.ts). */
+export interface FootMaterial {
+  name?: string;
+  elasticModulus_Pa: number;
+  poissonRatio: number;
+  /** Coefficient of restitution of the foot on the floor at restitutionSpeed_mps. */
+  restitution: number;
+  restitutionSpeed_mps: number;
 }
 
 /** One ground material: Stribeck friction parameters (Armstrong-Hélouvry et al. 1994). */
@@ -75,7 +90,7 @@ export interface ContactLaw {
   /** k, in N/mⁿ (N/m when n = 1). */
   stiffness_N_per_m: number;
   exponent: number;
-  /** c, the Hunt–Crossley damping, in s/m (restitution e ≈ 1 − c·v at low impact speed v). */
+  /** c, the Hunt–Crossley damping, in s/m (restitution: the exact relation in contactLaw.ts). */
   damping_s_per_m: number;
 }
 
@@ -108,8 +123,19 @@ export interface PhysicsParams {
   step_s: number;
 }
 
+/**
+ * How a run begins (docs/scenarios.md, "Start"):
+ * - 'settled': at rest in static equilibrium under gravity: feet under the hips, each pressed into
+ *   the ground to the depth that carries its share of the weight (harness/plant/settle.ts), the
+ *   first observation already showing those loads. Needs standing feet and zero velocities.
+ * - 'released': the feet as given (or touching the ground unloaded when standing), the trunk
+ *   released with its initial velocities: it drops onto the contacts. For drop and impact tests.
+ */
+export type StartMode = 'settled' | 'released';
+
 /** Initial state of the robot. Feet "standing" are placed under the hips on the ground. */
 export interface InitialState {
+  start: StartMode;
   position_m: Vec3;
   rpy_deg: Vec3;
   velocity_mps: Vec3;

@@ -79,6 +79,15 @@ export function validatePlantConfig(config: PlantConfig): void {
       }
     }
   });
+  const initial = config.initial;
+  if (initial.start !== 'settled' && initial.start !== 'released') {
+    throw new PlantConfigError('initial.start', String(initial.start), "'settled' or 'released'");
+  }
+  if (initial.start === 'settled') {
+    if (initial.feet !== 'standing') throw new PlantConfigError('initial.start', 'settled', "feet: 'standing' (explicit foot positions need start 'released')");
+    const moving = [...initial.velocity_mps, ...initial.angularVelocity_radps].some((x) => x !== 0);
+    if (moving) throw new PlantConfigError('initial.start', 'settled', "zero initial velocities (a settled start is at rest; use start 'released' for a moving start)");
+  }
   if (config.initial.feet !== 'standing' && config.initial.feet.length !== robot.hips_m.length) {
     throw new PlantConfigError('initial.feet', config.initial.feet.length, `${robot.hips_m.length} foot positions, one per hip`);
   }

@@ -6,7 +6,7 @@
 
 import type { CommandFile } from '../scenario/format.js';
 import { GAIT_BY_CODE } from './layout.js';
-import type { Trajectory } from './trajectory.js';
+import type { Trajectory } from '../scenario/trajectory.js';
 
 const round3 = (x: number) => Math.round(x * 1000) / 1000 + 0;
 

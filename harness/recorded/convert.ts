@@ -8,7 +8,7 @@ import { matrixFromQuaternion, quaternionFromRollPitchYaw } from '../plant/rotat
 import type { SlotLayout } from './layout.js';
 import type { LoadedLogMap } from './map.js';
 import type { RawLog } from './rawLog.js';
-import type { Trajectory } from './trajectory.js';
+import type { Trajectory } from '../scenario/trajectory.js';
 import { UNIT_FACTORS, type Dimension } from './units.js';
 
 export type ConvertResult = { ok: true; trajectory: Trajectory } | { ok: false; errors: string[] };

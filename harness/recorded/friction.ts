@@ -22,7 +22,7 @@
 
 import { SeededRandom } from '../plant/random.js';
 import type { ImportSettings } from './defaults.js';
-import type { Trajectory } from './trajectory.js';
+import type { Trajectory } from '../scenario/trajectory.js';
 
 export interface Interval {
   estimate: number;

@@ -8,7 +8,7 @@ import { mkdtemp } from 'node:fs/promises';
 import { createReadStream } from 'node:fs';
 import { createHash } from 'node:crypto';
 import path from 'node:path';
-import { formatIssue } from '../scenario/issue.js';
+import { formatIssue } from '../files/issue.js';
 import { loadScenarioFile } from '../scenario/load.js';
 import { displayPath } from '../scenario/paths.js';
 import type { Vec3 } from '../plant/types.js';
@@ -23,7 +23,7 @@ import { readMcapLog } from './mcapLog.js';
 import { estimatePushes } from './pushSeries.js';
 import type { ProgressCallback } from './rawLog.js';
 import { pushCsv, scenarioFileNames, scenarioYaml } from './scenarioWriter.js';
-import { formatTrajectoryChunks, sha256Hex, type Trajectory } from './trajectory.js';
+import { formatTrajectoryChunks, sha256Hex, type Trajectory } from '../scenario/trajectory.js';
 
 export const IMPORT_EXIT = { ok: 0, badInput: 2, internal: 3 } as const;
 

@@ -8,11 +8,11 @@ import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { Ajv2020, type ValidateFunction } from 'ajv/dist/2020.js';
 import type { RobotParams, Vec3 } from '../plant/types.js';
-import { formatIssue, type Finding, type ScenarioIssue } from '../scenario/issue.js';
+import { formatIssue, type Finding, type FileIssue } from '../files/issue.js';
 import { loadRobotFile } from '../scenario/load.js';
 import { displayPath } from '../scenario/paths.js';
 import { translateErrors } from '../scenario/schema.js';
-import { isRecord, parseSource, scanData, type ParsedSource } from '../scenario/source.js';
+import { isRecord, parseSource, scanData, type ParsedSource } from '../files/source.js';
 
 export const LOG_MAP_FORMAT = 'footing-log-map';
 export const CURRENT_LOG_MAP_VERSION = 1;
@@ -68,7 +68,7 @@ export interface LoadedLogMap {
   where(pointer: string): string;
 }
 
-export type MapLoadResult = { ok: true; loaded: LoadedLogMap } | { ok: false; errors: ScenarioIssue[] };
+export type MapLoadResult = { ok: true; loaded: LoadedLogMap } | { ok: false; errors: FileIssue[] };
 
 let validator: ValidateFunction | undefined;
 function validate(): ValidateFunction {
@@ -79,7 +79,7 @@ function validate(): ValidateFunction {
   return validator;
 }
 
-function locateAll(findings: Finding[], src: ParsedSource, display: string): ScenarioIssue[] {
+function locateAll(findings: Finding[], src: ParsedSource, display: string): FileIssue[] {
   return findings.map((f) => {
     const pos = f.line !== undefined ? { line: f.line, column: f.column ?? 1 } : src.locate(f.path, f.at);
     return { file: f.file ?? display, ...(pos ?? {}), path: f.path, message: f.message, ...(f.hint ? { hint: f.hint } : {}) };

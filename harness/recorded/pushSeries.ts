@@ -11,7 +11,7 @@
 import { STANDARD_GRAVITY_mps2 } from '../plant/defaults.js';
 import type { RobotParams } from '../plant/types.js';
 import { round6 } from './commandTimeline.js';
-import type { Trajectory } from './trajectory.js';
+import type { Trajectory } from '../scenario/trajectory.js';
 
 export interface PushEstimate {
   /** Where the force came from. */

@@ -9,16 +9,16 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { buildManifest } from '../builds/provenance.js';
 import { BuildSpecError, parseBuildSpec } from '../builds/spec.js';
-import { writeFileAtomicSync } from '../run/atomic.js';
-import { writeOutputs } from '../run/outputs.js';
-import { createResultsFile } from '../run/results/runResult.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { writeOutputs } from '../commands/outputs.js';
+import { createResultsFile } from '../results/runResult.js';
 import { runOne } from '../run/runOne.js';
 import { TOOL_VERSION } from '../version.js';
-import { formatIssue } from '../scenario/issue.js';
+import { formatIssue } from '../files/issue.js';
 import { loadScenarioFile } from '../scenario/load.js';
 import { displayPath } from '../scenario/paths.js';
-import { FidelityRecorder, type FidelityBlock } from './fidelity.js';
-import { parseTrajectory } from './trajectory.js';
+import { FidelityRecorder, type FidelityBlock } from '../score/fidelity.js';
+import { parseTrajectory } from '../scenario/trajectory.js';
 
 export interface ReplayOptions {
   scenario: string;

@@ -12,7 +12,7 @@ import { rollPitchYawFromQuaternion } from '../plant/rotation.js';
 import type { RobotParams, Vec3 } from '../plant/types.js';
 import type { FrictionIdentification, RegionEstimate } from './friction.js';
 import type { PushEstimate } from './pushSeries.js';
-import type { Trajectory } from './trajectory.js';
+import type { Trajectory } from '../scenario/trajectory.js';
 
 export interface ScenarioDraft {
   id: string;

@@ -1,16 +1,13 @@
-// The report entry point the runner and `footing merge` call: one self-contained HTML file (inline
+// The report entry point the run, merge and margin commands call: one self-contained HTML file (inline
 // CSS, inline SVG plots, a small optional script; no network) from a results set and the series
 // files beside it. See docs/report.md.
 
-import type { ResultsFile } from '../run/results/types.js';
+import type { ResultsFile } from '../results/types.js';
 import { buildReportModel, type ReportOptions } from './model.js';
 import { renderModel } from './render.js';
 
 export type { ReportOptions } from './model.js';
 export { buildReportModel } from './model.js';
-export { runReportCommand } from './command.js';
-export { createSeriesRecorder } from './series/recorder.js';
-export { seriesPath, readSeriesFor, writeSeriesFile } from './series/file.js';
 
 export function renderReportHtml(results: ResultsFile, options: ReportOptions): string {
   return renderModel(buildReportModel(results, options));

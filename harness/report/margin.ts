@@ -2,9 +2,9 @@
 // the run `margin` searches of `footing margin` and the top-level `families` scores. Both views
 // are null when the results carry no such data, so the page is unchanged for plain runs.
 
-import type { FamilySummary, FrictionMarginRecord, MarginSearchRecord, PushMarginRecord } from '../margin/types.js';
-import type { ResultsFile, RunResult } from '../run/results/types.js';
-import { buildSwatch } from './plot/charts.js';
+import type { FamilySummary, FrictionMarginRecord, MarginSearchRecord, PushMarginRecord } from '../results/margin.js';
+import type { ResultsFile, RunResult } from '../results/types.js';
+import { buildSwatch } from './plot/overview.js';
 import { boundaryStrip, intervalBar, probeLegend, stripAxisMax } from './plot/margin.js';
 import { buildStyle } from './plot/palette.js';
 import { label, type SvgMarkup } from './plot/svg.js';

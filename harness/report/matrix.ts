@@ -5,7 +5,7 @@
 
 import { formatGateValue } from '../gate/render.js';
 import type { GateOutcome } from '../gate/types.js';
-import type { RunResult } from '../run/results/types.js';
+import type { RunResult } from '../results/types.js';
 import type { ScoreMetrics } from '../score/types.js';
 import { label } from './plot/svg.js';
 

@@ -1,6 +1,6 @@
 // Data prep: a results set (plus its series files, the gate's outcome and bench figures) becomes
 // the plain view model the templates lay out. Every user string stays a plain string here (the
-// templates escape it); every plot is SvgMarkup built from numbers by plot/charts.ts.
+// templates escape it); every plot is SvgMarkup built from numbers by plot/ (timeSeries.ts, floor.ts, overview.ts).
 
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -8,35 +8,21 @@ import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
 import { gateWithinResults } from '../gate/gate.js';
 import { formatGateValue } from '../gate/render.js';
 import { GateInputError, type GateOutcome } from '../gate/types.js';
-import type { BuildManifest, ResultsFile, RunResult, RunStatus } from '../run/results/types.js';
+import type { BuildManifest, ResultsFile, RunResult, RunStatus } from '../results/types.js';
 import { benchView, type BenchView } from './bench.js';
 import { familiesView, marginView, type FamilyView, type MarginView } from './margin.js';
 import { metricCells, type MetricCell } from './matrix.js';
-import {
-  buildSwatch,
-  floorDefinition,
-  floorExtent,
-  floorPlot,
-  frictionUsePlot,
-  governorAxisFlat,
-  governorPlot,
-  loopTimePlot,
-  marginAxis,
-  marginDots,
-  muLegend,
-  normalForcePlot,
-  slipAxis,
-  slipDistancePlot,
-  slipDots,
-} from './plot/charts.js';
+import { floorDefinition, floorExtent, floorPlot, muLegend } from './plot/floor.js';
+import { buildSwatch, marginAxis, marginDots, slipAxis, slipDots } from './plot/overview.js';
+import { frictionUsePlot, governorAxisFlat, governorPlot, loopTimePlot, normalForcePlot, slipDistancePlot } from './plot/timeSeries.js';
 import { buildStyle, type BuildStyle } from './plot/palette.js';
 import { niceCeil } from './plot/scale.js';
 import { asSvg, label, type SvgMarkup } from './plot/svg.js';
-import { readSeriesFor } from './series/file.js';
+import { readSeriesFor } from '../score/series/file.js';
 import { recordedErrorPlot, recordedPathPlot } from './plot/fidelity.js';
-import type { FidelityBlock } from '../recorded/fidelity.js';
-import { describeDivergence, firstDivergence } from '../recorded/divergence.js';
-import type { RunSeries } from './series/types.js';
+import type { FidelityBlock } from '../score/fidelity.js';
+import { describeDivergence, firstDivergence } from '../results/divergence.js';
+import type { RunSeries } from '../score/series/types.js';
 
 export interface ReportOptions {
   /** Folder the report is written to (links are relative to it). */

@@ -1,7 +1,7 @@
 // The operator's command schedule: which command holds at time t, and the commanded trunk path
 // (the integral of the commanded velocity, rotated by the commanded yaw) the scorer tracks against.
 
-import type { Command } from '../builds/interface.js';
+import type { Command } from '../contract/tick.js';
 import type { CommandStep } from '../scenario/types.js';
 
 export class CommandSchedule {

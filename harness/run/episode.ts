@@ -4,33 +4,17 @@
 // see the tick. A build failure or a diverged plant ends the run as an `error`, never the suite.
 // OpenedBuild (builds/loader.ts) already times each tick and refuses non-finite actions.
 
-import { createAction, createObservation, type Action } from '../builds/interface.js';
+import { createAction, createObservation, type Action } from '../contract/tick.js';
 import type { OpenedBuild } from '../builds/loader.js';
 import { BuildFailure } from '../builds/process/failure.js';
 import { PlantDivergedError } from '../plant/errors.js';
 import { Plant } from '../plant/plant.js';
 import type { ResolvedScenario } from '../scenario/types.js';
-import { createTickSample, type TickSample } from '../score/sample.js';
+import { createTickSample, type EpisodeStart, type TickObserver, type TickSample } from '../score/sample.js';
 import { createScorer, type RunMetrics, type Scorer } from '../score/scorer.js';
-import type { RunError } from './results/types.js';
+import type { RunError } from '../results/types.js';
 import { CommandSchedule } from './commands.js';
 import { SensorModel } from './sensing.js';
-
-/** What an observer learns once, before the first tick. */
-export interface EpisodeStart {
-  footCount: number;
-  /** The build's telemetry names, in the order of Action.telemetry. */
-  telemetryNames: readonly string[];
-  /** The scorer's loaded threshold (Scorer.loadedThreshold_N). */
-  loadedThreshold_N: number;
-}
-
-/** Something that watches every tick (trace writer, plot-series recorder). Must not keep `sample`. */
-export interface TickObserver {
-  /** Optional: called once before the first tick. */
-  onStart?(info: EpisodeStart): void;
-  onTick(sample: TickSample, action: Action): void;
-}
 
 export interface EpisodeOptions {
   observers?: TickObserver[];
@@ -97,13 +81,7 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
 }
 
 function fillSample(sample: TickSample, plant: Plant, action: Action): void {
-  sample.time_s = plant.time_s;
-  sample.trunkPosition_m.set(plant.trunkPosition_m);
-  sample.trunkQuaternion.set(plant.trunkQuaternion);
-  sample.trunkVelocity_mps.set(plant.trunkVelocity_mps);
-  sample.footPosition_m.set(plant.footPosition_m);
-  sample.footVelocity_mps.set(plant.footVelocity_mps);
-  sample.footForce_N.set(plant.footGroundForce_N);
+  plant.fillObservation(sample); // the plant's truth, through the one state copy (contract/state.ts)
   sample.footStaticFriction.set(plant.footStaticFriction);
   sample.mode.set(action.mode);
   sample.wantedForce_N.set(action.groundForce_N);

@@ -2,13 +2,25 @@
 // otherwise (CI logs, pipes, --quiet prints only the end).
 
 import cliProgress from 'cli-progress';
-import type { RunResult } from './results/types.js';
+import { firstReason } from '../results/runResult.js';
+import type { RunResult } from '../results/types.js';
 
 export type ProgressMode = 'bar' | 'lines' | 'quiet';
 
 export interface Progress {
   done(result: RunResult, wall_s: number): void;
   stop(): void;
+}
+
+/** Longest reason kept on a progress line; the whole text is in summary.md and the report. */
+const REASON_CHARS = 160;
+
+/** ": <first reason>" for a failed or errored run, '' for a pass; control characters removed. */
+export function reasonSuffix(result: RunResult): string {
+  if (result.status === 'pass') return '';
+  // eslint-disable-next-line no-control-regex
+  const text = firstReason(result).replace(/[\u0000-\u001f\u007f-\u009f]+/g, ' ').trim();
+  return `: ${text.length > REASON_CHARS ? `${text.slice(0, REASON_CHARS - 1)}…` : text}`;
 }
 
 export function chooseProgressMode(options: { quiet?: boolean; stream?: NodeJS.WriteStream }): ProgressMode {
@@ -35,7 +47,13 @@ export function createProgress(mode: ProgressMode, total: number, log: (line: st
     return {
       done(result) {
         finished++;
-        if (result.status !== 'pass') failures++;
+        if (result.status !== 'pass') {
+          failures++;
+          // The bar redraws its last line: print a failure above it so its reason stays on screen.
+          bar.stop();
+          process.stderr.write(`${result.status} ${result.scenario.id} × ${result.build}${reasonSuffix(result)}\n`);
+          bar.start(total, finished, { failures, last: '' });
+        }
         bar.update(finished, { failures, last: `${result.status} ${result.scenario.id} × ${result.build}` });
       },
       stop() {
@@ -49,7 +67,7 @@ export function createProgress(mode: ProgressMode, total: number, log: (line: st
       if (result.status !== 'pass') failures++;
       if (mode === 'lines') {
         const width = String(total).length;
-        log(`[${String(finished).padStart(width)}/${total}] ${result.status.padEnd(5)} ${result.scenario.id} × ${result.build} (${wall_s.toFixed(1)} s)`);
+        log(`[${String(finished).padStart(width)}/${total}] ${result.status.padEnd(5)} ${result.scenario.id} × ${result.build} (${wall_s.toFixed(1)} s)${reasonSuffix(result)}`);
       }
     },
     stop() {},

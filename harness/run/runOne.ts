@@ -7,12 +7,13 @@ import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/lo
 import type { BuildSpec } from '../builds/spec.js';
 import { gravityOnIncline } from '../plant/gravity.js';
 import type { ResolvedScenario } from '../scenario/types.js';
-import { createSeriesRecorder } from '../report/series/recorder.js';
-import { writeSeriesFile } from '../report/series/file.js';
-import { describeError, runEpisode, type TickObserver } from './episode.js';
-import { createErrorRunResult, createRunResult } from './results/runResult.js';
-import { createTraceWriter, tracePath, type TraceWriter } from './results/trace.js';
-import type { RunResult } from './results/types.js';
+import { createSeriesRecorder } from '../score/series/recorder.js';
+import { writeSeriesFile } from '../score/series/file.js';
+import type { TickObserver } from '../score/sample.js';
+import { describeError, runEpisode } from './episode.js';
+import { createErrorRunResult, createRunResult } from '../results/runResult.js';
+import { createTraceWriter, tracePath, type TraceWriter } from '../results/trace.js';
+import type { RunResult } from '../results/types.js';
 
 export interface RunTask {
   scenario: ResolvedScenario;
@@ -48,7 +49,8 @@ export async function runOne(task: RunTask, extraObservers: TickObserver[] = [])
   const { scenario, build: spec } = task;
   let build: OpenedBuild;
   try {
-    build = await openBuild(spec, controllerSetup(scenario), task.buildOptions ?? {});
+    // A module build gets a thread of its own: nothing it does reaches this thread's scorer.
+    build = await openBuild(spec, controllerSetup(scenario), { isolation: 'thread', ...task.buildOptions });
   } catch (caught) {
     return createErrorRunResult(scenario, spec.name, { ...describeError(caught, 0), time_s: 0 });
   }

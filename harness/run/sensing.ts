@@ -1,7 +1,7 @@
 // What the controller is told, as the scenario's `sensing` block says: friction estimates derived
 // from (never equal by reference to) the plant's truth, and seeded Gaussian noise on foot forces.
 
-import type { Observation } from '../builds/interface.js';
+import type { Observation } from '../contract/tick.js';
 import { SeededRandom } from '../plant/random.js';
 import type { Sensing } from '../scenario/types.js';
 

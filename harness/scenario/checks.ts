@@ -2,11 +2,16 @@
 // expanded data even when the schema found problems, looking only at well-shaped values, so a
 // file's errors all come out at once.
 
+import { largestContactStep_s, STEPS_PER_CONTACT_PERIOD } from '../plant/contactLaw.js';
+import { STANDARD_GRAVITY_mps2 } from '../plant/defaults.js';
 import type { RobotParams } from '../plant/types.js';
+import { resolveContactLaw } from './contact.js';
 import { DEFAULT_MATERIAL, defaultControlRate_Hz, defaultLoopBudget_us, defaultPhysicsStep_s } from './defaults.js';
 import { polygonProblem, type Point } from './geometry.js';
 import { list, num, rec, vec } from './guards.js';
-import { pointerJoin, type Finding } from './issue.js';
+import { pointerJoin, type Finding } from '../files/issue.js';
+import { runSizeProblems } from '../files/bounds.js';
+import { checkPlausibility } from './plausibility.js';
 
 export interface CheckResult {
   errors: Finding[];
@@ -27,7 +32,13 @@ export function checkScenario(data: Record<string, unknown>, robot: RobotParams 
   checkPushes(data, duration, robot, errors, warnings);
   checkGround(data, errors);
   checkTiming(data, errors, warnings);
-  if (robot) checkInitial(data, robot, errors);
+  checkStart(data, errors);
+  if (duration !== undefined) errors.push(...runSize(data, duration));
+  if (robot) {
+    checkInitial(data, robot, errors);
+    checkContactStep(data, robot, errors);
+  }
+  warnings.push(...checkPlausibility(data, robot));
   return { errors, warnings };
 }
 
@@ -112,6 +123,9 @@ function checkGround(data: Record<string, unknown>, errors: Finding[]) {
     if (!patch) return;
     const base = `/ground/patches/${i}`;
     frictionPair(rec(patch.material), defaults, `${base}/material`, 'the default material', errors);
+    if (rec(patch.material) && 'elastic' in rec(patch.material)!) {
+      errors.push({ path: `${base}/material/elastic`, message: 'a patch cannot carry elastic data: one contact law holds for the whole ground (expected elastic under ground.material only)' });
+    }
     const shapes = ['rect', 'circle', 'polygon_m'].filter((k) => k in patch);
     if (shapes.length !== 1) {
       errors.push({ path: base, message: `patch has ${shapes.length === 0 ? 'no shape' : `${shapes.length} shapes (${shapes.join(', ')})`} (expected exactly one of rect, circle, polygon_m)` });
@@ -239,4 +253,59 @@ function checkInitial(data: Record<string, unknown>, robot: RobotParams, errors:
       });
     }
   });
+}
+
+function runSize(data: Record<string, unknown>, duration_s: number): Finding[] {
+  const control = rec(data.control);
+  const physics = rec(data.physics);
+  const rate = num(control?.rate_Hz) ?? defaultControlRate_Hz();
+  const step = num(physics?.step_s) ?? defaultPhysicsStep_s();
+  if (!(rate > 0 && step > 0)) return []; // the schema reports it
+  return runSizeProblems(duration_s, rate, step, { rate: control && 'rate_Hz' in control ? '/control/rate_Hz' : 'the default control rate', step: physics && 'step_s' in physics ? '/physics/step_s' : '/duration_s' });
+}
+
+function checkStart(data: Record<string, unknown>, errors: Finding[]) {
+  const initial = rec(data.initial);
+  if (!initial || initial.start !== 'settled') return;
+  if (Array.isArray(initial.feet)) {
+    errors.push({ path: '/initial/start', message: 'a settled start places the feet itself, under the hips (expected feet: standing, or start: released with explicit foot positions)' });
+  }
+  for (const key of ['velocity_mps', 'angularVelocity_radps']) {
+    const v = vec(initial[key], 3);
+    if (v && v.some((x) => x !== 0)) {
+      errors.push({ path: `/initial/${key}`, message: `a settled start is at rest, but ${key} is [${v.join(', ')}] (expected zero, or start: released for a moving start)` });
+    }
+  }
+}
+
+/**
+ * The physics step must resolve the foot contact: at most 1/STEPS_PER_CONTACT_PERIOD of the
+ * contact period at the whole robot's weight on one foot (harness/plant/contactLaw.ts).
+ */
+function checkContactStep(data: Record<string, unknown>, robot: RobotParams, errors: Finding[]) {
+  const physics = rec(data.physics);
+  const ground = rec(data.ground);
+  const step = num(physics?.step_s) ?? defaultPhysicsStep_s();
+  if (!(step > 0)) return;
+  const given = rec(ground?.contact);
+  const elastic = rec(rec(ground?.material)?.elastic);
+  const overrides = {
+    stiffness_N_per_m: num(given?.stiffness_N_per_m),
+    exponent: num(given?.exponent),
+    damping_s_per_m: num(given?.damping_s_per_m),
+  };
+  const floor = elastic && num(elastic.elasticModulus_Pa)! > 0 && num(elastic.poissonRatio) !== undefined
+    ? { elasticModulus_Pa: num(elastic.elasticModulus_Pa)!, poissonRatio: num(elastic.poissonRatio)! }
+    : undefined;
+  const law = resolveContactLaw(robot, overrides, floor);
+  if (!(law.stiffness_N_per_m > 0) || !(law.exponent >= 1)) return; // the schema reports these
+  const weight_N = (robot.trunk.mass_kg + robot.hips_m.length * robot.foot.mass_kg) * STANDARD_GRAVITY_mps2;
+  const largest = largestContactStep_s(law.stiffness_N_per_m, law.exponent, robot.foot.mass_kg, weight_N);
+  if (step > largest * (1 + 1e-9)) {
+    const period_ms = largest * STEPS_PER_CONTACT_PERIOD * 1000;
+    errors.push({
+      path: physics && 'step_s' in physics ? '/physics/step_s' : given ? '/ground/contact' : '/physics',
+      message: `the physics step ${step * 1000} ms cannot resolve the foot contact (k = ${law.stiffness_N_per_m.toExponential(3)} N/m^${law.exponent}, contact period ${Number(period_ms.toPrecision(3))} ms at the robot's weight on one foot); it needs a step ≤ ${Number((largest * 1000).toPrecision(3))} ms (${STEPS_PER_CONTACT_PERIOD} steps per contact period)`,
+    });
+  }
 }

@@ -1,8 +1,9 @@
 // Scenario defaults: the one place optional fields of a scenario file get their values. Plant
 // numbers (step, contact law, control rate) come from harness/plant/defaults.ts.
 
-import { DEFAULT_CONTACT, DEFAULT_CONTROL_RATE_Hz, DEFAULT_PHYSICS_STEP_s } from '../plant/defaults.js';
-import type { Material, RobotParams, Vec3 } from '../plant/types.js';
+import { DEFAULT_CONTROL_RATE_Hz, DEFAULT_PHYSICS_STEP_s } from '../plant/defaults.js';
+import { resolveContactLaw } from './contact.js';
+import type { Material, RobotParams, StartMode, Vec3 } from '../plant/types.js';
 import type { MaterialFile, RobotFile, ScenarioFile } from './format.js';
 import type { Acceptance, CommandStep, FrictionSensing, ResolvedScenario } from './types.js';
 import type { Push, Raster, Patch } from '../plant/types.js';
@@ -64,7 +65,11 @@ export function resolveRobot(file: RobotFile): RobotParams {
       halfExtents_m: v3(file.trunk.halfExtents_m),
     },
     hips_m: file.hips_m.map(v3),
-    foot: { mass_kg: file.foot.mass_kg },
+    foot: {
+      mass_kg: file.foot.mass_kg,
+      ...(file.foot.radius_m !== undefined ? { radius_m: file.foot.radius_m } : {}),
+      ...(file.foot.material ? { material: { ...file.foot.material } } : {}),
+    },
     leg: { ...file.leg },
     standingHeight_m: file.standingHeight_m,
     gait: { ...file.gait },
@@ -94,6 +99,13 @@ export function resolveAcceptance(a: ScenarioFile['acceptance']): Acceptance {
     maxCommandedViolations: a?.maxCommandedViolations ?? null,
     minProgress: a?.minProgress ?? null,
   };
+}
+
+/** Settled when the feet stand and nothing moves at t = 0; released otherwise (docs/scenarios.md). */
+export function defaultStartMode(init: NonNullable<ScenarioFile['initial']>): StartMode {
+  const standing = init.feet === undefined || init.feet === 'standing';
+  const atRest = [...(init.velocity_mps ?? ZERO_VEC3), ...(init.angularVelocity_radps ?? ZERO_VEC3)].every((x) => x === 0);
+  return standing && atRest ? 'settled' : 'released';
 }
 
 /** Data read from files the scenario references, already parsed and checked. */
@@ -157,11 +169,7 @@ export function fillScenarioDefaults(s: ScenarioFile, refs: InlinedReferences): 
       robot,
       ground: {
         incline_deg: { pitch: s.ground?.incline_deg?.pitch ?? 0, roll: s.ground?.incline_deg?.roll ?? 0 },
-        contact: {
-          stiffness_N_per_m: s.ground?.contact?.stiffness_N_per_m ?? DEFAULT_CONTACT.stiffness_N_per_m,
-          exponent: s.ground?.contact?.exponent ?? DEFAULT_CONTACT.exponent,
-          damping_s_per_m: s.ground?.contact?.damping_s_per_m ?? DEFAULT_CONTACT.damping_s_per_m,
-        },
+        contact: resolveContactLaw(robot, s.ground?.contact, s.ground?.material?.elastic),
         friction: raster ? { default: defaultMaterial, patches, raster } : { default: defaultMaterial, patches },
       },
       pushes,
@@ -172,6 +180,7 @@ export function fillScenarioDefaults(s: ScenarioFile, refs: InlinedReferences): 
         velocity_mps: v3(init.velocity_mps, ZERO_VEC3),
         angularVelocity_radps: v3(init.angularVelocity_radps, ZERO_VEC3),
         feet: init.feet === undefined || init.feet === 'standing' ? 'standing' : init.feet.map((f) => [f[0], f[1], f[2]] as Vec3),
+        start: init.start ?? defaultStartMode(init),
       },
     },
     control: { rate_Hz, loopBudget_us: s.control?.loopBudget_us ?? defaultLoopBudget_us(rate_Hz) },

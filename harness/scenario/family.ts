@@ -18,7 +18,7 @@
 
 import { SeededRandom } from '../plant/random.js';
 import type { Push } from '../plant/types.js';
-import type { Finding } from './issue.js';
+import type { Finding } from '../files/issue.js';
 import type { FamilyMembership, ResolvedScenario } from './types.js';
 import {
   cloneScenario,
@@ -29,6 +29,7 @@ import {
   scalePushList,
   shiftPushes,
   turnPushes,
+  unknownPushKind,
   withIdentity,
 } from './variation.js';
 
@@ -106,10 +107,17 @@ function strongest(pushes: Push[]): Push {
 
 /** Horizontal force of a push at its peak sample, N, and its heading. */
 function horizontalAtPeak(p: Push): [number, number] {
-  if (p.kind === 'pulse') return [p.force_N[0], p.force_N[1]];
-  let best = p.force_N[0];
-  for (const f of p.force_N) if (Math.hypot(f[0], f[1], f[2]) > Math.hypot(best[0], best[1], best[2])) best = f;
-  return [best[0], best[1]];
+  switch (p.kind) {
+    case 'pulse':
+      return [p.force_N[0], p.force_N[1]];
+    case 'series': {
+      let best = p.force_N[0];
+      for (const f of p.force_N) if (Math.hypot(f[0], f[1], f[2]) > Math.hypot(best[0], best[1], best[2])) best = f;
+      return [best[0], best[1]];
+    }
+    default:
+      return unknownPushKind(p);
+  }
 }
 
 function horizontalPeak(p: Push): number {

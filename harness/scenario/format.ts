@@ -1,8 +1,9 @@
 // The shape of a version-1 file once it has passed scenario.schema.json / robot.schema.json.
 // Optional fields are optional here exactly as in the schema; defaults.ts fills them.
 
-import type { GaitName } from '../builds/interface.js';
-import type { RobotParams, Vec3 } from '../plant/types.js';
+import type { GaitName } from '../contract/tick.js';
+import type { Elastic } from '../plant/contactLaw.js';
+import type { RobotParams, StartMode, Vec3 } from '../plant/types.js';
 
 export const SCENARIO_FORMAT = 'footing-scenario';
 export const ROBOT_FORMAT = 'footing-robot';
@@ -24,6 +25,8 @@ export interface MaterialFile {
   stribeckVelocity_mps?: number;
   stribeckExponent?: number;
   viscous_Ns_per_m?: number;
+  /** Elastic data of the floor (only on the ground's own material): enters Hertz's law. */
+  elastic?: Elastic;
 }
 
 export interface PatchFile {
@@ -85,6 +88,7 @@ export interface ScenarioFile {
     velocity_mps?: Vec3;
     angularVelocity_radps?: Vec3;
     feet?: 'standing' | Vec3[];
+    start?: StartMode;
   };
   ground?: {
     incline_deg?: { pitch?: number; roll?: number };

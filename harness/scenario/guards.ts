@@ -1,7 +1,7 @@
 // Type guards for checks that run on data which may still be partly invalid: every physical
 // check looks only at the values that have the right shape, so one bad field never hides others.
 
-import { isRecord } from './source.js';
+import { isRecord } from '../files/source.js';
 
 export { isRecord };
 

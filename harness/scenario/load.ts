@@ -1,19 +1,20 @@
 // Loading one scenario (or robot) file: parse → refuse structural hazards → check the header →
 // migrate → expand the matrix → schema → physical checks → inline referenced files → defaults →
-// hash. Every problem becomes a ScenarioIssue with file, line, column and path; nothing throws.
+// hash. Every problem becomes a FileIssue with file, line, column and path; nothing throws.
 
 import { createHash } from 'node:crypto';
 import { createReadStream } from 'node:fs';
-import { readFile as fsReadFile, realpath } from 'node:fs/promises';
+import { realpath } from 'node:fs/promises';
+import { readBoundedText } from '../files/bounded.js';
 import path from 'node:path';
-import { closest } from 'fastest-levenshtein';
 import type { RobotParams } from '../plant/types.js';
 import { scenarioHash } from './canonical.js';
 import { checkScenario } from './checks.js';
 import { fillScenarioDefaults, resolveRobot, type InlinedReferences } from './defaults.js';
 import { ROBOT_FORMAT, SCENARIO_FORMAT, type RobotFile, type ScenarioFile } from './format.js';
 import { list, num, rec } from './guards.js';
-import { formatIssue, kindOf, showValue, type Finding, type LoadResult, type ScenarioIssue } from './issue.js';
+import { formatIssue, kindOf, showValue, type Finding, type FileIssue } from '../files/issue.js';
+import { hintFor } from '../files/suggest.js';
 import { expandFamily, type FamilyFile } from './family.js';
 import { expandMatrix } from './matrix.js';
 import { CURRENT_ROBOT_VERSION, CURRENT_SCENARIO_VERSION, migrateScenario, type PathMap } from './migrate.js';
@@ -21,8 +22,13 @@ import { displayPath, isInside, resolveReference, suiteRelative } from './paths.
 import { checkRobot } from './robot.js';
 import { validateAgainst } from './schema.js';
 import { parseRasterCsv, parseSeriesCsv } from './series.js';
-import { isRecord, parseSource, scanData, type ParsedSource } from './source.js';
+import { isRecord, parseSource, scanData, type ParsedSource } from '../files/source.js';
 import type { ResolvedScenario } from './types.js';
+
+export type LoadResult =
+  | { ok: true; scenarios: ResolvedScenario[]; warnings: FileIssue[] }
+  | { ok: false; errors: FileIssue[] };
+
 
 export interface LoadOptions {
   /**
@@ -46,7 +52,7 @@ export function createLoadCache(): LoadCache {
   return { robots: new Map() };
 }
 
-export type RobotLoadResult = { ok: true; robot: RobotParams; warnings: ScenarioIssue[] } | { ok: false; errors: ScenarioIssue[] };
+export type RobotLoadResult = { ok: true; robot: RobotParams; warnings: FileIssue[] } | { ok: false; errors: FileIssue[] };
 
 interface Context {
   absolute: string;
@@ -77,17 +83,17 @@ function makeContext(fileName: string, opts: LoadOptions): Context {
     display: displayPath(absolute, cwd),
     suiteRoot: opts.suiteRoot !== undefined ? path.resolve(cwd, opts.suiteRoot) : defaultSuiteRoot(absolute),
     cwd,
-    readFile: opts.readFile ?? ((p) => fsReadFile(p, 'utf8')),
+    readFile: opts.readFile ?? ((p) => readBoundedText(p)),
     realFiles: opts.readFile === undefined,
     cache: opts.cache ?? createLoadCache(),
   };
 }
 
-function internalError(file: string, e: unknown): ScenarioIssue {
+function internalError(file: string, e: unknown): FileIssue {
   return { file, path: '', message: `internal error while loading (please report it): ${(e as Error)?.message ?? String(e)}` };
 }
 
-function sortIssues(issues: ScenarioIssue[], ownFile: string): ScenarioIssue[] {
+function sortIssues(issues: FileIssue[], ownFile: string): FileIssue[] {
   return issues
     .map((issue, order) => ({ issue, order }))
     .sort((a, b) => {
@@ -106,7 +112,7 @@ function sortIssues(issues: ScenarioIssue[], ownFile: string): ScenarioIssue[] {
 
 /** Turns findings (pointers into possibly migrated data) into located issues. */
 function locator(ctx: Context, src: ParsedSource, paths?: PathMap) {
-  return (f: Finding): ScenarioIssue => {
+  return (f: Finding): FileIssue => {
     if (f.file !== undefined) {
       return { file: f.file, line: f.line, column: f.column, path: f.path, message: f.message, ...(f.hint ? { hint: f.hint } : {}) };
     }
@@ -137,7 +143,7 @@ function checkHeader(data: unknown, expected: string, currentVersion: number, is
         : `this is a scenario (format: ${SCENARIO_FORMAT}), not a robot description`,
     });
   } else if (data.format !== expected) {
-    const hint = typeof data.format === 'string' ? `did you mean "${closest(data.format, [expected, other])}"?` : undefined;
+    const hint = typeof data.format === 'string' ? hintFor(data.format, [expected, other]) : undefined;
     errors.push({ path: '/format', message: `${showValue(data.format)} is not a Footing file format (expected format: ${expected})`, hint });
   }
   if (!('formatVersion' in data)) {
@@ -154,7 +160,7 @@ export async function loadScenarioFile(file: string, opts: LoadOptions = {}): Pr
   const ctx = makeContext(file, opts);
   let text: string;
   try {
-    text = await fsReadFile(ctx.absolute, 'utf8');
+    text = await readBoundedText(ctx.absolute);
   } catch (e) {
     return { ok: false, errors: [{ file: ctx.display, path: '', message: `cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})` }] };
   }
@@ -173,11 +179,16 @@ export async function loadScenarioText(text: string, fileName: string, opts: Loa
   }
 }
 
+/** `.json` files are strict JSON; everything else is YAML (of which JSON is a subset). */
+function isJsonFile(fileName: string): boolean {
+  return /\.json$/i.test(fileName);
+}
+
 async function loadScenario(text: string, ctx: Context): Promise<LoadResult> {
-  const src = parseSource(text);
+  const src = parseSource(text, { json: isJsonFile(ctx.display) });
   const located = locator(ctx, src);
   if (src.errors.length) return { ok: false, errors: sortIssues(src.errors.map(located), ctx.display) };
-  const warnings: ScenarioIssue[] = src.warnings.map(located);
+  const warnings: FileIssue[] = src.warnings.map(located);
   const scan = scanData(src.value, src);
   if (scan.structural.length) return { ok: false, errors: sortIssues([...scan.structural, ...scan.nonFinite].map(located), ctx.display) };
   const header = checkHeader(src.value, SCENARIO_FORMAT, CURRENT_SCENARIO_VERSION, text.trim() === '');
@@ -192,7 +203,7 @@ async function loadScenario(text: string, ctx: Context): Promise<LoadResult> {
       message: `format version ${migration.from} was migrated in memory to version ${CURRENT_SCENARIO_VERSION}; consider rewriting the file in version ${CURRENT_SCENARIO_VERSION} (see docs/scenarios.md)`,
     }));
   }
-  const errors: ScenarioIssue[] = scan.nonFinite.map(located);
+  const errors: FileIssue[] = scan.nonFinite.map(located);
   const data = migration.data;
 
   let instances: { data: Record<string, unknown>; label?: string }[] = [{ data }];
@@ -235,17 +246,17 @@ async function loadScenario(text: string, ctx: Context): Promise<LoadResult> {
 }
 
 interface InstanceResult {
-  errors: ScenarioIssue[];
-  warnings: ScenarioIssue[];
+  errors: FileIssue[];
+  warnings: FileIssue[];
   scenario?: ResolvedScenario;
   /** The samples, when the instance declares a `family:` block. */
   family?: ResolvedScenario[];
 }
 
 /** `blocked`: the file already has errors (e.g. non-finite numbers), so check but do not resolve. */
-async function loadInstance(data: Record<string, unknown>, ctx: Context, locate: (f: Finding) => ScenarioIssue, blocked: boolean): Promise<InstanceResult> {
-  const errors: ScenarioIssue[] = validateAgainst('scenario', data).map(locate);
-  const warnings: ScenarioIssue[] = [];
+async function loadInstance(data: Record<string, unknown>, ctx: Context, locate: (f: Finding) => FileIssue, blocked: boolean): Promise<InstanceResult> {
+  const errors: FileIssue[] = validateAgainst('scenario', data).map(locate);
+  const warnings: FileIssue[] = [];
 
   let robot: RobotParams | undefined;
   if (typeof data.robot === 'string' && data.robot.length > 0) {
@@ -308,7 +319,7 @@ async function loadInstance(data: Record<string, unknown>, ctx: Context, locate:
 }
 
 /** An imported scenario's recorded trajectory must exist and still have the sha256 the file names. */
-async function checkRecorded(recorded: Record<string, unknown> | undefined, ctx: Context, errors: ScenarioIssue[], locate: (f: Finding) => ScenarioIssue): Promise<void> {
+async function checkRecorded(recorded: Record<string, unknown> | undefined, ctx: Context, errors: FileIssue[], locate: (f: Finding) => FileIssue): Promise<void> {
   if (!recorded || typeof recorded.trajectory !== 'string' || typeof recorded.sha256 !== 'string') return;
   const pointer = '/recorded/trajectory';
   let display: string;
@@ -345,8 +356,8 @@ async function readReference(
   ctx: Context,
   pointer: string,
   what: string,
-  errors: ScenarioIssue[],
-  locate: (f: Finding) => ScenarioIssue,
+  errors: FileIssue[],
+  locate: (f: Finding) => FileIssue,
 ): Promise<{ content: string; display: string } | undefined> {
   const resolved = await resolveInside(reference, ctx);
   if (!resolved.ok) {
@@ -376,7 +387,7 @@ async function resolveInside(reference: string, ctx: Context): Promise<{ ok: tru
 
 async function loadRobotReference(reference: string, ctx: Context): Promise<RobotLoadResult> {
   const resolved = await resolveInside(reference, ctx);
-  if (!resolved.ok) return { ok: false, errors: [{ path: '/robot', message: `robot file ${resolved.message}` } as ScenarioIssue & Finding] };
+  if (!resolved.ok) return { ok: false, errors: [{ path: '/robot', message: `robot file ${resolved.message}` } as FileIssue & Finding] };
   let pending = ctx.cache.robots.get(resolved.absolute);
   if (!pending) {
     pending = (async (): Promise<RobotLoadResult> => {
@@ -384,7 +395,7 @@ async function loadRobotReference(reference: string, ctx: Context): Promise<Robo
       try {
         text = await ctx.readFile(resolved.absolute);
       } catch (e) {
-        return { ok: false, errors: [{ path: '/robot', message: `robot file "${reference}" cannot be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}; resolved to ${displayPath(resolved.absolute, ctx.cwd)})` } as ScenarioIssue & Finding] };
+        return { ok: false, errors: [{ path: '/robot', message: `robot file "${reference}" cannot be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}; resolved to ${displayPath(resolved.absolute, ctx.cwd)})` } as FileIssue & Finding] };
       }
       return loadRobotText(text, resolved.absolute, { cwd: ctx.cwd });
     })();
@@ -396,7 +407,7 @@ async function loadRobotReference(reference: string, ctx: Context): Promise<Robo
   const own = result.errors.filter((e) => e.file === undefined);
   const inRobot = result.errors.filter((e) => e.file !== undefined);
   const summary = inRobot.length
-    ? [{ path: '/robot', message: `robot file "${reference}" is invalid (${inRobot.length} error${inRobot.length === 1 ? '' : 's'}, listed under ${inRobot[0].file})` } as ScenarioIssue & Finding]
+    ? [{ path: '/robot', message: `robot file "${reference}" is invalid (${inRobot.length} error${inRobot.length === 1 ? '' : 's'}, listed under ${inRobot[0].file})` } as FileIssue & Finding]
     : [];
   return { ok: false, errors: [...own, ...summary, ...inRobot] };
 }
@@ -406,7 +417,7 @@ export async function loadRobotFile(file: string, opts: { cwd?: string } = {}): 
   const cwd = opts.cwd ?? process.cwd();
   const absolute = path.resolve(cwd, file);
   try {
-    return loadRobotText(await fsReadFile(absolute, 'utf8'), absolute, { cwd });
+    return loadRobotText(await readBoundedText(absolute), absolute, { cwd });
   } catch (e) {
     return { ok: false, errors: [{ file: displayPath(absolute, cwd), path: '', message: `cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})` }] };
   }
@@ -417,7 +428,7 @@ export function loadRobotText(text: string, fileName: string, opts: { cwd?: stri
   const absolute = path.resolve(cwd, fileName);
   const display = displayPath(absolute, cwd);
   try {
-    const src = parseSource(text);
+    const src = parseSource(text, { json: isJsonFile(display) });
     const ctx = { display } as Context;
     const located = locator(ctx, src);
     if (src.errors.length) return { ok: false, errors: src.errors.map(located) };

@@ -13,9 +13,9 @@
 //       - { mu_s: 0.2, mu_k: 0.15 }
 //       - { mu_s: 0.6, mu_k: 0.45 }
 
-import { closest } from 'fastest-levenshtein';
-import { pointerJoin, type Finding } from './issue.js';
-import { isRecord } from './source.js';
+import { pointerJoin, type Finding } from '../files/issue.js';
+import { isRecord } from '../files/source.js';
+import { suggestName } from '../files/suggest.js';
 
 export type MatrixValue = number | string | boolean;
 /** More scenarios from one file than this is almost surely a mistake. */
@@ -82,7 +82,7 @@ export function expandMatrix(template: Record<string, unknown>): MatrixOutcome {
       const name = m[1];
       if (names.includes(name)) used.add(name);
       else {
-        const best = names.length ? closest(name, names) : undefined;
+        const best = suggestName(name, names);
         errors.push({
           path: pointer,
           message: `\${${name}} is not a matrix parameter (parameters: ${names.join(', ')})`,

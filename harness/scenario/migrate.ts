@@ -25,8 +25,8 @@
 //   limits:     { must_not_fall: true, max_slip: 0.05 }           # → acceptance
 
 import { defaultPhysicsStep_s } from './defaults.js';
-import { isRecord } from './source.js';
-import { pointerJoin } from './issue.js';
+import { isRecord } from '../files/source.js';
+import { pointerJoin } from '../files/issue.js';
 
 export const CURRENT_SCENARIO_VERSION = 1;
 export const CURRENT_ROBOT_VERSION = 1;

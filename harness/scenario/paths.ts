@@ -4,6 +4,9 @@
 
 import path from 'node:path';
 
+/** What run, margin and check read when no scenario path is given. */
+export const DEFAULT_SCENARIO_PATHS: readonly string[] = ['scenarios'];
+
 export type ReferenceOutcome = { ok: true; absolute: string } | { ok: false; message: string };
 
 export function resolveReference(reference: string, scenarioFile: string, suiteRoot: string): ReferenceOutcome {

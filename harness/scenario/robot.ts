@@ -4,7 +4,7 @@ import { STANDARD_GRAVITY_mps2 } from '../plant/defaults.js';
 import type { RobotParams } from '../plant/types.js';
 import { resolveRobot } from './defaults.js';
 import type { RobotFile } from './format.js';
-import { pointerJoin, type Finding } from './issue.js';
+import { pointerJoin, type Finding } from '../files/issue.js';
 import { list, num, rec, vec } from './guards.js';
 
 /**

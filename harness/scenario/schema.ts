@@ -1,13 +1,10 @@
 // JSON Schema validation (ajv, draft 2020-12, allErrors) and the translation of ajv's errors into
 // messages that name the field, the value and what is expected, with "did you mean" for typos.
 
-import { readFileSync } from 'node:fs';
-import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
-import { closest, distance } from 'fastest-levenshtein';
-import { kindOf, pointerJoin, pointerSegments, showValue, type Finding } from './issue.js';
-
-export const SCENARIO_SCHEMA_ID = 'https://schemas.footing.invalid/scenario.schema.json';
-export const ROBOT_SCHEMA_ID = 'https://schemas.footing.invalid/robot.schema.json';
+import type { ErrorObject, ValidateFunction } from 'ajv/dist/2020.js';
+import { kindOf, pointerJoin, pointerSegments, showValue, type Finding } from '../files/issue.js';
+import { schemaValidator } from '../files/schema.js';
+import { hintFor } from '../files/suggest.js';
 
 interface Validators {
   scenario: ValidateFunction;
@@ -16,21 +13,15 @@ interface Validators {
 }
 let validators: Validators | undefined;
 
-function loadSchema(name: string): object {
-  return JSON.parse(readFileSync(new URL(`./${name}`, import.meta.url), 'utf8')) as object;
-}
+const ROBOT_SCHEMA_URL = new URL('./robot.schema.json', import.meta.url);
+const SCENARIO_SCHEMA_URL = new URL('./scenario.schema.json', import.meta.url);
 
 function getValidators(): Validators {
-  if (!validators) {
-    const ajv = new Ajv2020({ allErrors: true, verbose: true, strict: true, strictRequired: false, allowUnionTypes: true });
-    ajv.addSchema(loadSchema('robot.schema.json'));
-    ajv.addSchema(loadSchema('scenario.schema.json'));
-    validators = {
-      scenario: ajv.getSchema(SCENARIO_SCHEMA_ID)!,
-      robot: ajv.getSchema(ROBOT_SCHEMA_ID)!,
-      matrix: ajv.getSchema(`${SCENARIO_SCHEMA_ID}#/$defs/matrix`)!,
-    };
-  }
+  validators ??= {
+    scenario: schemaValidator(SCENARIO_SCHEMA_URL, { references: [ROBOT_SCHEMA_URL] }),
+    robot: schemaValidator(ROBOT_SCHEMA_URL),
+    matrix: schemaValidator(SCENARIO_SCHEMA_URL, { fragment: '#/$defs/matrix', references: [ROBOT_SCHEMA_URL] }),
+  };
   return validators;
 }
 
@@ -38,15 +29,6 @@ export function validateAgainst(which: keyof Validators, value: unknown, basePat
   const validate = getValidators()[which];
   if (validate(value)) return [];
   return translateErrors(validate.errors ?? [], basePath);
-}
-
-/** Largest edit distance still offered as "did you mean": a third of the name, at least 2. */
-function suggestion(name: string, known: string[]): string | undefined {
-  if (known.length === 0) return undefined;
-  const best = closest(name, known);
-  const limit = Math.max(2, Math.floor(name.length / 3));
-  if (distance(name.toLowerCase(), best.toLowerCase()) <= limit) return `did you mean "${best}"?`;
-  return undefined;
 }
 
 function fieldName(pointer: string): string {
@@ -81,7 +63,7 @@ export function translateErrors(errors: ErrorObject[], basePath: string): Findin
       case 'additionalProperties': {
         const name = String((e.params as { additionalProperty: string }).additionalProperty);
         const known = Object.keys((parent?.properties as object | undefined) ?? {});
-        const hint = suggestion(name, known) ?? (known.length > 0 && known.length <= 12 ? `known fields: ${known.join(', ')}` : undefined);
+        const hint = hintFor(name, known) ?? (known.length > 0 && known.length <= 12 ? `known fields: ${known.join(', ')}` : undefined);
         push({ path: pointerJoin(path, name), at: 'key', message: `unknown field "${name}"`, hint });
         break;
       }
@@ -107,7 +89,7 @@ export function translateErrors(errors: ErrorObject[], basePath: string): Findin
         push({
           path,
           message: `${showValue(value)} is not one of ${allowed.map((a) => JSON.stringify(a)).join(', ')}`,
-          hint: typeof value === 'string' ? suggestion(value, allowed) : undefined,
+          hint: typeof value === 'string' ? hintFor(value, allowed) : undefined,
         });
         break;
       }

@@ -2,9 +2,9 @@
 // rasters (i,j,staticFriction,kineticFriction, one row per cell). Errors name the CSV file's line.
 
 import { parse } from 'csv-parse/sync';
-import { closest } from 'fastest-levenshtein';
 import type { Vec3 } from '../plant/types.js';
-import type { Finding } from './issue.js';
+import type { Finding } from '../files/issue.js';
+import { hintFor } from '../files/suggest.js';
 
 /** Bounds that keep a mistaken file from eating the machine; far above any real recording. */
 export const MAX_SERIES_ROWS = 1_000_000;
@@ -34,7 +34,7 @@ function readTable(text: string, file: string, pointer: string, columns: readonl
   const errors: Finding[] = [];
   const at = (line: number, message: string, hint?: string): Finding => ({ path: pointer, file, line, column: 1, message, hint });
   for (const name of header.cells) {
-    if (!columns.includes(name)) errors.push(at(header.line, `unknown column "${name}" in the header (expected ${columns.join(',')})`, `did you mean "${closest(name, columns as string[])}"?`));
+    if (!columns.includes(name)) errors.push(at(header.line, `unknown column "${name}" in the header (expected ${columns.join(',')})`, hintFor(name, columns)));
   }
   for (const name of columns) {
     if (!header.cells.includes(name)) errors.push(at(header.line, `missing column "${name}" in the header (expected ${columns.join(',')})`));

@@ -1,13 +1,14 @@
 // A suite: files and folders of scenarios, loaded in a deterministic order, with ids unique
-// across files; and `footing check`, which reports every file's problems.
+// across files (`footing check` reports every file's problems: harness/commands/check.ts).
 
-import { readdir, readFile, stat } from 'node:fs/promises';
+import { readdir, stat } from 'node:fs/promises';
+import { readBoundedText } from '../files/bounded.js';
 import path from 'node:path';
 import { ROBOT_FORMAT, SCENARIO_FORMAT } from './format.js';
-import { formatIssue, type ScenarioIssue } from './issue.js';
+import type { FileIssue } from '../files/issue.js';
 import { createLoadCache, defaultSuiteRoot, loadRobotText, loadScenarioText, peekFormat, type LoadOptions } from './load.js';
 import { displayPath } from './paths.js';
-import { parseSource } from './source.js';
+import { parseSource } from '../files/source.js';
 import type { ResolvedScenario } from './types.js';
 
 export const SCENARIO_EXTENSIONS = ['.yaml', '.yml', '.json'];
@@ -18,8 +19,8 @@ export interface SuiteFileReport {
   /** As shown in messages (relative to the working directory when inside it). */
   file: string;
   kind: 'scenario' | 'robot' | 'unknown';
-  errors: ScenarioIssue[];
-  warnings: ScenarioIssue[];
+  errors: FileIssue[];
+  warnings: FileIssue[];
   /** Ids of the scenarios the file produced (several for a matrix). */
   scenarioIds: string[];
 }
@@ -28,7 +29,7 @@ export interface SuiteResult {
   scenarios: ResolvedScenario[];
   files: SuiteFileReport[];
   /** Problems not tied to one file's content (a path that does not exist, an empty folder). */
-  errors: ScenarioIssue[];
+  errors: FileIssue[];
   ok: boolean;
 }
 
@@ -39,7 +40,7 @@ interface Entry {
   suiteRoot: string;
 }
 
-async function collect(paths: string[], opts: SuiteOptions, errors: ScenarioIssue[], cwd: string): Promise<Entry[]> {
+async function collect(paths: string[], opts: SuiteOptions, errors: FileIssue[], cwd: string): Promise<Entry[]> {
   const out = new Map<string, Entry>();
   for (const p of paths) {
     const absolute = path.resolve(cwd, p);
@@ -83,7 +84,7 @@ async function walk(folder: string): Promise<string[]> {
  */
 export async function loadSuite(paths: string[], opts: SuiteOptions = {}): Promise<SuiteResult> {
   const cwd = opts.cwd ?? process.cwd();
-  const errors: ScenarioIssue[] = [];
+  const errors: FileIssue[] = [];
   const entries = await collect(paths, opts, errors, cwd);
   const cache = createLoadCache();
   const files: SuiteFileReport[] = [];
@@ -93,7 +94,7 @@ export async function loadSuite(paths: string[], opts: SuiteOptions = {}): Promi
     const display = displayPath(entry.absolute, cwd);
     let text: string;
     try {
-      text = await readFile(entry.absolute, 'utf8');
+      text = await readBoundedText(entry.absolute);
     } catch (e) {
       files.push({ file: display, kind: 'unknown', errors: [{ file: display, path: '', message: `cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})` }], warnings: [], scenarioIds: [] });
       continue;
@@ -126,30 +127,4 @@ export async function loadSuite(paths: string[], opts: SuiteOptions = {}): Promi
   }
   const ok = errors.length === 0 && files.every((f) => f.errors.length === 0);
   return { scenarios, files, errors, ok };
-}
-
-/** `footing check [paths..]`: one line per file, its problems indented below; exit 0 or 2. */
-export async function checkPaths(paths: string[], opts: SuiteOptions = {}): Promise<{ exitCode: 0 | 2; lines: string[] }> {
-  const suite = await loadSuite(paths.length ? paths : ['scenarios'], opts);
-  const lines: string[] = [];
-  for (const e of suite.errors) lines.push(`${e.file}: ${e.message}`);
-  let good = 0;
-  for (const f of suite.files) {
-    const count = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
-    const what = f.kind === 'robot' ? 'robot' : f.scenarioIds.length > 1 ? count(f.scenarioIds.length, 'scenario') : '';
-    const extras = [what, f.warnings.length ? count(f.warnings.length, 'warning') : ''].filter(Boolean).join(', ');
-    if (f.errors.length === 0) {
-      good++;
-      lines.push(`${f.file}: ok${extras ? ` (${extras})` : ''}`);
-    } else {
-      lines.push(`${f.file}: ${count(f.errors.length, 'error')}${f.warnings.length ? `, ${count(f.warnings.length, 'warning')}` : ''}`);
-    }
-    for (const e of f.errors) lines.push(`  ${formatIssue(e)}`);
-    for (const w of f.warnings) lines.push(`  warning: ${formatIssue(w)}`);
-  }
-  const scenarioCount = suite.scenarios.length;
-  lines.push(
-    `checked ${suite.files.length} file${suite.files.length === 1 ? '' : 's'}: ${good} ok, ${suite.files.length - good} with errors; ${scenarioCount} scenario${scenarioCount === 1 ? '' : 's'}`,
-  );
-  return { exitCode: suite.ok ? 0 : 2, lines };
 }

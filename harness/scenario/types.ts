@@ -1,7 +1,7 @@
 // The resolved scenario: what the loader hands to the runner after validation, migration,
 // defaults and inlining of referenced files. Everything the plant needs is a PlantConfig.
 
-import type { GaitName } from '../builds/interface.js';
+import type { GaitName } from '../contract/tick.js';
 import type { PlantConfig, Vec3 } from '../plant/types.js';
 
 export interface CommandStep {

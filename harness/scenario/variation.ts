@@ -59,9 +59,23 @@ export function scaleFriction(scenario: ResolvedScenario, factor: number): Resol
   return withIdentity(content, `${scenario.id}-friction-${factorLabel(factor)}`, `${scenario.title} (friction × ${round(factor)})`);
 }
 
+/**
+ * Every helper on pushes switches over the kinds with this in the default branch, so a new kind
+ * of push does not compile until each helper says what to do with it.
+ */
+export function unknownPushKind(p: never): never {
+  throw new Error(`unknown push kind ${JSON.stringify((p as { kind?: unknown }).kind)}`);
+}
+
 function scalePush(p: Push, factor: number): Push {
-  if (p.kind === 'pulse') return { ...p, force_N: scaleVec(p.force_N, factor) };
-  return { ...p, force_N: p.force_N.map((f) => scaleVec(f, factor)) };
+  switch (p.kind) {
+    case 'pulse':
+      return { ...p, force_N: scaleVec(p.force_N, factor) };
+    case 'series':
+      return { ...p, force_N: p.force_N.map((f) => scaleVec(f, factor)) };
+    default:
+      return unknownPushKind(p);
+  }
 }
 
 /** The scenario with every push's force times `factor` (timing and point of application unchanged). */
@@ -82,10 +96,17 @@ export function lowestStaticFriction(map: FrictionMap): number {
 
 /** Peak force magnitude of one push, N. */
 export function pushPeak_N(p: Push): number {
-  if (p.kind === 'pulse') return norm(p.force_N);
-  let peak = 0;
-  for (const f of p.force_N) peak = Math.max(peak, norm(f));
-  return peak;
+  switch (p.kind) {
+    case 'pulse':
+      return norm(p.force_N);
+    case 'series': {
+      let peak = 0;
+      for (const f of p.force_N) peak = Math.max(peak, norm(f));
+      return peak;
+    }
+    default:
+      return unknownPushKind(p);
+  }
 }
 
 /** Largest peak force magnitude over the scenario's pushes, N (0 with no pushes). */
@@ -97,12 +118,28 @@ export function peakPushForce_N(scenario: ResolvedScenario): number {
 
 /** Start time of a push, s. */
 export function pushStart_s(p: Push): number {
-  return p.kind === 'pulse' ? p.at_s : p.t_s[0];
+  switch (p.kind) {
+    case 'pulse':
+      return p.at_s;
+    case 'series':
+      return p.t_s[0];
+    default:
+      return unknownPushKind(p);
+  }
 }
 
 /** Every push moved in time by `shift_s` (a series keeps its shape). */
 export function shiftPushes(pushes: Push[], shift_s: number): Push[] {
-  return pushes.map((p) => (p.kind === 'pulse' ? { ...p, at_s: p.at_s + shift_s } : { ...p, t_s: p.t_s.map((t) => t + shift_s) }));
+  return pushes.map((p): Push => {
+    switch (p.kind) {
+      case 'pulse':
+        return { ...p, at_s: p.at_s + shift_s };
+      case 'series':
+        return { ...p, t_s: p.t_s.map((t) => t + shift_s) };
+      default:
+        return unknownPushKind(p);
+    }
+  });
 }
 
 /** Every push's force turned about the vertical by `angle_rad` (x toward y). */
@@ -110,7 +147,16 @@ export function turnPushes(pushes: Push[], angle_rad: number): Push[] {
   const c = Math.cos(angle_rad);
   const s = Math.sin(angle_rad);
   const turn = (f: Vec3): Vec3 => [c * f[0] - s * f[1], s * f[0] + c * f[1], f[2]];
-  return pushes.map((p) => (p.kind === 'pulse' ? { ...p, force_N: turn(p.force_N) } : { ...p, force_N: p.force_N.map(turn) }));
+  return pushes.map((p): Push => {
+    switch (p.kind) {
+      case 'pulse':
+        return { ...p, force_N: turn(p.force_N) };
+      case 'series':
+        return { ...p, force_N: p.force_N.map(turn) };
+      default:
+        return unknownPushKind(p);
+    }
+  });
 }
 
 /** Every push's force times `factor`. */

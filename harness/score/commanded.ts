@@ -3,7 +3,7 @@
 // controller asked for, independent of what the plant could deliver, so it catches an
 // over-trusting controller before the robot slides.
 
-import { STANCE } from '../builds/interface.js';
+import { STANCE } from '../contract/tick.js';
 import { IntervalCounter } from './intervals.js';
 import type { TickSample } from './sample.js';
 import { CONE_TOLERANCE_N } from './thresholds.js';

@@ -2,17 +2,13 @@
 // action the build returned for it, and the tick's measured wall time. The episode loop owns one
 // TickSample per run and overwrites it every tick (no allocation); scorers copy what they keep.
 
-export interface TickSample {
-  time_s: number;
+import { createRobotState, type RobotState } from '../contract/state.js';
+import type { Action } from '../contract/tick.js';
+
+/** The robot's true state (footForce_N without sensor noise) and what the tick did with it. */
+export interface TickSample extends RobotState {
   /** Control period, the weight of this sample in time integrals. */
   dt_s: number;
-  trunkPosition_m: Float64Array; // 3, world
-  trunkQuaternion: Float64Array; // 4, (w, x, y, z)
-  trunkVelocity_mps: Float64Array; // 3, world
-  footPosition_m: Float64Array; // 3N, world
-  footVelocity_mps: Float64Array; // 3N, world
-  /** True ground force on each foot, world frame (no sensor noise). */
-  footForce_N: Float64Array; // 3N
   /** True local static friction under each foot. */
   footStaticFriction: Float64Array; // N
   /** The build's action for this tick. */
@@ -30,14 +26,8 @@ export interface TickSample {
 
 export function createTickSample(footCount: number): TickSample {
   return {
-    time_s: 0,
+    ...createRobotState(footCount),
     dt_s: 0,
-    trunkPosition_m: new Float64Array(3),
-    trunkQuaternion: new Float64Array([1, 0, 0, 0]),
-    trunkVelocity_mps: new Float64Array(3),
-    footPosition_m: new Float64Array(3 * footCount),
-    footVelocity_mps: new Float64Array(3 * footCount),
-    footForce_N: new Float64Array(3 * footCount),
     footStaticFriction: new Float64Array(footCount),
     mode: new Uint8Array(footCount),
     wantedForce_N: new Float64Array(3 * footCount),
@@ -46,4 +36,20 @@ export function createTickSample(footCount: number): TickSample {
     loopTime_us: 0,
     reportedCompute_us: Number.NaN,
   };
+}
+
+/** What an observer learns once, before the first tick. */
+export interface EpisodeStart {
+  footCount: number;
+  /** The build's telemetry names, in the order of Action.telemetry. */
+  telemetryNames: readonly string[];
+  /** The scorer's loaded threshold (Scorer.loadedThreshold_N). */
+  loadedThreshold_N: number;
+}
+
+/** Something that watches every tick (trace writer, plot-series recorder). Must not keep `sample`. */
+export interface TickObserver {
+  /** Optional: called once before the first tick. */
+  onStart?(info: EpisodeStart): void;
+  onTick(sample: TickSample, action: Action): void;
 }

@@ -9,6 +9,10 @@ export class SlipTracker {
   readonly union = new IntervalCounter();
   readonly perFoot: IntervalCounter[] = [];
   readonly distancePerFoot_m: Float64Array;
+  /** Per foot, at the last sample: 1 when loaded (normal force above the threshold). */
+  readonly loaded: Uint8Array;
+  /** Per foot, at the last sample: 1 when loaded and sliding faster than the slip speed. */
+  readonly sliding: Uint8Array;
 
   constructor(
     private readonly footCount: number,
@@ -16,6 +20,8 @@ export class SlipTracker {
     private readonly slipSpeed_mps: number,
   ) {
     this.distancePerFoot_m = new Float64Array(footCount);
+    this.loaded = new Uint8Array(footCount);
+    this.sliding = new Uint8Array(footCount);
     for (let i = 0; i < footCount; i++) this.perFoot.push(new IntervalCounter());
   }
 
@@ -25,13 +31,16 @@ export class SlipTracker {
     let any = false;
     for (let i = 0; i < this.footCount; i++) {
       let slipping = false;
-      if (force[3 * i + 2] > this.loadedThreshold_N) {
+      const loaded = force[3 * i + 2] > this.loadedThreshold_N;
+      if (loaded) {
         const vx = velocity[3 * i];
         const vy = velocity[3 * i + 1];
         const speed_mps = Math.sqrt(vx * vx + vy * vy);
         this.distancePerFoot_m[i] += speed_mps * sample.dt_s;
         slipping = speed_mps > this.slipSpeed_mps;
       }
+      this.loaded[i] = loaded ? 1 : 0;
+      this.sliding[i] = slipping ? 1 : 0;
       this.perFoot[i].update(slipping, sample.dt_s);
       if (slipping) any = true;
     }

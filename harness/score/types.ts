@@ -1,5 +1,5 @@
 // What the scorer hands back for one run. Every number is finite or null, so the object is plain
-// JSON (results.json stores it as is; its schema is harness/run/results/results.schema.json).
+// JSON (results.json stores it as is; its schema is harness/results/results.schema.json).
 
 export interface MarginStats {
   /** Smallest per-sample margin 1 − |f_t|/(μs·f_n) over loaded samples; null if never loaded. */

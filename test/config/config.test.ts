@@ -2,12 +2,12 @@ import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { printConfig } from '../../harness/config/commands.js';
+import { printConfig } from '../../harness/commands/config.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR } from '../../harness/config/defaults.js';
 import { expandGlob, globToRegExp } from '../../harness/config/glob.js';
 import { ConfigError, loadConfig } from '../../harness/config/load.js';
 import { resolveSettings, SettingsError } from '../../harness/config/resolve.js';
-import { EXIT } from '../../harness/run/suite.js';
+import { EXIT } from '../../harness/commands/exit.js';
 
 /** A project folder holding `config` as footing.config.yaml and a scenarios/ folder with two files. */
 function project(config: string | null): string {

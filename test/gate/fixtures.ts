@@ -1,7 +1,7 @@
-import { createErrorRunResult, createResultsFile } from '../../harness/run/results/runResult.js';
-import type { ResultsFile, RunResult } from '../../harness/run/results/types.js';
+import { createErrorRunResult, createResultsFile } from '../../harness/results/runResult.js';
+import type { ResultsFile, RunResult } from '../../harness/results/types.js';
 import { makeScenario } from '../score/fixtures.js';
-import { MACHINE, scoredRun } from '../run/results/fixtures.js';
+import { MACHINE, scoredRun } from '../results/fixtures.js';
 
 export const walk = makeScenario({ id: 'ice-walk' });
 export const stand = makeScenario({ id: 'quiet-stand', hash: 'b'.repeat(64) });

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { defaultPolicy, type GatePolicy } from '../../harness/gate/defaults.js';
 import { gate, gateWithinResults } from '../../harness/gate/gate.js';
 import { GateInputError, type GateRow } from '../../harness/gate/types.js';
+import { makeScenario } from '../score/fixtures.js';
 import { errorRun, results, scoredRun, stand, walk, walkChanged } from './fixtures.js';
 
 // Foot 0 carries f_n = 32 N on μs = 0.5 (capacity 16 N) for 1000 ticks of 1 ms, so a tangential
@@ -70,19 +71,22 @@ describe('gate rules', () => {
     expect(rowFor(one({ wantedFx_N: 20 }, {}).rows, 'violations.commanded')!.broken).toBe(false);
   });
 
-  it('blocks loop-time p99 growth beyond +25 % and any p99 over budget', () => {
-    const loop = (b: number, c: number) => rowFor(one({ loop_us: b }, { loop_us: c }).rows, 'loopTime_us.p99')!;
-    expect(loop(100, 130).broken).toBe(true); // +30 %
-    expect(loop(100, 120).broken).toBe(false); // +20 %
-    const overBudget = loop(900, 1050); // +17 % but over the 1000 µs budget
-    expect(overBudget.broken).toBe(true);
-    expect(overBudget.reason).toMatch(/^loop time p99 10\d\d\.\d µs is over the 1000 µs budget$/);
+  it('reports a single pass\'s loop-time p99 without gating it, unless the policy sets a growth fraction', () => {
+    // One pass's p99 moves with the machine's load; by default it is information only.
+    const loop = (b: number, c: number, policy?: GatePolicy) => rowFor(one({ loop_us: b }, { loop_us: c }, policy).rows, 'loopTime_us.p99')!;
+    expect(loop(100, 300)).toMatchObject({ broken: false, rule: null });
+    expect(loop(900, 1050)).toMatchObject({ broken: false, rule: null }); // over budget: the paired measurement judges that
+    const policy = defaultPolicy();
+    policy.rules.loopTimeP99GrowthFraction = 0.25;
+    expect(loop(100, 130, policy).broken).toBe(true); // +30 %
+    expect(loop(100, 120, policy).broken).toBe(false); // +20 %
   });
 
-  it('blocks a candidate run that errored', () => {
+  it('blocks a candidate run that errored as a new failure, naming the error', () => {
     const outcome = gate({ baseline: results([scoredRun(walk, 'main')]), candidate: results([errorRun('branch')]), policy: defaultPolicy() });
     expect(outcome.verdict).toBe('block');
-    expect(outcome.rows[0]).toMatchObject({ metric: 'status', broken: true, reason: 'candidate run errored: controller threw: bad gain' });
+    expect(outcome.rows[0]).toMatchObject({ metric: 'status', broken: true, blocking: true, runChange: 'new-failure', reason: 'new failure: errored: controller threw: bad gain (the baseline passed)' });
+    expect(outcome.runChanges['new-failure']).toBe(1);
   });
 
   it('applies per-scenario overrides over the policy rules', () => {
@@ -91,6 +95,56 @@ describe('gate rules', () => {
     expect(one({ fx_N: 4 }, { fx_N: 4.5 }, policy).verdict).toBe('hold');
     policy.overrides['no-such-scenario'] = { allowNewFalls: true };
     expect(one({ fx_N: 4 }, { fx_N: 4.5 }, policy).warnings).toEqual(['policy override for scenario "no-such-scenario" matched no compared run']);
+  });
+});
+
+describe('only what the candidate changed blocks', () => {
+  // Margin 0.75 everywhere below (fx 4 N on a 16 N capacity); this scenario asks for 0.9, so every
+  // run of it fails acceptance on both sides.
+  const strict = makeScenario({
+    id: 'ice-walk',
+    acceptance: { mustNotFall: true, minFrictionMargin: 0.9, maxSlipDistance_m: null, maxCommandedViolations: null, minProgress: null },
+  });
+
+  it('lists a scenario failing identically on both sides as still failing and holds', () => {
+    const outcome = gate({ baseline: results([scoredRun(strict, 'main', { fx_N: 4 })]), candidate: results([scoredRun(strict, 'branch', { fx_N: 4 })]), policy: defaultPolicy() });
+    expect(outcome.verdict).toBe('hold');
+    expect(outcome.runChanges).toMatchObject({ 'still-failing': 1, 'new-failure': 0 });
+    expect(rowFor(outcome.rows, 'status')).toMatchObject({ broken: true, preExisting: true, blocking: false, runChange: 'still-failing' });
+    expect(rowFor(outcome.rows, 'status')!.reason).toBe('still failing: friction margin 0.75 < 0.90 (fails on the baseline too: friction margin 0.75 < 0.90)');
+  });
+
+  it('blocks the same still-failing scenario when the policy says still-failing runs block', () => {
+    const policy = defaultPolicy();
+    policy.rules.blockStillFailing = true;
+    const outcome = gate({ baseline: results([scoredRun(strict, 'main', { fx_N: 4 })]), candidate: results([scoredRun(strict, 'branch', { fx_N: 4 })]), policy });
+    expect(outcome.verdict).toBe('block');
+  });
+
+  it('still blocks a rule the candidate newly broke on a run that was failing already', () => {
+    // 0.75 → 0.5 on a run failing on both sides: the margin loss is the candidate's own doing.
+    const outcome = gate({ baseline: results([scoredRun(strict, 'main', { fx_N: 4 })]), candidate: results([scoredRun(strict, 'branch', { fx_N: 8 })]), policy: defaultPolicy() });
+    expect(outcome.verdict).toBe('block');
+    expect(outcome.rows[0]).toMatchObject({ metric: 'frictionMargin.min', blocking: true });
+  });
+
+  it('shows a run the candidate fixed, without blocking', () => {
+    // fx 1 N: margin 1 − 1/16 = 0.9375 ≥ 0.9, so the candidate passes where the baseline failed.
+    const outcome = gate({ baseline: results([scoredRun(strict, 'main', { fx_N: 4 })]), candidate: results([scoredRun(strict, 'branch', { fx_N: 1 })]), policy: defaultPolicy() });
+    expect(outcome.verdict).toBe('hold');
+    expect(outcome.runChanges.fixed).toBe(1);
+    expect(rowFor(outcome.rows, 'status')).toMatchObject({ runChange: 'fixed', broken: false });
+  });
+
+  it('blocks a baseline scenario the candidate did not run, listed as not run', () => {
+    const baseline = results([scoredRun(walk, 'main'), scoredRun(stand, 'main')]);
+    const candidate = results([scoredRun(walk, 'branch')]);
+    const outcome = gate({ baseline, candidate, policy: defaultPolicy() });
+    expect(outcome.verdict).toBe('block');
+    expect(outcome.rows[0]).toMatchObject({ scenario: 'quiet-stand', metric: 'coverage', candidate: 'not run', blocking: true });
+    const allowed = defaultPolicy();
+    allowed.rules.allowMissingRuns = true;
+    expect(gate({ baseline, candidate, policy: allowed }).verdict).toBe('hold');
   });
 });
 

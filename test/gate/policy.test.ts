@@ -42,10 +42,16 @@ describe('gate policy', () => {
     ).toEqual([
       'gate-policy.yaml:1:1: frictionMarginMinLos: unknown key; did you mean "frictionMarginMinLoss"?',
       'gate-policy.yaml:2:29: slipDistanceGrowthFraction: -0.2: expected a number ≥ 0',
-      'gate-policy.yaml:5:20: overrides.ice-walk.allowNewFalls: "no": expected true or false',
+      'gate-policy.yaml:5:20: overrides.ice-walk.allowNewFalls: "no": expected true or false, or null to switch the rule off',
       'gate-policy.yaml:6:23: overrides.ice-walk.governorRateDrop: 1.5: expected a number ≤ 1',
       'gate-policy.yaml:7:10: version: 2: expected 1',
     ]);
+  });
+
+  it('accepts null for every rule (the rule is then off)', () => {
+    const text = GATE_RULE_NAMES.filter((name) => name !== 'familyConfidence').map((name) => `${name}: null`).join('\n');
+    const policy = parsePolicy(text, 'p.yaml');
+    for (const name of GATE_RULE_NAMES) if (name !== 'familyConfidence') expect(policy.rules[name]).toBeNull();
   });
 
   it('offers no guess for a key unlike any rule', () => {

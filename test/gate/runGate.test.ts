@@ -2,8 +2,9 @@ import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'nod
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { parsePairs, runGate } from '../../harness/gate/runGate.js';
-import { writeResultsJson } from '../../harness/run/results/writeJson.js';
+import { runGate } from '../../harness/commands/gate.js';
+import { parsePairs } from '../../harness/gate/pairing.js';
+import { writeResultsJson } from '../../harness/results/writeJson.js';
 import { results, scoredRun, walk, walkChanged } from './fixtures.js';
 
 let dir: string;
@@ -23,7 +24,10 @@ describe('runGate', () => {
   it('exits 0 when the candidate holds, reading folders', async () => {
     candidate(4);
     const result = await runGate({ baseline: join(dir, 'main'), candidate: join(dir, 'branch') });
-    expect(result).toEqual({ exitCode: 0, text: 'gate: hold — no rule broken in 1 compared run' });
+    expect(result).toEqual({
+      exitCode: 0,
+      lines: ['gate: hold — nothing the candidate changed breaks a rule in 1 compared run', '  Runs: 0 new failures, 0 still failing, 0 fixed, 1 passing.'],
+    });
   });
 
   it('exits 1 naming friction margin when a rule breaks, and writes gate.md', async () => {
@@ -31,9 +35,13 @@ describe('runGate', () => {
     const out = join(dir, 'report');
     const result = await runGate({ baseline: join(dir, 'main', 'results.json'), candidate: join(dir, 'branch'), out });
     expect(result.exitCode).toBe(1);
-    expect(result.text).toContain('broken: ice-walk (ref:governed → ref:trusting): friction margin min fell by 0.250 (0.750 → 0.500)');
+    // The verdict line names the first blocking rule, its scenario and builds.
+    expect(result.lines[0]).toBe(
+      'gate: block — ice-walk (ref:governed → ref:trusting): friction margin min fell by 0.250 (0.750 → 0.500), more than the 0.02 allowed (and 1 more blocking)',
+    );
+    expect(result.lines.join('\n')).toContain('blocking: ice-walk (ref:governed → ref:trusting): friction margin p05 fell by 0.250');
     const markdown = readFileSync(join(out, 'gate.md'), 'utf8');
-    expect(markdown).toContain('### Footing gate: ❌ block — 2 rules broken in 1 compared run');
+    expect(markdown).toContain('### Footing gate: ❌ block — ice-walk (ref:governed → ref:trusting): friction margin min fell by 0.250');
     expect(markdown).toContain('| ice-walk | ref:governed → ref:trusting | frictionMargin.min | 0.750 | 0.500 | −0.250 | loss ≤ 0.02 ❌ |');
   });
 
@@ -48,28 +56,28 @@ describe('runGate', () => {
     candidate(4);
     const missing = await runGate({ baseline: join(dir, 'nowhere'), candidate: join(dir, 'branch') });
     expect(missing.exitCode).toBe(2);
-    expect(missing.text).toContain('nowhere: no such file or folder');
+    expect(missing.lines.join('\n')).toContain('nowhere: no such file or folder');
 
     writeFileSync(join(dir, 'main', 'results.json'), '{"format": "footing-results", "formatVersion": 9}');
     const invalid = await runGate({ baseline: join(dir, 'main'), candidate: join(dir, 'branch') });
     expect(invalid.exitCode).toBe(2);
-    expect(invalid.text).toContain('/formatVersion: must be equal to constant');
+    expect(invalid.lines.join('\n')).toContain('/formatVersion: must be equal to constant');
 
     const policyFile = join(dir, 'policy.yaml');
     writeFileSync(policyFile, 'allowNewFall: true\n');
     const badPolicy = await runGate({ baseline: join(dir, 'branch'), candidate: join(dir, 'branch'), policyFile });
-    expect(badPolicy).toEqual({ exitCode: 2, text: `gate: ${policyFile}:1:1: allowNewFall: unknown key; did you mean "allowNewFalls"?` });
+    expect(badPolicy).toEqual({ exitCode: 2, lines: [`gate: ${policyFile}:1:1: allowNewFall: unknown key; did you mean "allowNewFalls"?`] });
 
     const badPair = await runGate({ baseline: join(dir, 'branch'), candidate: join(dir, 'branch'), pairs: ['ref:trusting'] });
-    expect(badPair).toEqual({ exitCode: 2, text: 'gate: --pair "ref:trusting": expected BASE=CAND, two build names joined by "="' });
+    expect(badPair).toEqual({ exitCode: 2, lines: ['gate: --pair "ref:trusting": expected BASE=CAND, two build names joined by "="'] });
   });
 
   it('exits 2 when nothing is comparable, saying why', async () => {
     candidate(4, walkChanged);
     const result = await runGate({ baseline: join(dir, 'main'), candidate: join(dir, 'branch') });
     expect(result.exitCode).toBe(2);
-    expect(result.text).toContain('gate: nothing to compare');
-    expect(result.text).toContain('not comparable: ice-walk: scenario changed (revision 1 → 2');
+    expect(result.lines.join('\n')).toContain('gate: nothing to compare');
+    expect(result.lines.join('\n')).toContain('not comparable: ice-walk: scenario changed (revision 1 → 2');
   });
 });
 

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { defaultPolicy } from '../../harness/gate/defaults.js';
 import { gate } from '../../harness/gate/gate.js';
-import type { MarginSearchRecord, RunMargin } from '../../harness/margin/types.js';
-import type { RunResult } from '../../harness/run/results/types.js';
+import type { MarginSearchRecord, RunMargin } from '../../harness/results/margin.js';
+import type { RunResult } from '../../harness/results/types.js';
 import { scenarioHash } from '../../harness/scenario/canonical.js';
 import type { ResolvedScenario } from '../../harness/scenario/types.js';
 import { results, scoredRun, stand } from '../gate/fixtures.js';

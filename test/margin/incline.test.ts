@@ -6,11 +6,10 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runGate } from '../../harness/gate/runGate.js';
-import { runMarginCommand } from '../../harness/margin/command.js';
-import { runMargins } from '../../harness/margin/runMargins.js';
-import { validateResults } from '../../harness/run/results/validate.js';
-import type { ResultsFile } from '../../harness/run/results/types.js';
+import { runGate } from '../../harness/commands/gate.js';
+import { runMarginCommand, runMargins } from '../../harness/commands/margin.js';
+import { validateResults } from '../../harness/results/validate.js';
+import type { ResultsFile } from '../../harness/results/types.js';
 
 const INCLINE = 'test/margin/fixtures/scenarios/incline-stand.yaml';
 const STAND = 'stand=test/margin/fixtures/stand-parallel.ts';
@@ -71,9 +70,9 @@ describe('critical friction of a stand on an incline', () => {
     const policyFile = path.join(outA, 'only-margin.yaml');
     writeFileSync(policyFile, 'frictionMarginMinLoss: 1\nfrictionMarginP05Loss: 1\nloopTimeP99GrowthFraction: 1000\nallowLoopTimeOverBudget: true\n');
     const gate = await runGate({ baseline: outA, candidate: outB, policyFile });
-    expect(gate.exitCode, gate.text).toBe(1);
-    expect(gate.text).toMatch(/critical friction scale rose by 0\.\d{3} \(0\.5\d\d → 0\.6\d\d\), more than the 0\.03 allowed/);
-    expect(gate.text.split('\n').filter((line) => line.includes('broken:'))).toHaveLength(1);
+    expect(gate.exitCode, gate.lines.join('\n')).toBe(1);
+    expect(gate.lines.join('\n')).toMatch(/critical friction scale rose by 0\.\d{3} \(0\.5\d\d → 0\.6\d\d\), more than the 0\.03 allowed/);
+    expect(gate.lines.filter((line) => line.includes('blocking:'))).toHaveLength(1);
     const same = await runGate({ baseline: outA, candidate: outA });
     expect(same.exitCode).toBe(0);
   }, 60_000);

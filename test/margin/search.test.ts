@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { bisectionCount, searchBoundary, type ProbeStatus, type SearchOptions } from '../../harness/margin/search.js';
+import { bisectionCount, searchBoundary, type SearchOptions } from '../../harness/margin/search.js';
+import type { ProbeStatus } from '../../harness/results/margin.js';
 
 /** A synthetic probe counting its calls: no simulation. */
 function synthetic(passes: (s: number) => boolean) {

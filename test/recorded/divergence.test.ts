@@ -6,10 +6,10 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { parseBuildSpec } from '../../harness/builds/spec.js';
-import { describeDivergence, firstDivergence } from '../../harness/recorded/divergence.js';
+import { describeDivergence, firstDivergence } from '../../harness/results/divergence.js';
 import { runOne } from '../../harness/run/runOne.js';
-import { runSuite } from '../../harness/run/suite.js';
-import { runGate } from '../../harness/gate/runGate.js';
+import { runSuite } from '../../harness/commands/run.js';
+import { runGate } from '../../harness/commands/gate.js';
 import { loadScenarioFile } from '../../harness/scenario/index.js';
 import type { ResolvedScenario } from '../../harness/scenario/types.js';
 import { DEMO_DIR, REPO, tempDir } from './support.js';
@@ -75,8 +75,8 @@ describe('first divergence in gate.md and the report', () => {
     expect(readFileSync(path.join(outDir, 'report.html'), 'utf8')).toMatch(/First divergence \(traces\): governed → overtrusting: first differs at/);
     // footing gate between the folder and itself, pairing the builds, says the same.
     const gate = await runGate({ baseline: outDir, candidate: outDir, pairs: ['governed=overtrusting'] });
-    expect(gate.text).toMatch(/first divergence: slick-patch-abrupt \(governed → overtrusting\): first differs at/);
+    expect(gate.lines.join('\n')).toMatch(/first divergence: slick-patch-abrupt \(governed → overtrusting\): first differs at/);
     const same = await runGate({ baseline: outDir, candidate: outDir, pairs: ['governed=governed'] });
-    expect(same.text).toMatch(/first divergence: slick-patch-abrupt \(governed → governed\): none \(traces identical\)/);
+    expect(same.lines.join('\n')).toMatch(/first divergence: slick-patch-abrupt \(governed → governed\): none \(traces identical\)/);
   });
 });

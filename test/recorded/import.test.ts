@@ -7,7 +7,7 @@ import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { importLog } from '../../harness/recorded/importLog.js';
 import { replayRecording } from '../../harness/recorded/replay.js';
-import { FIDELITY_TOLERANCES } from '../../harness/recorded/fidelity.js';
+import { FIDELITY_TOLERANCES } from '../../harness/score/fidelity.js';
 import { loadScenarioFile } from '../../harness/scenario/index.js';
 import { DEMO_CSV, DEMO_MAP, DEMO_MCAP, tempDir } from './support.js';
 

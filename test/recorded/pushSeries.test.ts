@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { STANDARD_GRAVITY_mps2 } from '../../harness/plant/defaults.js';
 import { estimatePushes, residualForce } from '../../harness/recorded/pushSeries.js';
-import type { Trajectory } from '../../harness/recorded/trajectory.js';
+import type { Trajectory } from '../../harness/scenario/trajectory.js';
 import { testRobot } from '../support/robots.js';
 
 /** A trajectory at 1 kHz whose trunk accelerates at `a` while the feet carry `footForce` each. */

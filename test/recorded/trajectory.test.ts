@@ -3,7 +3,7 @@
 
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { fixed, formatTrajectory, parseTrajectory, type Trajectory } from '../../harness/recorded/trajectory.js';
+import { fixed, formatTrajectory, parseTrajectory, type Trajectory } from '../../harness/scenario/trajectory.js';
 
 function tiny(values: number[]): Trajectory {
   const count = 2;

@@ -7,7 +7,7 @@ import { pathToFileURL } from 'node:url';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderReportHtml } from '../../harness/report/index.js';
-import type { ResultsFile } from '../../harness/run/results/types.js';
+import type { ResultsFile } from '../../harness/results/types.js';
 import { withMarginData } from './margin-support.js';
 import { HOSTILE_STDERR, HOSTILE_TITLE, smallRun } from './support.js';
 

@@ -1,9 +1,9 @@
 // Hand-written margin searches and family scores laid onto the small real run of support.ts, for
 // the margin section's tests (margin.test.ts, browser.test.ts). Validated against the results schema.
-import type { FamilySummary, FrictionMarginRecord, MarginSample, PushMarginRecord } from '../../harness/margin/types.js';
-import { wilsonInterval } from '../../harness/margin/proportion.js';
-import type { ResultsFile } from '../../harness/run/results/types.js';
-import { validateResults } from '../../harness/run/results/validate.js';
+import type { FamilySummary, FrictionMarginRecord, MarginSample, PushMarginRecord } from '../../harness/results/margin.js';
+import { wilsonInterval } from '../../harness/score/proportion.js';
+import type { ResultsFile } from '../../harness/results/types.js';
+import { validateResults } from '../../harness/results/validate.js';
 
 export const HOSTILE_REASON = 'slip <script>alert(5)</script> & more';
 export const HOSTILE_FAMILY = '<img src=x onerror=alert(6)>';

@@ -3,12 +3,12 @@
 // results file without them, and hostile text stays text.
 import Handlebars from 'handlebars';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { wilsonInterval } from '../../harness/margin/proportion.js';
+import { wilsonInterval } from '../../harness/score/proportion.js';
 import { renderReportHtml } from '../../harness/report/index.js';
 import { buildReportModel } from '../../harness/report/model.js';
 import { STRIP_WIDTH, INTERVAL_WIDTH } from '../../harness/report/plot/margin.js';
 import { num } from '../../harness/report/plot/svg.js';
-import type { ResultsFile } from '../../harness/run/results/types.js';
+import type { ResultsFile } from '../../harness/results/types.js';
 import { HOSTILE_FAMILY, HOSTILE_REASON, withMarginData } from './margin-support.js';
 import { HOSTILE_TITLE, smallRun } from './support.js';
 

@@ -4,11 +4,11 @@ import path from 'node:path';
 import Handlebars from 'handlebars';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { renderReportHtml } from '../../harness/report/index.js';
-import { runReportCommand } from '../../harness/report/command.js';
+import { runReportCommand } from '../../harness/commands/report.js';
 import { buildReportModel } from '../../harness/report/model.js';
-import { seriesPath } from '../../harness/report/series/file.js';
-import type { RunSeries } from '../../harness/report/series/types.js';
-import type { ResultsFile } from '../../harness/run/results/types.js';
+import { seriesPath } from '../../harness/score/series/file.js';
+import type { RunSeries } from '../../harness/score/series/types.js';
+import type { ResultsFile } from '../../harness/results/types.js';
 import { HOSTILE_STDERR, HOSTILE_TITLE, smallRun } from './support.js';
 
 let dir: string;

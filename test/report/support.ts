@@ -4,8 +4,8 @@
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { runSuite } from '../../harness/run/suite.js';
-import type { ResultsFile } from '../../harness/run/results/types.js';
+import { runSuite } from '../../harness/commands/run.js';
+import type { ResultsFile } from '../../harness/results/types.js';
 
 export const FIXTURES = 'test/report/fixtures';
 export const HOSTILE_TITLE = '<script>alert(1)</script>';

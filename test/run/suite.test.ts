@@ -4,12 +4,14 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { XMLParser } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
-import { runGate } from '../../harness/gate/runGate.js';
-import { isAtomicTempName } from '../../harness/run/atomic.js';
-import { mergeResults } from '../../harness/run/merge.js';
-import { validateResults } from '../../harness/run/results/validate.js';
-import type { ResultsFile, RunResult } from '../../harness/run/results/types.js';
-import { EXIT, runSuite } from '../../harness/run/suite.js';
+import { runGate } from '../../harness/commands/gate.js';
+import { isAtomicTempName } from '../../harness/files/atomic.js';
+import { mergeResults } from '../../harness/commands/merge.js';
+import { validateResults } from '../../harness/results/validate.js';
+import type { ResultsFile, RunResult } from '../../harness/results/types.js';
+import { EXIT } from '../../harness/commands/exit.js';
+import { runSuite } from '../../harness/commands/run.js';
+import { expectStrictJunit } from '../support/junit.js';
 
 const MINI = 'test/run/fixtures/mini';
 const fresh = (name: string) => mkdtempSync(path.join(tmpdir(), `footing-${name}-`));
@@ -47,6 +49,7 @@ describe('footing run, end to end', () => {
     const suites = [xml.testsuites.testsuite].flat();
     expect(suites.map((s: Record<string, string>) => s['@_name'])).toEqual(['governed', 'overtrusting']);
     for (const s of suites) expect([s.testcase].flat()).toHaveLength(2);
+    expectStrictJunit(out);
 
     // The over-trusting build asks for more tangential force than the floor gives: the gate names
     // friction margin. Baseline and candidate are the two builds of one results file.
@@ -59,7 +62,7 @@ describe('footing run, end to end', () => {
     };
     const verdict = await runGate({ baseline: single('governed'), candidate: single('overtrusting'), out: gateOut });
     expect(verdict.exitCode).toBe(1);
-    expect(verdict.text).toMatch(/friction margin/i);
+    expect(verdict.lines.join('\n')).toMatch(/friction margin/i);
   });
 
   it('gives bit-identical metrics (loop times aside) with --jobs 1 and --jobs 2', async () => {

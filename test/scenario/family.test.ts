@@ -5,9 +5,9 @@ import { describe, expect, it } from 'vitest';
 import { loadScenarioFile, loadScenarioText } from '../../harness/scenario/index.js';
 import { scenarioHash } from '../../harness/scenario/canonical.js';
 import { peakPushForce_N } from '../../harness/scenario/variation.js';
-import type { ResultsFile, RunResult } from '../../harness/run/results/types.js';
-import { validateResults } from '../../harness/run/results/validate.js';
-import { runSuite } from '../../harness/run/suite.js';
+import type { ResultsFile, RunResult } from '../../harness/results/types.js';
+import { validateResults } from '../../harness/results/validate.js';
+import { runSuite } from '../../harness/commands/run.js';
 
 const FAMILY = 'test/margin/fixtures/scenarios/family-shove.yaml';
 const STAND = 'stand=test/margin/fixtures/stand-parallel.ts';

@@ -2,7 +2,7 @@
 
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { formatIssue, loadScenarioText, type LoadResult, type ScenarioIssue } from '../../harness/scenario/index.js';
+import { formatIssue, loadScenarioText, type LoadResult, type FileIssue } from '../../harness/scenario/index.js';
 import { createLoadCache, type LoadOptions } from '../../harness/scenario/load.js';
 
 export const ROOT = '/suite';
@@ -44,7 +44,7 @@ export function load(text: string, files?: Record<string, string>, fileName = `$
   return loadScenarioText(text, fileName, memoryOptions(memoryFiles(files)));
 }
 
-export async function errorsOf(text: string, files?: Record<string, string>, fileName?: string): Promise<ScenarioIssue[]> {
+export async function errorsOf(text: string, files?: Record<string, string>, fileName?: string): Promise<FileIssue[]> {
   const r = await load(text, files, fileName);
   if (r.ok) throw new Error('expected the file to be refused, but it loaded');
   return r.errors;

@@ -2,7 +2,8 @@ import { mkdtemp, mkdir, rm, symlink, writeFile } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { checkPaths, loadScenarioFile, loadSuite } from '../../harness/scenario/index.js';
+import { checkPaths } from '../../harness/commands/check.js';
+import { loadScenarioFile, loadSuite } from '../../harness/scenario/index.js';
 import { BASE_YAML, REPO, ROBOT_TEXT } from './helpers.js';
 
 const LIBRARY = path.join(REPO, 'scenarios');

@@ -14,7 +14,7 @@ describe('the base fixture', () => {
     // Plant defaults: harness/plant/defaults.ts (0.5 ms step, 1 kHz, budget = one period = 1000 µs).
     expect(s.plant.physics.step_s).toBe(0.0005);
     expect(s.control).toEqual({ rate_Hz: 1000, loopBudget_us: 1000 });
-    expect(s.plant.initial).toEqual({ position_m: [0, 0, 0.3], rpy_deg: [0, 0, 0], velocity_mps: [0, 0, 0], angularVelocity_radps: [0, 0, 0], feet: 'standing' });
+    expect(s.plant.initial).toEqual({ position_m: [0, 0, 0.3], rpy_deg: [0, 0, 0], velocity_mps: [0, 0, 0], angularVelocity_radps: [0, 0, 0], feet: 'standing', start: 'settled' });
     expect(s.plant.ground.friction.default).toEqual({ name: 'dry floor', staticFriction: 0.9, kineticFriction: 0.7, stribeckVelocity_mps: 0.02, stribeckExponent: 2, viscous_Ns_per_m: 0 });
     expect(s.commands[0]).toEqual({ at_s: 0, gait: 'stand', velocity_mps: [0, 0, 0], yawRate_radps: 0 });
     expect(s.sensing).toEqual({ frictionEstimate: { kind: 'truth' }, forceNoise_N: 0 });

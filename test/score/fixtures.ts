@@ -69,6 +69,7 @@ export function makeScenario(overrides: Partial<ResolvedScenario> = {}): Resolve
         velocity_mps: [0, 0, 0],
         angularVelocity_radps: [0, 0, 0],
         feet: 'standing',
+        start: 'settled',
       },
     },
     control: { rate_Hz: 1000, loopBudget_us: 1000 },

@@ -61,10 +61,14 @@ export function plantConfig(overrides: {
   velocity_mps?: Vec3;
   angularVelocity_radps?: Vec3;
   feet?: PlantConfig['initial']['feet'];
+  /** Default: settled for standing feet at rest, else released. */
+  start?: PlantConfig['initial']['start'];
   pushes?: PlantConfig['pushes'];
   contact?: PlantConfig['ground']['contact'];
 } = {}): PlantConfig {
   const robot = overrides.robot ?? testRobot();
+  const feet = overrides.feet ?? 'standing';
+  const atRest = [...(overrides.velocity_mps ?? [0, 0, 0]), ...(overrides.angularVelocity_radps ?? [0, 0, 0])].every((x) => x === 0);
   return {
     robot,
     ground: {
@@ -79,7 +83,8 @@ export function plantConfig(overrides: {
       rpy_deg: [0, 0, 0],
       velocity_mps: overrides.velocity_mps ?? [0, 0, 0],
       angularVelocity_radps: overrides.angularVelocity_radps ?? [0, 0, 0],
-      feet: overrides.feet ?? 'standing',
+      feet,
+      start: overrides.start ?? (feet === 'standing' && atRest ? 'settled' : 'released'),
     },
   };
 }

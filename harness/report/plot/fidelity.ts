@@ -2,7 +2,7 @@
 // equal axes) and the distance between them over time with the replay's tolerance. Data in, SVG
 // out, from numbers only (svg.ts).
 
-import type { FidelityBlock } from '../../recorded/fidelity.js';
+import type { FidelityBlock } from '../../score/fidelity.js';
 import { linePath } from './path.js';
 import { GRID, INK, SLIP_COLOUR, type BuildStyle } from './palette.js';
 import { linearScale, niceTicks } from './scale.js';

@@ -3,7 +3,7 @@
 // a family's success rate. Numbers in, SVG out; the only text inside is ours or passes escapeXml
 // (the marks' hover titles quote the acceptance sentences of a failing probe).
 
-import type { MarginSample, MarginSearchRecord } from '../../margin/types.js';
+import type { MarginSample, MarginSearchRecord } from '../../results/margin.js';
 import { markerPath } from './path.js';
 import { GRID, INK, type BuildStyle } from './palette.js';
 import { linearScale, niceTicks } from './scale.js';

@@ -2,10 +2,11 @@ import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cacheKey, checkRefName, clearGitCache, GitRefError, prepareGitBuild, resolveRef, type GitBuildRecipe } from '../../../harness/builds/git.js';
-import { clearCache, runConfiguredSuite } from '../../../harness/config/commands.js';
-import { validateResults } from '../../../harness/run/results/validate.js';
-import type { ResultsFile } from '../../../harness/run/results/types.js';
-import { EXIT } from '../../../harness/run/suite.js';
+import { clearCache } from '../../../harness/commands/cache.js';
+import { runConfiguredSuite } from '../../../harness/commands/run.js';
+import { validateResults } from '../../../harness/results/validate.js';
+import type { ResultsFile } from '../../../harness/results/types.js';
+import { EXIT } from '../../../harness/commands/exit.js';
 import { BUILD_COMMAND, CONFIG_TEXT, createControllerRepo, git } from './repo.js';
 
 function recipe(dir: string, ref: string, extra: Partial<GitBuildRecipe> = {}): GitBuildRecipe {
@@ -65,6 +66,15 @@ describe('git-ref builds: worktree, build, cache', () => {
     // Another build command is another build of the same commit.
     const other = await prepareGitBuild(recipe(repo.dir, 'feature', { build: `${BUILD_COMMAND} && true` }));
     expect(other.ok && other.origin.cached).toBe(false);
+  });
+
+  it('two preparations of one commit at once build it once: the second waits for the lock and finds it cached', async () => {
+    const repo = createControllerRepo();
+    const counted = `${BUILD_COMMAND} && sleep 0.5 && echo built >> ../../built.log`;
+    const [a, b] = await Promise.all([prepareGitBuild(recipe(repo.dir, 'feature', { build: counted })), prepareGitBuild(recipe(repo.dir, 'feature', { build: counted, name: 'other' }))]);
+    expect(a.ok && b.ok).toBe(true);
+    expect([a.ok && a.origin.cached, b.ok && b.origin.cached].sort()).toEqual([false, true]);
+    expect(readFileSync(path.join(repo.dir, '.footing-cache', 'built.log'), 'utf8')).toBe('built\n');
   });
 
   it('rebuilds after the ref moves to a new commit', async () => {

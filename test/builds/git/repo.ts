@@ -31,10 +31,6 @@ git:
 builds:
   main: git:main
   candidate: git:HEAD
-gate:
-  # Loop times of a busy 2-core test machine are noise at these microsecond scales; the tests
-  # are about friction margin.
-  loopTimeP99GrowthFraction: 1000
 jobs: 2
 out: out/footing
 `;

@@ -1,0 +1,82 @@
+// The gate's loop-time measurement for one build pair over a suite's scenarios: record what the
+// baseline build observes in (the start of) each scenario, open both builds on each scenario, and
+// time them in interleaved rounds on those same observations (pairedTiming.ts).
+
+import { createAction, type Observation } from '../contract/tick.js';
+import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/loader.js';
+import type { BuildSpec } from '../builds/spec.js';
+import { controllerSetup } from '../run/runOne.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import { recordObservations } from './measure.js';
+import { DEFAULT_PAIRED_TIMING, timePaired, type PairedStream, type PairedTiming, type PairedTimingOptions } from './pairedTiming.js';
+
+/**
+ * Simulated time recorded per scenario: a stand, a start and some trotting for the bundled walks,
+ * at a fraction of a full run's cost (common practice: enough states to exercise every branch of
+ * a tick, not the whole episode).
+ */
+export const RECORDED_DURATION_s = 3;
+
+/** Most scenarios timed per build pair; more are sampled evenly (the rounds take turns anyway). */
+export const MAX_TIMED_SCENARIOS = 12;
+
+export interface PairedLoopTimeOptions extends Partial<PairedTimingOptions> {
+  openOptions?: OpenBuildOptions;
+}
+
+function evenly<T>(items: readonly T[], count: number): T[] {
+  if (items.length <= count) return [...items];
+  return Array.from({ length: count }, (_, k) => items[Math.floor((k * items.length) / count)]);
+}
+
+/** What the baseline build observed in the start of one scenario. */
+export interface RecordedStream {
+  scenario: ResolvedScenario;
+  observations: Observation[];
+}
+
+/** Records the baseline build's observations once; every candidate is then timed on them. */
+export async function recordStreams(scenarios: readonly ResolvedScenario[], baseline: BuildSpec, openOptions: OpenBuildOptions = {}): Promise<RecordedStream[]> {
+  const chosen = evenly(scenarios.filter((s) => !s.family), MAX_TIMED_SCENARIOS);
+  if (chosen.length === 0) throw new RangeError('paired loop time: no scenario to record observations from');
+  const streams: RecordedStream[] = [];
+  for (const scenario of chosen) {
+    const short = { ...scenario, duration_s: Math.min(scenario.duration_s, RECORDED_DURATION_s) };
+    const ring = await recordObservations(short, baseline, openOptions);
+    streams.push({ scenario, observations: ring.entries.slice(0, ring.size) });
+  }
+  return streams;
+}
+
+export async function measurePairedLoopTime(
+  recordings: readonly RecordedStream[],
+  baseline: BuildSpec,
+  candidate: BuildSpec,
+  options: PairedLoopTimeOptions = {},
+): Promise<PairedTiming> {
+  const timing: PairedTimingOptions = { ...DEFAULT_PAIRED_TIMING, ...options };
+  const opened: OpenedBuild[] = [];
+  try {
+    const streams: PairedStream[] = [];
+    for (const { scenario, observations } of recordings) {
+      const setup = controllerSetup(scenario);
+      const base = await openBuild(baseline, setup, options.openOptions);
+      opened.push(base);
+      const cand = await openBuild(candidate, setup, options.openOptions);
+      opened.push(cand);
+      const footCount = scenario.plant.robot.hips_m.length;
+      streams.push({
+        scenario: scenario.id,
+        budget_us: scenario.control.loopBudget_us,
+        observations,
+        baseline: base,
+        candidate: cand,
+        baselineAction: createAction(footCount, base.telemetryNames.length),
+        candidateAction: createAction(footCount, cand.telemetryNames.length),
+      });
+    }
+    return await timePaired(streams, timing);
+  } finally {
+    await Promise.allSettled(opened.map((b) => b.close()));
+  }
+}

@@ -1,0 +1,38 @@
+// Everything a results folder holds, written atomically: results.json, junit.xml, summary.md,
+// report.html, gate.md when a baseline build was named, margin.md for `footing margin`.
+
+import { mkdirSync } from 'node:fs';
+import path from 'node:path';
+import { renderReportHtml, type ReportOptions } from '../report/index.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { writeJunitXml } from '../results/writeJunit.js';
+import { writeResultsJson } from '../results/writeJson.js';
+import { writeSummaryMarkdown } from '../results/writeSummary.js';
+import { RESULTS_FILE_NAME, type ResultsFile } from '../results/types.js';
+
+export const OUTPUT_FILES = {
+  results: RESULTS_FILE_NAME,
+  junit: 'junit.xml',
+  summary: 'summary.md',
+  report: 'report.html',
+  gate: 'gate.md',
+  margin: 'margin.md',
+} as const;
+
+/** Report options beyond the folder (baseline build, gate outcome, policy, shard folders). */
+export type OutputOptions = Omit<ReportOptions, 'outDir'>;
+
+export function writeOutputs(outDir: string, results: ResultsFile, report: OutputOptions = {}): string[] {
+  mkdirSync(outDir, { recursive: true });
+  const written = [
+    path.join(outDir, OUTPUT_FILES.results),
+    path.join(outDir, OUTPUT_FILES.junit),
+    path.join(outDir, OUTPUT_FILES.summary),
+    path.join(outDir, OUTPUT_FILES.report),
+  ];
+  writeResultsJson(written[0], results);
+  writeJunitXml(written[1], results);
+  writeSummaryMarkdown(written[2], results);
+  writeFileAtomicSync(written[3], renderReportHtml(results, { bench: results.bench, ...report, outDir }));
+  return written;
+}

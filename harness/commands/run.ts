@@ -1,0 +1,316 @@
+// `footing run`: every (scenario × build) pair of a suite through the suite runner (run/suite.ts),
+// then the results folder: results.json, junit.xml, summary.md, report.html, and gate.md when a
+// baseline build is named. Exit 0 every run passes (and the gate holds), 1 otherwise, 2 bad input.
+
+import path from 'node:path';
+import { attachBench } from '../bench/attach.js';
+import { measurePairedLoopTime, recordStreams } from '../bench/pairedLoopTime.js';
+import { DEFAULT_BENCH_SCENARIO } from '../bench/defaults.js';
+import { runBench } from '../bench/run.js';
+import { GitRefError, prepareGitBuild, resolveRef } from '../builds/git.js';
+import type { BuildSpec } from '../builds/spec.js';
+import { describeOrigin, itemLabel, type RunFlags } from '../config/resolve.js';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { formatIssue } from '../files/issue.js';
+import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
+import { gateWithinResults } from '../gate/gate.js';
+import { loadPolicy } from '../gate/policy.js';
+import { renderGateMarkdown, verdictLine } from '../gate/render.js';
+import { gateDivergences, renderDivergenceMarkdown } from '../results/divergence.js';
+import type { PairedLoopTimeRecord } from '../results/loopTime.js';
+import { createResultsFile, firstReason } from '../results/runResult.js';
+import type { ResultsFile, RunResult } from '../results/types.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import type { RunTimeout } from '../run/pool.js';
+import { buildManifests, type PreparedBuild } from '../run/prepare.js';
+import { parseShard, ShardSpecError, type ShardSpec } from '../run/shard.js';
+import { SIGNAL_EXIT } from '../run/interrupt.js';
+import { lockOutputFolder, OutputFolderError } from '../run/outputLock.js';
+import { countStatuses, runPairs, SuiteInterruptedError } from '../run/suite.js';
+import { loadScenarioFile } from '../scenario/load.js';
+import { TOOL_VERSION } from '../version.js';
+import { resolveForCommand } from './config.js';
+import { EXIT, exitCodeOfRuns, type ExitCode } from './exit.js';
+import { OUTPUT_FILES, writeOutputs } from './outputs.js';
+import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
+
+export type { PreparedBuild } from '../run/prepare.js';
+
+/** Time per bench task with `run --bench`: shorter than `footing bench`, enough for the gate's ±30 %. */
+const SUITE_BENCH_TIME_ms = 400;
+
+export interface SuiteRunOptions extends SuiteCommandOptions {
+  /** Spec texts (`--build`) or builds prepared elsewhere, in the order results list them. */
+  builds: (string | PreparedBuild)[];
+  /** Replaces every scenario's control.loopBudget_us (a machine's budget, not the scenario's content). */
+  loopBudget_us?: number;
+  trace?: boolean;
+  traceEveryNth?: number;
+  shard?: string;
+  baseline?: string;
+  policyFile?: string;
+  /** A policy already loaded (e.g. inline in footing.config.yaml); policyFile wins when both are given. */
+  policy?: GatePolicy;
+  resume?: boolean;
+  quiet?: boolean;
+  /** Measure every build with the bench (governor rate, tick time, real-time factor) and attach it. */
+  bench?: boolean;
+}
+
+export interface SuiteRunOutcome extends CommandOutcome {
+  results?: ResultsFile;
+}
+
+/** `footing run` without the config file: the builds and settings as given. */
+export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcome> {
+  const out = startCommand(options.log);
+  const log = out.log;
+  const cwd = options.cwd ?? process.cwd();
+
+  const prepared = new Map<string, PreparedBuild>();
+  const specs = prepareBuildSpecs(
+    out,
+    'run',
+    options.builds.map((item) => {
+      if (typeof item === 'string') return item;
+      prepared.set(item.spec.name, item);
+      return item.spec;
+    }),
+    cwd,
+  );
+  if (isOutcome(specs)) return specs;
+  const names = new Set(specs.map((spec) => spec.name));
+  if (options.baseline !== undefined && !names.has(options.baseline)) {
+    return out.badInput(`--baseline ${options.baseline}: no build of that name (builds: ${[...names].join(', ')})`);
+  }
+  let policy: GatePolicy = options.policy ?? defaultPolicy();
+  if (options.policyFile) {
+    try {
+      policy = loadPolicy(path.resolve(cwd, options.policyFile));
+    } catch (error) {
+      return out.badInput((error as Error).message);
+    }
+  }
+
+  const scenarios = await prepareScenarioList(out, 'run', options.paths, cwd);
+  if (isOutcome(scenarios)) return scenarios;
+  if (options.loopBudget_us !== undefined) {
+    for (const scenario of scenarios) scenario.control.loopBudget_us = options.loopBudget_us;
+  }
+  let shard: ShardSpec | undefined;
+  if (options.shard) {
+    try {
+      shard = parseShard(options.shard);
+    } catch (error) {
+      if (error instanceof ShardSpecError) return out.badInput(error.message);
+      throw error;
+    }
+  }
+
+  const outDir = path.resolve(cwd, options.outDir);
+  // One writer per results folder: a second run into it is refused before anything is run.
+  let releaseLock: () => void;
+  try {
+    releaseLock = lockOutputFolder(outDir, log);
+  } catch (error) {
+    if (error instanceof OutputFolderError) return out.badInput(error.message);
+    throw error;
+  }
+  const runLocked = async (): Promise<SuiteRunOutcome> => {
+  const manifests = await buildManifests(specs, prepared);
+  const startedAt = new Date();
+  const runs = await runPairs({
+    scenarios,
+    builds: specs,
+    prepared,
+    outDir,
+    trace: options.trace,
+    traceEveryNth: options.traceEveryNth,
+    jobs: options.jobs,
+    shard,
+    resume: options.resume,
+    quiet: options.quiet,
+    runTimeout: options.runTimeout,
+    outLabel: options.outDir,
+    log,
+  });
+
+  let resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs });
+  if (options.bench) resultsFile = await benchSuiteBuilds(resultsFile, specs.filter((spec) => !prepared.get(spec.name)?.failure), log);
+  if (options.baseline !== undefined && loopTimeJudged(policy)) {
+    const loopTime = await pairedLoopTimes(scenarios, specs, prepared, options.baseline, log);
+    if (loopTime.length > 0) resultsFile = { ...resultsFile, loopTime };
+  }
+  // The gate runs first so that the report shows the gate's own regression list.
+  const gateOutcome = options.baseline !== undefined ? gateWithinResults(resultsFile, options.baseline, policy, undefined, resultsFile.loopTime) : undefined;
+  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy });
+
+  // With a baseline the gate decides: a run failing on both sides is inherited, not a block.
+  const exitCode: ExitCode = gateOutcome ? (gateOutcome.verdict === 'block' ? EXIT.fail : EXIT.pass) : exitCodeOfRuns(runs);
+  const counts = countStatuses(runs);
+  log(`${runs.length} runs: ${counts.pass} pass, ${counts.fail} fail, ${counts.error} error — ${path.relative(cwd, outDir) || '.'}/${OUTPUT_FILES.report}`);
+  for (const line of failingSummary(runs)) log(line);
+  if (gateOutcome) {
+    // First divergence of the traces (results/divergence.ts), when the runs kept traces.
+    const resultsRef = { file: path.join(outDir, OUTPUT_FILES.results), results: resultsFile };
+    const divergences = options.trace ? gateDivergences(resultsRef, resultsRef, gateOutcome.buildPairs) : [];
+    writeFileAtomicSync(path.join(outDir, OUTPUT_FILES.gate), renderGateMarkdown(gateOutcome) + renderDivergenceMarkdown(divergences));
+    log(`gate against ${options.baseline}: ${verdictLine(gateOutcome)} (${path.relative(cwd, path.join(outDir, OUTPUT_FILES.gate))})`);
+  }
+  return { ...out.finish(exitCode), results: resultsFile };
+  };
+  try {
+    return await runLocked();
+  } catch (error) {
+    if (error instanceof OutputFolderError) return out.badInput(error.message);
+    if (error instanceof SuiteInterruptedError) {
+      log(error.message);
+      return out.finish(SIGNAL_EXIT[error.signal]);
+    }
+    throw error;
+  } finally {
+    releaseLock();
+  }
+}
+
+/** Failing pairs listed with their first reason, at most this many (the rest in summary.md). */
+const MAX_FAILING_LINES = 20;
+
+function failingSummary(runs: readonly RunResult[]): string[] {
+  const failing = runs.filter((r) => r.status !== 'pass');
+  if (failing.length === 0) return [];
+  const lines = failing.slice(0, MAX_FAILING_LINES).map((r) => `  ${r.status} ${r.scenario.id} × ${r.build}: ${firstReason(r)}`);
+  if (failing.length > MAX_FAILING_LINES) lines.push(`  … and ${failing.length - MAX_FAILING_LINES} more in summary.md`);
+  return [`not passing (${failing.length}):`, ...lines];
+}
+
+function loopTimeJudged(policy: GatePolicy): boolean {
+  return policy.rules.loopTimeSlowdownFraction !== null || policy.rules.allowLoopTimeOverBudget === false;
+}
+
+/**
+ * The gate's loop-time measurement (docs/scoring.md): the baseline's observations recorded once,
+ * then each candidate timed against the baseline on them in interleaved rounds. A build that
+ * cannot be opened (it failed to build) is skipped: its runs are error runs already.
+ */
+async function pairedLoopTimes(
+  scenarios: readonly ResolvedScenario[],
+  specs: readonly BuildSpec[],
+  prepared: Map<string, PreparedBuild>,
+  baselineName: string,
+  log: (line: string) => void,
+): Promise<PairedLoopTimeRecord[]> {
+  const usable = specs.filter((spec) => !prepared.get(spec.name)?.failure);
+  const baseline = usable.find((spec) => spec.name === baselineName);
+  const candidates = usable.filter((spec) => spec.name !== baselineName);
+  if (baseline === undefined || candidates.length === 0) return [];
+  const records: PairedLoopTimeRecord[] = [];
+  try {
+    const recordings = await recordStreams(scenarios, baseline);
+    log(`loop time: ${candidates.length} build${candidates.length === 1 ? '' : 's'} timed against ${baselineName} in interleaved rounds on ${recordings.length} recorded scenario${recordings.length === 1 ? '' : 's'}`);
+    for (const candidate of candidates) {
+      try {
+        const timing = await measurePairedLoopTime(recordings, baseline, candidate);
+        records.push({ baselineBuild: baselineName, candidateBuild: candidate.name, ...timing });
+      } catch (error) {
+        log(`loop time: ${candidate.name} not timed (${(error as Error).message})`);
+      }
+    }
+  } catch (error) {
+    log(`loop time: not judged, the baseline's observations could not be recorded (${(error as Error).message})`);
+  }
+  return records;
+}
+
+/** `run --bench`: the bench figures of every build on the standard bench scenario, attached to the results. */
+async function benchSuiteBuilds(results: ResultsFile, specs: BuildSpec[], log: (line: string) => void): Promise<ResultsFile> {
+  const loaded = await loadScenarioFile(DEFAULT_BENCH_SCENARIO);
+  if (!loaded.ok) throw new Error(`bench scenario ${DEFAULT_BENCH_SCENARIO} does not load: ${loaded.errors.map(formatIssue).join('; ')}`);
+  log(`bench: ${specs.length} builds on ${loaded.scenarios[0].id} (governor rate, tick time, real-time factor)`);
+  const report = await runBench({ scenario: loaded.scenarios[0], builds: specs, time_ms: SUITE_BENCH_TIME_ms });
+  return attachBench(results, report);
+}
+
+export interface ConfiguredRunOptions {
+  /** Called with each line as it happens (progress, build steps); lines are returned too. */
+  log?: (line: string) => void;
+  /** Passed to runSuite (tests shorten it). */
+  runTimeout?: RunTimeout;
+  /** `--exit-zero`: exit 0 even when runs fail or the gate blocks (still 2 on bad input). */
+  exitZero?: boolean;
+}
+
+/**
+ * `footing run` with the config file: resolves the settings, builds every git-ref build (from the
+ * cache when its commit was built before), then runs the suite. Bad input — config errors, an
+ * unknown suite or build, a ref that names no commit — is exit 2 with nothing run; a build command
+ * that fails or leaves no entry makes that build's runs `error` runs (exit 1), the rest still run.
+ */
+export async function runConfiguredSuite(flags: RunFlags, options: ConfiguredRunOptions = {}): Promise<SuiteRunOutcome> {
+  const out = startCommand(options.log);
+  const log = out.log;
+  const resolved = resolveForCommand(flags);
+  if (!resolved.ok) return out.badInput(...resolved.lines, 'footing run: nothing was run; fix the configuration above (footing config --print shows what was resolved)');
+  const settings = resolved.settings;
+
+  // Every ref is resolved before anything is built: a typo in the last ref should not cost a build.
+  const refProblems: string[] = [];
+  for (const build of settings.builds) {
+    if (build.kind !== 'git') continue;
+    try {
+      await resolveRef(build.recipe.repo, build.recipe.ref);
+    } catch (error) {
+      if (!(error instanceof GitRefError)) throw error;
+      refProblems.push(`${itemLabel(build.origin)}: ${error.message}`);
+    }
+  }
+  if (refProblems.length > 0) {
+    return out.badInput(...refProblems, 'footing run: nothing was run; fix the refs above');
+  }
+
+  const prepared: PreparedBuild[] = [];
+  for (const build of settings.builds) {
+    if (build.kind === 'spec') {
+      prepared.push({ spec: build.spec });
+      continue;
+    }
+    const started = performance.now();
+    const outcome = await prepareGitBuild(build.recipe);
+    const took = ((performance.now() - started) / 1000).toFixed(1);
+    if (outcome.ok) {
+      log(`build ${build.name}: git ${build.recipe.ref} → ${outcome.origin.commit.slice(0, 12)} ${outcome.origin.cached ? '(cached)' : `(built in ${took} s)`}`);
+      prepared.push({ spec: outcome.spec, manifest: outcome.manifest });
+    } else {
+      const message = `${itemLabel(build.origin)}: ${outcome.message}`;
+      log(`build ${build.name} FAILED: ${message}`);
+      if (outcome.outputTail !== '') for (const line of outcome.outputTail.split('\n')) log(`  | ${line}`);
+      prepared.push({
+        spec: { name: build.name, kind: build.recipe.kind, entry: build.recipe.entry, args: [], options: {}, cwd: build.recipe.repo, text: `${build.name}=${build.text}` },
+        manifest: { name: build.name, kind: build.recipe.kind, entry: build.recipe.entry, commit: outcome.origin.commit ?? null, dirty: null, origin: { repo: build.recipe.repo, ref: build.recipe.ref, commit: outcome.origin.commit ?? null, build: build.recipe.build ?? null, failed: true } },
+        failure: { message, outputTail: outcome.outputTail },
+      });
+    }
+  }
+  if (settings.bench.value) log(`bench: on (${describeOrigin(settings.bench.origin)}); figures attached to results.json`);
+
+  const outcome = await runSuite({
+    paths: settings.paths.value,
+    builds: prepared,
+    outDir: settings.out.value,
+    trace: settings.trace.value,
+    jobs: settings.jobs.value,
+    shard: flags.shard,
+    baseline: settings.baseline.value,
+    policyFile: settings.policy.value.file,
+    policy: settings.policy.value.inline,
+    loopBudget_us: settings.loopBudget_us.value,
+    resume: flags.resume,
+    quiet: flags.quiet,
+    bench: settings.bench.value,
+    runTimeout: options.runTimeout,
+    cwd: settings.cwd,
+    log,
+  });
+  const exitCode = outcome.exitCode === EXIT.fail && options.exitZero ? EXIT.pass : outcome.exitCode;
+  return { exitCode, lines: out.lines, results: outcome.results };
+}

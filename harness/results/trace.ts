@@ -1,0 +1,92 @@
+// Trace CSV: one row per control tick (or every n-th), streamed to a temporary file and renamed on
+// close, so memory does not grow with the run and a killed run leaves no truncated trace.
+// Columns are fixed-point with a stated resolution (TRACE_DECIMALS) to keep files compact.
+
+import { createAtomicStream, type AtomicStream } from '../files/atomic.js';
+import type { TickSample } from '../score/sample.js';
+
+/** Decimals per column family: time 1 µs, position 1 µm, velocity 10 µm/s, force 0.1 mN. */
+export const TRACE_DECIMALS = { time: 6, position: 6, velocity: 5, force: 4, friction: 4 } as const;
+
+export function traceColumns(footCount: number): string[] {
+  const columns = ['t_s', 'base_x_m', 'base_y_m', 'base_z_m', 'base_vx_mps', 'base_vy_mps', 'base_vz_mps'];
+  for (let i = 0; i < footCount; i++) {
+    columns.push(
+      `foot${i}_x_m`,
+      `foot${i}_y_m`,
+      `foot${i}_z_m`,
+      `foot${i}_vx_mps`,
+      `foot${i}_vy_mps`,
+      `foot${i}_fx_N`,
+      `foot${i}_fy_N`,
+      `foot${i}_fz_N`,
+      `foot${i}_mus`,
+      `foot${i}_loaded`,
+    );
+  }
+  return columns;
+}
+
+/** Relative trace path for a run: traces/<scenario-id>__<build>.csv, build name made file-safe. */
+export function tracePath(scenarioId: string, build: string): string {
+  const safe = (name: string) => name.replace(/[^A-Za-z0-9._-]/g, '_');
+  return `traces/${safe(scenarioId)}__${safe(build)}.csv`;
+}
+
+export interface TraceWriter {
+  readonly path: string;
+  writeRow(sample: TickSample): void;
+  close(): void;
+  abort(): void;
+}
+
+export interface TraceOptions {
+  /** Write every n-th tick only (decimation; default 1 = every tick). */
+  everyNth?: number;
+}
+
+/**
+ * `loadedThreshold_N` must be the scorer's (Scorer.loadedThreshold_N) so the `loaded` column
+ * matches the samples the metrics used.
+ */
+export function createTraceWriter(
+  file: string,
+  footCount: number,
+  loadedThreshold_N: number,
+  options: TraceOptions = {},
+): TraceWriter {
+  const everyNth = options.everyNth ?? 1;
+  if (!Number.isInteger(everyNth) || everyNth < 1) throw new RangeError(`trace: everyNth ${everyNth} must be a positive integer`);
+  const stream: AtomicStream = createAtomicStream(file);
+  stream.write(`${traceColumns(footCount).join(',')}\n`);
+  const d = TRACE_DECIMALS;
+  let tick = 0;
+
+  return {
+    path: file,
+    writeRow(s: TickSample): void {
+      if (tick++ % everyNth !== 0) return;
+      const p = s.trunkPosition_m;
+      const v = s.trunkVelocity_mps;
+      let row =
+        s.time_s.toFixed(d.time) +
+        ',' + p[0].toFixed(d.position) + ',' + p[1].toFixed(d.position) + ',' + p[2].toFixed(d.position) +
+        ',' + v[0].toFixed(d.velocity) + ',' + v[1].toFixed(d.velocity) + ',' + v[2].toFixed(d.velocity);
+      const fp = s.footPosition_m;
+      const fv = s.footVelocity_mps;
+      const ff = s.footForce_N;
+      for (let i = 0; i < footCount; i++) {
+        const j = 3 * i;
+        row +=
+          ',' + fp[j].toFixed(d.position) + ',' + fp[j + 1].toFixed(d.position) + ',' + fp[j + 2].toFixed(d.position) +
+          ',' + fv[j].toFixed(d.velocity) + ',' + fv[j + 1].toFixed(d.velocity) +
+          ',' + ff[j].toFixed(d.force) + ',' + ff[j + 1].toFixed(d.force) + ',' + ff[j + 2].toFixed(d.force) +
+          ',' + s.footStaticFriction[i].toFixed(d.friction) +
+          (ff[j + 2] > loadedThreshold_N ? ',1' : ',0');
+      }
+      stream.write(row + '\n');
+    },
+    close: () => stream.close(),
+    abort: () => stream.abort(),
+  };
+}

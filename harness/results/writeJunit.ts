@@ -1,0 +1,109 @@
+// junit.xml, the test report every CI system reads: one <testsuite> per build, one <testcase> per
+// scenario; acceptance failures as <failure> with the reasons, error runs as <error>.
+
+import { XMLBuilder } from 'fast-xml-parser';
+import { writeFileAtomicSync } from '../files/atomic.js';
+import { xmlSafeTree } from '../files/xml.js';
+import { runsByBuild } from './buildOrder.js';
+import type { ResultsFile, RunResult } from './types.js';
+
+type XmlNode = Record<string, unknown>;
+
+function seconds(value: number): string {
+  return value.toFixed(3);
+}
+
+function brief(run: RunResult): string {
+  const m = run.metrics;
+  if (m === null) return 'no metrics (the run produced no ticks)';
+  const fixed = (v: number | null, d: number) => (v === null ? 'n/a' : v.toFixed(d));
+  return [
+    `friction margin min ${fixed(m.frictionMargin.min, 3)}, p05 ${fixed(m.frictionMargin.p05, 3)}`,
+    `slip distance ${m.slipDistance_m.toFixed(4)} m`,
+    `commanded violations ${m.violations.commanded}`,
+    m.fell ? `fell at ${fixed(m.fellAt_s, 3)} s` : 'did not fall',
+    `loop time p99 ${fixed(m.loopTime_us.p99, 1)} us`,
+  ].join('; ');
+}
+
+function testcase(run: RunResult): XmlNode {
+  const node: XmlNode = {
+    '@_name': run.scenario.id,
+    '@_classname': run.build,
+    '@_file': run.scenario.file,
+    '@_time': seconds(run.sim?.wall_s ?? 0),
+  };
+  if (run.status === 'fail') {
+    node.failure = { '@_message': run.reasons.join('; '), '@_type': 'acceptance', '#text': run.reasons.join('\n') };
+  } else if (run.status === 'error') {
+    const error = run.error ?? { message: run.reasons.join('; ') };
+    node.error = {
+      '@_message': error.message,
+      '@_type': error.reason ?? 'error',
+      '#text': error.stderrTail ?? run.reasons.join('\n'),
+    };
+  }
+  node['system-out'] = `${run.scenario.title}\n${brief(run)}`;
+  return node;
+}
+
+export function renderJunitXml(results: ResultsFile): string {
+  const suites: XmlNode[] = [];
+  let tests = 0;
+  let failures = 0;
+  let errors = 0;
+  let time_s = 0;
+  for (const [build, runs] of runsByBuild(results)) {
+    const manifest = results.builds.find((b) => b.name === build);
+    const suiteFailures = runs.filter((r) => r.status === 'fail').length;
+    const suiteErrors = runs.filter((r) => r.status === 'error').length;
+    const suiteTime_s = runs.reduce((sum, r) => sum + (r.sim?.wall_s ?? 0), 0);
+    tests += runs.length;
+    failures += suiteFailures;
+    errors += suiteErrors;
+    time_s += suiteTime_s;
+    const properties: XmlNode[] = [];
+    for (const key of ['kind', 'entry', 'commit', 'dirty'] as const) {
+      const value = manifest?.[key];
+      if (value !== undefined && value !== null) properties.push({ '@_name': key, '@_value': String(value) });
+    }
+    const suite: XmlNode = {
+      '@_name': build,
+      '@_tests': runs.length,
+      '@_failures': suiteFailures,
+      '@_errors': suiteErrors,
+      '@_skipped': 0,
+      '@_time': seconds(suiteTime_s),
+      '@_timestamp': results.startedAt,
+    };
+    if (properties.length > 0) suite.properties = { property: properties };
+    suite.testcase = runs.map(testcase);
+    suites.push(suite);
+  }
+  const builder = new XMLBuilder({
+    ignoreAttributes: false,
+    attributeNamePrefix: '@_',
+    format: true,
+    indentBy: '  ',
+    suppressEmptyNode: true,
+    // Default true writes value="true" as a bare `value`, which is not XML (only HTML has boolean attributes).
+    suppressBooleanAttributes: false,
+  });
+  const document = {
+    '?xml': { '@_version': '1.0', '@_encoding': 'UTF-8' },
+    testsuites: {
+      '@_name': 'footing',
+      '@_tests': tests,
+      '@_failures': failures,
+      '@_errors': errors,
+      '@_time': seconds(time_s),
+      testsuite: suites,
+    },
+  };
+  // Build-supplied text (stderr, messages) may hold characters XML 1.0 cannot (harness/text/xml.ts).
+  return builder.build(xmlSafeTree(document)) as string;
+}
+
+export function writeJunitXml(file: string, results: ResultsFile): void {
+  writeFileAtomicSync(file, renderJunitXml(results));
+}
