@@ -44,14 +44,39 @@ function settingOptions(y: Argv): Argv {
   return y
     .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' })
     .option('suite', { alias: 's', type: 'string', describe: 'run a named suite of the config file' })
-    .option('build', { alias: 'b', type: 'string', array: true, describe: `build spec: NAME=module.js, NAME=exec:program args…, ref:ID, NAME=git:REF, or a config build's name (repeatable; default: the config's builds, else ${DEFAULT_BUILDS.join(' ')})` })
+    .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, describe: `build spec: NAME=module.js, NAME=exec:program args…, ref:ID, NAME=git:REF, or a config build's name (repeatable; default: the config's builds, else ${DEFAULT_BUILDS.join(' ')})` })
     .option('out', { alias: 'o', type: 'string', describe: `results folder (default: the config's out, else ${DEFAULT_OUT_DIR})` })
     .option('jobs', { alias: 'j', type: 'number', describe: 'parallel runs (default: the config\'s jobs, else the core count)' })
     .option('baseline', { type: 'string', describe: 'gate every other build against this one (writes gate.md)' })
     .option('policy', { type: 'string', describe: 'gate policy YAML (default: the config\'s gate, else docs/scoring.md)' })
     .option('trace', { type: 'boolean', describe: 'write traces/<scenario>__<build>.csv' })
     .option('loop-budget', { type: 'number', describe: 'loop budget (µs) of this machine, replacing each scenario\'s' })
-    .option('bench', { type: 'boolean', describe: 'also bench every build (governor rate, tick time, real-time factor) into results.json' });
+    .option('bench', { type: 'boolean', describe: 'also bench every build (governor rate, tick time, real-time factor) into results.json' })
+    .check(numbersWithin({ jobs: 'count', 'loop-budget': 'positive' }));
+}
+
+type NumberRule = 'count' | 'positive';
+
+/** A flag's value refused before anything runs (exit 2, like yargs' own usage errors). */
+class UsageError extends Error {}
+
+/**
+ * Numeric flags checked before anything runs: yargs reads `--jobs abc` as NaN and `--jobs 0` as
+ * 0, and a negative loop budget would run every pair and then fail to write a valid result.
+ */
+function numbersWithin(rules: Record<string, NumberRule>): (args: Args) => true {
+  return (args) => {
+    for (const [flag, rule] of Object.entries(rules)) {
+      const value = args[flag];
+      if (value === undefined) continue;
+      const ok = typeof value === 'number' && Number.isFinite(value) && value > 0 && (rule !== 'count' || Number.isInteger(value));
+      if (!ok) {
+        const given = typeof value === 'number' && Number.isNaN(value) ? ': not a number' : ` ${Array.isArray(value) ? value.join(' ') : String(value)}`;
+        throw new UsageError(`--${flag}${given}: expected ${rule === 'count' ? 'a whole number ≥ 1' : 'a number > 0'}`);
+      }
+    }
+    return true;
+  };
 }
 
 function runFlags(args: Args): RunFlags {
@@ -111,10 +136,13 @@ const COMMANDS: CommandRow[] = [
     describe: 'manage the cache of git-ref builds (.footing-cache/ by default)',
     options: (y) =>
       y
-        .option('clear', { type: 'boolean', demandOption: true, describe: 'remove every cached build and its worktree' })
+        .option('clear', { type: 'boolean', describe: 'remove every cached build and its worktree' })
         .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' }),
     printing: 'stderrUnlessPass',
-    call: (args) => clearCache({ config: args.config as string | undefined }),
+    call: async (args) =>
+      args.clear === true
+        ? clearCache({ config: args.config as string | undefined })
+        : { exitCode: EXIT.badInput, lines: ['footing cache: name an action: footing cache --clear (removes every cached build and its worktree)'] },
   },
   {
     usage: 'check [paths..]',
@@ -131,7 +159,7 @@ const COMMANDS: CommandRow[] = [
         .option('baseline', { type: 'string', demandOption: true, describe: 'results.json or results folder of the reference' })
         .option('candidate', { type: 'string', demandOption: true, describe: 'results.json or results folder to judge' })
         .option('policy', { type: 'string', describe: 'gate policy YAML' })
-        .option('pair', { type: 'string', array: true, describe: 'pair builds explicitly: BASE=CAND (repeatable)' })
+        .option('pair', { type: 'string', array: true, nargs: 1, describe: 'pair builds explicitly: BASE=CAND (repeatable)' })
         .option('out', { type: 'string', describe: 'folder for gate.md (default: the candidate folder)' }),
     printing: 'stdout',
     call: (args) =>
@@ -158,11 +186,12 @@ const COMMANDS: CommandRow[] = [
     describe: 'measure governor update rate, controller tick time and closed-loop real-time factor per build',
     options: (y) =>
       y
-        .option('build', { alias: 'b', type: 'string', array: true, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
+        .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
         .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
         .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
         .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
         .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' })
+        .check(numbersWithin({ 'time-ms': 'positive', 'suite-runs': 'count' }))
         .option('history', { type: 'boolean', describe: 'instead: load 365 nights × 200 scenarios × 3 builds (generated) into a history store, time a trend query' }),
     printing: 'stderrOnBadInput',
     call: async (args, log) =>
@@ -200,10 +229,11 @@ const COMMANDS: CommandRow[] = [
     options: (y) =>
       y
         .positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS, describe: 'scenario files or folders' })
-        .option('build', { alias: 'b', type: 'string', array: true, default: DEFAULT_BUILDS, describe: 'build spec (repeatable)' })
+        .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, default: DEFAULT_BUILDS, describe: 'build spec (repeatable)' })
         .option('out', { alias: 'o', type: 'string', default: MARGIN_COMMAND_DEFAULTS.out, describe: 'results folder' })
         .option('tolerance', { type: 'number', default: MARGIN_COMMAND_DEFAULTS.tolerance, describe: 'bisection tolerance on the scale' })
-        .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' }),
+        .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' })
+        .check(numbersWithin({ jobs: 'count', tolerance: 'positive' })),
     printing: 'logged',
     call: (args, log) =>
       runMarginCommand({
@@ -264,12 +294,16 @@ function printOutcome(printing: Printing, outcome: CommandOutcome): void {
 
 export async function main(argv: string[]): Promise<number> {
   let exitCode: ExitCode = EXIT.pass;
+  // yargs with exitProcess(false) reports a usage error and may still call the handler: a usage
+  // error means nothing runs.
+  let usageError = false;
   let parser = yargs(argv)
     .scriptName('footing')
     .usage('$0 <command> [options]\n\nRegression harness for legged-robot controllers: replays contact scenarios through controller builds, scores friction-cone use, slip, falls and loop time, and gates merges.');
   const setExit = (code: number) => (exitCode = code as ExitCode);
   for (const row of COMMANDS) {
     parser = parser.command(row.usage, row.describe, row.options, async (args) => {
+      if (usageError) return;
       const outcome = await row.call(args, printError);
       printOutcome(row.printing, outcome);
       exitCode = outcome.exitCode;
@@ -282,8 +316,10 @@ export async function main(argv: string[]): Promise<number> {
     .help()
     .epilogue('Simulation is not proof of safety: hardware trials follow your lab\'s risk assessment, local codes and licensed practice.')
     .fail((message, error) => {
-      if (error) throw error;
-      printError(message);
+      usageError = true;
+      // A check() that throws arrives as an error with our own message: a usage error, not a bug.
+      if (error && !(error instanceof UsageError)) throw error;
+      printError(message ?? (error as Error).message);
       printError('(footing --help lists the commands and options)');
       exitCode = EXIT.badInput;
     })

@@ -2,6 +2,7 @@
 // then the results folder: results.json, junit.xml, summary.md, report.html, and gate.md when a
 // baseline build is named. Exit 0 every run passes (and the gate holds), 1 otherwise, 2 bad input.
 
+import { createHash } from 'node:crypto';
 import path from 'node:path';
 import { attachBench } from '../bench/attach.js';
 import { measurePairedLoopTime, recordStreams } from '../bench/pairedLoopTime.js';
@@ -19,7 +20,7 @@ import { renderGateMarkdown, verdictLine } from '../gate/render.js';
 import { gateDivergences, renderDivergenceMarkdown } from '../results/divergence.js';
 import type { PairedLoopTimeRecord } from '../results/loopTime.js';
 import { createResultsFile, firstReason } from '../results/runResult.js';
-import type { ResultsFile, RunResult } from '../results/types.js';
+import type { ResultsFile, RunResult, ShardRecord } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import type { RunTimeout } from '../run/pool.js';
 import { buildManifests, type PreparedBuild } from '../run/prepare.js';
@@ -136,6 +137,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   });
 
   let resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs });
+  if (shard) resultsFile = { ...resultsFile, shard: shardRecord(shard, scenarios, specs) };
   if (options.bench) resultsFile = await benchSuiteBuilds(resultsFile, specs.filter((spec) => !prepared.get(spec.name)?.failure), log);
   if (options.baseline !== undefined && loopTimeJudged(policy)) {
     const loopTime = await pairedLoopTimes(scenarios, specs, prepared, options.baseline, log);
@@ -171,6 +173,19 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   } finally {
     releaseLock();
   }
+}
+
+/** Which share of which suite a shard ran: `footing merge` refuses missing, doubled or mixed shards. */
+function shardRecord(shard: ShardSpec, scenarios: readonly ResolvedScenario[], specs: readonly BuildSpec[]): ShardRecord {
+  const hash = createHash('sha256');
+  let pairs = 0;
+  for (const scenario of scenarios) {
+    for (const spec of specs) {
+      hash.update(`${scenario.id}\u0000${scenario.hash}\u0000${spec.name}\n`);
+      pairs++;
+    }
+  }
+  return { index: shard.index, count: shard.count, suite: hash.digest('hex'), pairs };
 }
 
 /** Failing pairs listed with their first reason, at most this many (the rest in summary.md). */

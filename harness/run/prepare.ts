@@ -24,8 +24,9 @@ export function prepareBuilds(command: string, builds: (string | BuildSpec)[], c
     throw error;
   }
   const names = new Set<string>();
-  for (const spec of specs) {
-    const missing = missingEntry(spec);
+  for (const [k, spec] of specs.entries()) {
+    // Specs prepared elsewhere (git-ref builds) carry their own failure; only given text is checked.
+    const missing = typeof builds[k] === 'string' ? missingEntry(spec) : null;
     if (missing !== null) return { ok: false, lines: [`--build ${spec.text}: ${missing}; nothing was run`] };
     if (names.has(spec.name)) {
       return { ok: false, lines: [`--build ${spec.text}: the build name "${spec.name}" is used twice; name one of them (NAME=SPEC)`] };
