@@ -2,7 +2,7 @@
 // the plain view model the templates lay out. Every user string stays a plain string here (the
 // templates escape it); every plot is SvgMarkup built from numbers by plot/ (timeSeries.ts, floor.ts, overview.ts).
 
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
 import { gateWithinResults } from '../gate/gate.js';
@@ -21,6 +21,9 @@ import { buildStyle, type BuildStyle } from './plot/palette.js';
 import { niceCeil } from './plot/scale.js';
 import { asSvg, label, type SvgMarkup } from './plot/svg.js';
 import { readSeriesFor } from '../score/series/file.js';
+import { recordedErrorPlot, recordedPathPlot } from './plot/fidelity.js';
+import type { FidelityBlock } from '../score/fidelity.js';
+import { describeDivergence, firstDivergence } from '../results/divergence.js';
 import type { RunSeries } from '../score/series/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { scenarioEvents } from './events.js';
@@ -86,6 +89,8 @@ export interface RunView {
   traceHref: string | null;
   cells: MetricCell[];
   isBaseline: boolean;
+  /** footing replay: recorded vs simulated overlays (plot/fidelity.ts), with the figures. */
+  fidelity: { path: SvgMarkup; error: SvgMarkup; caption: string; note: string } | null;
 }
 
 export interface ScenarioView {
@@ -112,6 +117,8 @@ export interface ScenarioView {
   duration: string;
   /** Longest run, in ms (the zoom's range). */
   tMax_ms: number;
+  /** "governed → overtrusting: first differs at …" per gated build pair with traces. */
+  divergences: string[];
 }
 
 export interface RegressionView {
@@ -303,6 +310,34 @@ interface ScenarioContext {
   resolved: ResolvedScenario | null;
 }
 
+/** First divergence of each gated build pair's traces on this scenario (recorded/divergence.ts). */
+function scenarioDivergences(runs: RunResult[], ctx: ScenarioContext): string[] {
+  if (!ctx.gate) return [];
+  const traceText = (run: RunResult | undefined): string | null => {
+    if (!run?.trace) return null;
+    for (const dir of ctx.sourceDirs) {
+      const file = path.join(dir, run.trace);
+      if (existsSync(file)) return readFileSync(file, 'utf8');
+    }
+    return null;
+  };
+  const lines: string[] = [];
+  for (const [base, cand] of ctx.gate.buildPairs) {
+    const a = runs.find((r) => r.build === base);
+    const b = runs.find((r) => r.build === cand);
+    if (!a || !b) continue;
+    const ta = traceText(a);
+    const tb = traceText(b);
+    if (ta === null || tb === null) continue;
+    try {
+      lines.push(`${base} → ${cand}: ${describeDivergence({ scenario: a.scenario.id, baselineBuild: base, candidateBuild: cand, divergence: firstDivergence(ta, tb) })}`);
+    } catch (e) {
+      lines.push(`${base} → ${cand}: not computed (${(e as Error).message})`);
+    }
+  }
+  return lines;
+}
+
 function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: ScenarioContext): ScenarioView {
   const ref = runs[0].scenario;
   const baselineRun = runs.find((r) => r.build === ctx.baselineName) ?? null;
@@ -361,6 +396,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
       traceHref,
       cells: metricCells(run, baselineRun, ctx.gate),
       isBaseline: run.build === ctx.baselineName,
+      fidelity: run.fidelity ? fidelityView(run.fidelity, buildStyle(run.build, run.build === ctx.baselineName)) : null,
     };
   });
   const byBuild = new Map(views.map((v) => [v.build, v]));
@@ -393,6 +429,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     hasTelemetry: views.some((v) => v.telemetry.length > 0),
     tMax_ms: Math.round(tMax_s * 1000),
     duration: `${label(tMax_s, 2)} s`,
+    divergences: scenarioDivergences(runs, ctx),
   };
 }
 
@@ -505,4 +542,15 @@ function statusBar(counts: Record<RunStatus, number>): SvgMarkup {
     x += w;
   }
   return asSvg(out + '</svg>');
+}
+
+/** The replay figures in one caption; the plots from plot/fidelity.ts. */
+function fidelityView(f: FidelityBlock, style: ReturnType<typeof buildStyle>): NonNullable<RunView['fidelity']> {
+  const e = f.trunkPositionError_m;
+  const first = f.firstExceeded;
+  const caption =
+    `trunk path error RMS ${label(e.rms * 1000, 1)} mm, max ${label(e.max * 1000, 1)} mm at ${label(e.maxAt_s, 2)} s; ` +
+    `first past tolerance: ${first ? `${label(first.time_s, 3)} s (${first.quantity})` : 'never'}; ` +
+    `slips ${f.slips.recorded} recorded, ${f.slips.reproduced} reproduced, ${f.slips.extra} extra`;
+  return { path: recordedPathPlot(f, style), error: recordedErrorPlot(f), caption, note: f.note };
 }

@@ -192,5 +192,6 @@ export function fillScenarioDefaults(s: ScenarioFile, refs: InlinedReferences): 
     },
     acceptance: resolveAcceptance(s.acceptance),
     tags: [...(s.tags ?? [])],
+    ...(s.recorded ? { recorded: { trajectory: s.recorded.trajectory, sha256: s.recorded.sha256 } } : {}),
   };
 }
