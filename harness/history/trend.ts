@@ -94,7 +94,6 @@ export function lineChangePoints(points: readonly TrendPoint[], options: ChangeP
 export function buildTrendModel(store: HistoryStore, options: TrendOptions): TrendModel {
   const metrics = TREND_METRICS.filter((m) => options.metrics === undefined || options.metrics.includes(m.metric));
   const series = store.series().filter((s) => (options.scenarios === undefined || options.scenarios.includes(s.scenario)) && (options.builds === undefined || options.builds.includes(s.build)));
-  const buildNames = [...new Set(series.map((s) => s.build))];
   const scenarios = new Map<string, TrendScenario>();
   for (const { scenario, build } of series) {
     const rules = rulesFor(options.policy, scenario);
