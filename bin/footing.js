@@ -6,6 +6,13 @@ import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
+// `footing … | head` closes the pipe early: that is the reader's choice, not an error to report.
+for (const stream of [process.stdout, process.stderr]) {
+  stream.on('error', (error) => {
+    if (error.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+    throw error;
+  });
+}
 const compiled = new URL('../dist/cli/main.js', import.meta.url);
 const stamp = new URL('../dist/.sources-mtime', import.meta.url);
 

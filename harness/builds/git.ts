@@ -274,7 +274,8 @@ function cleanGitEnvironment(): NodeJS.ProcessEnv {
   return env;
 }
 
-function git(cwd: string, args: string[]): Promise<{ code: number; output: string }> {
+/** git with an argument array (never a shell) and a clean environment; exit code and output, never throws. */
+export function git(cwd: string, args: string[]): Promise<{ code: number; output: string }> {
   return new Promise((settle) => {
     execFile('git', args, { cwd, env: cleanGitEnvironment(), timeout: GIT_TIMEOUT_ms, windowsHide: true, maxBuffer: 16 * 1024 * 1024 }, (error, stdout, stderr) => {
       const code = error ? (typeof (error as { code?: unknown }).code === 'number' ? ((error as { code: number }).code) : 1) : 0;
