@@ -1,9 +1,10 @@
 // Friction margin of the true ground force: m = 1 − |f_t| / (μs·f_n) with f_n the normal (z)
 // component, f_t the tangential (x, y) part and μs the true static friction under the foot.
 // m = 1: no tangential load; m = 0: on the Coulomb cone; m < 0: outside it (sliding, transient).
+// Every physics step of a loaded foot is one sample (no sample depends on where ticks fall).
 
 import { Histogram } from './histogram.js';
-import type { TickSample } from './sample.js';
+import type { StepView } from './sample.js';
 import { MARGIN_BIN_WIDTH, MARGIN_FLOOR } from './thresholds.js';
 import type { FrictionMarginMetrics, MarginStats } from './types.js';
 
@@ -26,8 +27,8 @@ export class FrictionMarginTracker {
     for (let i = 0; i < footCount; i++) this.perFoot.push(Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH));
   }
 
-  record(sample: TickSample): void {
-    const force = sample.footForce_N;
+  recordStep(sample: StepView): void {
+    const force = sample.footGroundForce_N;
     for (let i = 0; i < this.footCount; i++) {
       const fz = force[3 * i + 2];
       if (!(fz > this.loadedThreshold_N)) continue;
@@ -40,11 +41,11 @@ export class FrictionMarginTracker {
   result(): FrictionMarginMetrics {
     const all = this.perFoot[0]?.emptyCopy() ?? Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH);
     for (const foot of this.perFoot) all.addAll(foot);
-    return { ...stats(all), perFoot: this.perFoot.map(stats) };
+    return { ...marginStats(all), perFoot: this.perFoot.map(marginStats) };
   }
 }
 
-function stats(histogram: Histogram): MarginStats {
+export function marginStats(histogram: Histogram): MarginStats {
   return {
     min: histogram.count > 0 ? histogram.min : null,
     p05: histogram.quantile(0.05),

@@ -26,17 +26,17 @@ describe('gate rules', () => {
     // 0.75 → 1 − 4.5/16 = 0.71875: loss 0.03125 > 0.02.
     const outcome = one({ fx_N: 4 }, { fx_N: 4.5 });
     expect(outcome.verdict).toBe('block');
-    const min = rowFor(outcome.rows, 'frictionMargin.min')!;
+    const min = rowFor(outcome.rows, 'stanceMargin.min')!;
     expect(min).toMatchObject({ broken: true, baseline: 0.75, candidate: 0.71875, change: '−0.031', rule: 'loss ≤ 0.02' });
-    expect(min.reason).toBe('friction margin min fell by 0.031 (0.750 → 0.719), more than the 0.02 allowed');
-    expect(rowFor(outcome.rows, 'frictionMargin.p05')!.broken).toBe(true);
+    expect(min.reason).toBe('stance friction margin min fell by 0.031 (0.750 → 0.719), more than the 0.02 allowed');
+    expect(rowFor(outcome.rows, 'stanceMargin.p05')!.broken).toBe(true);
   });
 
   it('holds a friction-margin loss within 0.02 but still shows it moved', () => {
     // 0.75 → 1 − 4.24/16 = 0.735: loss 0.015.
     const outcome = one({ fx_N: 4 }, { fx_N: 4.24 });
     expect(outcome.verdict).toBe('hold');
-    expect(rowFor(outcome.rows, 'frictionMargin.min')).toMatchObject({ broken: false, change: '−0.015' });
+    expect(rowFor(outcome.rows, 'stanceMargin.min')).toMatchObject({ broken: false, change: '−0.015' });
   });
 
   it('treats a loss of exactly the allowance as held', () => {
@@ -111,7 +111,7 @@ describe('only what the candidate changed blocks', () => {
     expect(outcome.verdict).toBe('hold');
     expect(outcome.runChanges).toMatchObject({ 'still-failing': 1, 'new-failure': 0 });
     expect(rowFor(outcome.rows, 'status')).toMatchObject({ broken: true, preExisting: true, blocking: false, runChange: 'still-failing' });
-    expect(rowFor(outcome.rows, 'status')!.reason).toBe('still failing: friction margin 0.75 < 0.90 (fails on the baseline too: friction margin 0.75 < 0.90)');
+    expect(rowFor(outcome.rows, 'status')!.reason).toBe('still failing: stance friction margin 0.75 < 0.90 (fails on the baseline too: stance friction margin 0.75 < 0.90)');
   });
 
   it('blocks the same still-failing scenario when the policy says still-failing runs block', () => {
@@ -125,7 +125,7 @@ describe('only what the candidate changed blocks', () => {
     // 0.75 → 0.5 on a run failing on both sides: the margin loss is the candidate's own doing.
     const outcome = gate({ baseline: results([scoredRun(strict, 'main', { fx_N: 4 })]), candidate: results([scoredRun(strict, 'branch', { fx_N: 8 })]), policy: defaultPolicy() });
     expect(outcome.verdict).toBe('block');
-    expect(outcome.rows[0]).toMatchObject({ metric: 'frictionMargin.min', blocking: true });
+    expect(outcome.rows[0]).toMatchObject({ metric: 'stanceMargin.min', blocking: true });
   });
 
   it('shows a run the candidate fixed, without blocking', () => {

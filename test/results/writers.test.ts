@@ -26,7 +26,7 @@ describe('results.json', () => {
     expect(runs.map((r) => r.status)).toEqual(['pass', 'pass', 'fail', 'error']);
     // 14 N on μs·f_n = 0.5·32 = 16 N → margin 1 − 14/16 = 0.125 < 0.2; 0.1 m/s for 1 s → 0.1 m.
     expect(runs[2].reasons).toEqual([
-      'friction margin 0.13 < 0.20',
+      'stance friction margin 0.13 < 0.20',
       'slip distance 0.10 m > 0.05 m',
       '1 commanded friction-cone violation > 0 allowed',
     ]);
@@ -87,7 +87,7 @@ describe('junit.xml', () => {
     expect(suites[0].testcase[0].failure).toBeUndefined();
     expect(suites[0].properties.property).toContainEqual({ name: 'commit', value: 'abc123' });
     const failed = suites[1].testcase[0];
-    expect(failed.failure.message).toBe('friction margin 0.13 < 0.20; slip distance 0.10 m > 0.05 m; 1 commanded friction-cone violation > 0 allowed');
+    expect(failed.failure.message).toBe('stance friction margin 0.13 < 0.20; slip distance 0.10 m > 0.05 m; 1 commanded friction-cone violation > 0 allowed');
     expect(failed.failure.type).toBe('acceptance');
     const errored = suites[1].testcase[1];
     expect(errored.error.message).toBe('build process exited with code 3');
@@ -107,7 +107,7 @@ describe('summary.md', () => {
     const text = renderSummaryMarkdown(sampleResults());
     expect(text).toContain('### Footing: 4 runs — 2 pass, 1 fail, 1 error');
     expect(text).toContain('| ref:governed | 2 | 2 | 0 | 0 | 0.750 | 0.0000 | 0 |'); // 1 − 4/16 = 0.75
-    expect(text).toContain('- `slippery-walk` × `ref:trusting` (fail): friction margin 0.13 < 0.20; slip distance 0.10 m > 0.05 m');
+    expect(text).toContain('- `slippery-walk` × `ref:trusting` (fail): stance friction margin 0.13 < 0.20; slip distance 0.10 m > 0.05 m');
     expect(text).toContain('- `quiet-stand` × `ref:trusting` (error): error at 0.500 s: build process exited with code 3');
   });
 });
