@@ -14,7 +14,7 @@
 // start the first load is a touchdown. Memory is fixed at construction: touchdowns are at least
 // one transient apart, so a foot has at most duration / transient + 1 of them.
 
-import { frictionMargin, marginStats } from './frictionMargin.js';
+import { marginStats } from './frictionMargin.js';
 import { Histogram } from './histogram.js';
 import { STANCE } from '../contract/tick.js';
 import type { HeldAction, StepView } from './sample.js';
@@ -61,7 +61,8 @@ export class TouchdownTracker {
     this.eventCount = new Int32Array(footCount);
   }
 
-  recordStep(step: StepView, held: HeldAction): void {
+  /** `margins`: each foot's friction margin at this step (FrictionMarginTracker.margins). */
+  recordStep(step: StepView, held: HeldAction, margins: Float64Array): void {
     const force = step.footGroundForce_N;
     const velocity = step.footVelocity_mps;
     const time_s = step.time_s;
@@ -95,7 +96,7 @@ export class TouchdownTracker {
         this.open[2 * i] += Math.sqrt(vx * vx + vy * vy) * h;
         if (fz > this.open[2 * i + 1]) this.open[2 * i + 1] = fz;
       } else if (held.mode[i] === STANCE) {
-        this.stance[i].add(frictionMargin(force[a], force[a + 1], fz, step.footStaticFriction[i]));
+        this.stance[i].addFrom(margins, i);
       }
     }
   }
