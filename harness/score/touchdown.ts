@@ -34,7 +34,11 @@ export class TouchdownTracker {
   private readonly wasInContact: Uint8Array;
   private readonly inTransient: Uint8Array;
   private readonly transientStart_s: Float64Array;
-  /** Per foot: landing speeds at contact onset (tangential, vertical) and the open touchdown's slip and peak. */
+  /**
+   * Per foot: landing speeds at the last contact onset (tangential, vertical); and the open
+   * touchdown's slip, peak and landing speeds (latched at its first load, so a bounce inside the
+   * transient does not replace them).
+   */
   private readonly landing: Float64Array;
   private readonly open: Float64Array;
   private readonly events: Float64Array;
@@ -56,7 +60,7 @@ export class TouchdownTracker {
     this.inTransient = new Uint8Array(footCount);
     this.transientStart_s = new Float64Array(footCount);
     this.landing = new Float64Array(2 * footCount);
-    this.open = new Float64Array(2 * footCount);
+    this.open = new Float64Array(VALUES * footCount);
     this.events = new Float64Array(VALUES * this.capacity * footCount);
     this.eventCount = new Int32Array(footCount);
   }
@@ -85,16 +89,22 @@ export class TouchdownTracker {
       }
       if (this.inTransient[i] === 1 && time_s - this.transientStart_s[i] > closeAfter_s) this.closeTouchdown(i);
       if (!(fz > this.loadedThreshold_N)) continue;
-      if (this.airborne[i] === 1) {
+      if (this.airborne[i] === 1 && this.inTransient[i] === 1) {
+        this.airborne[i] = 0; // back down from a bounce: the same touchdown goes on
+      } else if (this.airborne[i] === 1) {
         this.airborne[i] = 0;
         this.inTransient[i] = 1;
         this.transientStart_s[i] = time_s;
-        this.open[2 * i] = 0;
-        this.open[2 * i + 1] = 0;
+        const o = VALUES * i;
+        this.open[o + SLIP] = 0;
+        this.open[o + PEAK] = 0;
+        this.open[o + TANGENTIAL] = this.landing[2 * i];
+        this.open[o + VERTICAL] = this.landing[2 * i + 1];
       }
       if (this.inTransient[i] === 1) {
-        this.open[2 * i] += Math.sqrt(vx * vx + vy * vy) * h;
-        if (fz > this.open[2 * i + 1]) this.open[2 * i + 1] = fz;
+        const o = VALUES * i;
+        this.open[o + SLIP] += Math.sqrt(vx * vx + vy * vy) * h;
+        if (fz > this.open[o + PEAK]) this.open[o + PEAK] = fz;
       } else if (held.mode[i] === STANCE) {
         this.stance[i].addFrom(margins, i);
       }
@@ -131,10 +141,7 @@ export class TouchdownTracker {
     const k = this.eventCount[i];
     if (k >= this.capacity) return; // cannot happen: touchdowns are a transient apart
     const base = VALUES * (i * this.capacity + k);
-    this.events[base + SLIP] = this.open[2 * i];
-    this.events[base + TANGENTIAL] = this.landing[2 * i];
-    this.events[base + VERTICAL] = this.landing[2 * i + 1];
-    this.events[base + PEAK] = this.open[2 * i + 1];
+    for (let v = 0; v < VALUES; v++) this.events[base + v] = this.open[VALUES * i + v];
     this.eventCount[i] = k + 1;
   }
 }
