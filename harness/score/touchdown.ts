@@ -1,9 +1,11 @@
 // Touchdown and stance, measured apart. Every loaded physics step of a foot belongs either to a
 // touchdown's transient or to its stance:
-// - a touchdown starts at the first loaded step after the foot was out of contact (a bounce that
-//   leaves the ground inside the transient is part of the same touchdown, a load that dips below
-//   the threshold while the foot stays on the ground is not a new one); its transient lasts
-//   TOUCHDOWN_TRANSIENT_s from that step (samples with elapsed time < the transient);
+// - a touchdown starts at the first loaded step after the foot was out of contact; its transient
+//   lasts TOUCHDOWN_TRANSIENT_s from that step (samples with elapsed time < the transient). A
+//   bounce that leaves the ground inside the transient is part of the same touchdown, and its
+//   transient is timed again from the load after the bounce (the second impact is still the
+//   landing's). A load that dips below the threshold while the foot stays on the ground is not a
+//   new touchdown;
 // - stance is every other loaded step. The stance margin (min, p05) is the friction margin
 //   1 − |f_t|/(μs·f_n) over those samples only, so it judges how the controller holds a foot, not
 //   the impact the contact law and the landing speed make.
@@ -90,7 +92,9 @@ export class TouchdownTracker {
       if (this.inTransient[i] === 1 && time_s - this.transientStart_s[i] > closeAfter_s) this.closeTouchdown(i);
       if (!(fz > this.loadedThreshold_N)) continue;
       if (this.airborne[i] === 1 && this.inTransient[i] === 1) {
-        this.airborne[i] = 0; // back down from a bounce: the same touchdown goes on
+        // Back down from a bounce: the same touchdown goes on, its transient timed from this load.
+        this.airborne[i] = 0;
+        this.transientStart_s[i] = time_s;
       } else if (this.airborne[i] === 1) {
         this.airborne[i] = 0;
         this.inTransient[i] = 1;
