@@ -23,7 +23,11 @@ const LAYERS = {
   config: ['gate', 'builds', 'scenario', 'files'],
   // One function per command over the engines; the CLI is a yargs table over the commands.
   commands: ['config', 'report', 'bench', 'margin', 'gate', 'run', 'results', 'score', 'builds', 'scenario', 'plant', 'contract', 'files'],
-  cli: ['commands', 'config'],
+  // Nights remembered and the bisect over commits: built on whole commands (a bisect step is a run).
+  history: ['commands', 'config', 'report', 'bench', 'gate', 'run', 'results', 'score', 'builds', 'scenario', 'plant', 'contract', 'files'],
+  // Robot logs into scenarios, and replays against them: import and replay are whole commands.
+  recorded: ['commands', 'config', 'report', 'bench', 'gate', 'run', 'results', 'score', 'builds', 'scenario', 'plant', 'contract', 'files'],
+  cli: ['history', 'recorded', 'commands', 'config'],
 };
 
 const FOLDERS = Object.keys(LAYERS);

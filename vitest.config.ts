@@ -9,6 +9,8 @@ export default defineConfig({
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',
+    // A private TMPDIR for the run; every junit.xml written there is checked by a strict XML parser.
+    globalSetup: ['test/support/globalSetup.ts'],
     // The JSON copy feeds the one-line tally .ci/run prints ("N passed, N failed").
     reporters: ['default', ['json', { outputFile: 'test/.artifacts/vitest-results.json' }]],
   },

@@ -11,6 +11,7 @@
 
 import { spawn, execFile } from 'node:child_process';
 import { createHash } from 'node:crypto';
+import { waitForLock } from '../files/lock.js';
 import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import type { BuildOptionValue, BuildSpec } from './spec.js';
@@ -91,7 +92,22 @@ export async function prepareGitBuild(recipe: GitBuildRecipe): Promise<GitBuildO
   const markerFile = `${worktree}.json`;
   const entry = path.resolve(worktree, recipe.entry);
   const origin: GitBuildOrigin = { repo: repoRoot, ref: recipe.ref, commit, build: recipe.build ?? null, worktree, cached: false };
+  // One preparer per (commit, command): a second run sharing the cache waits, then finds it built.
+  mkdirSync(gitCache, { recursive: true });
+  const lock = await waitForLock(`${worktree}.lock`, `building ${commit.slice(0, 12)}`, ((recipe.buildTimeout_s ?? DEFAULT_BUILD_TIMEOUT_s) + 120) * 1000);
+  if (lock === null) return { ok: false, origin, message: `another footing process kept ${worktree}.lock longer than the build timeout allows`, outputTail: '' };
+  try {
+    return await prepareLocked(recipe, origin, { gitCache, worktree, markerFile, entry, repoRoot, commit });
+  } finally {
+    lock.release();
+  }
+}
 
+async function prepareLocked(
+  recipe: GitBuildRecipe,
+  origin: GitBuildOrigin,
+  { gitCache, worktree, markerFile, entry, repoRoot, commit }: { gitCache: string; worktree: string; markerFile: string; entry: string; repoRoot: string; commit: string },
+): Promise<GitBuildOutcome> {
   if (existsSync(markerFile) && existsSync(worktree) && existsSync(entry)) {
     origin.cached = true;
     return success(recipe, origin, entry);
@@ -258,7 +274,8 @@ function cleanGitEnvironment(): NodeJS.ProcessEnv {
   return env;
 }
 
-function git(cwd: string, args: string[]): Promise<{ code: number; output: string }> {
+/** git with an argument array (never a shell) and a clean environment; exit code and output, never throws. */
+export function git(cwd: string, args: string[]): Promise<{ code: number; output: string }> {
   return new Promise((settle) => {
     execFile('git', args, { cwd, env: cleanGitEnvironment(), timeout: GIT_TIMEOUT_ms, windowsHide: true, maxBuffer: 16 * 1024 * 1024 }, (error, stdout, stderr) => {
       const code = error ? (typeof (error as { code?: unknown }).code === 'number' ? ((error as { code: number }).code) : 1) : 0;

@@ -15,37 +15,22 @@ import { pathToFileURL } from 'node:url';
 import type { Action, Controller, ControllerFactory, ControllerSetup, Observation } from './interface.js';
 import { openProcessBuild, type ProcessBuildOptions } from './process/bridge.js';
 import { BuildFailure } from './process/failure.js';
-import type { WireEncoding } from './process/messages.js';
 import { BuildSpecError, REFERENCE_BUILD_IDS, type BuildKind, type BuildSpec } from './spec.js';
+import { checkActionModes } from './modes.js';
+import { openIsolatedModule } from './isolated/open.js';
+import { checkActionFinite, type OpenedBuild } from './opened.js';
+
+export { checkActionFinite, type OpenedBuild } from './opened.js';
 
 export { BuildFailure, BUILD_FAILURE_REASONS, type BuildFailureReason } from './process/failure.js';
 
 export interface OpenBuildOptions extends ProcessBuildOptions {
   /** Replaces the bundled registry harness/builds/reference/index.ts (tests, plug-ins). */
   referenceBuilds?: Record<string, ControllerFactory>;
+  /** 'thread': a module build runs in a thread of its own, out of reach of the caller's (isolated/open.ts). */
+  isolation?: 'thread';
 }
 
-export interface OpenedBuild extends Controller {
-  readonly name: string;
-  readonly kind: BuildKind;
-  readonly telemetryNames: readonly string[];
-  /**
-   * Wall time of the last tick, microseconds: the tick call itself for in-process builds, the
-   * round trip (encode, pipes, build, decode) for process builds. High-resolution clock.
-   */
-  readonly loopTime_us: number;
-  /** Compute time the build reported for its last tick (process builds), else NaN. */
-  readonly reportedCompute_us: number;
-  /** What a process build said about itself in its ready message; '' otherwise. */
-  readonly about: string;
-  /** The child's pid (process builds). */
-  readonly pid?: number;
-  /** Tick encoding the process build chose (process builds). */
-  readonly encoding?: WireEncoding;
-  /** Rejects/throws a BuildFailure when the build misbehaves; returns a promise for process builds. */
-  tick(obs: Observation, action: Action): void | Promise<void>;
-  close(): Promise<void>;
-}
 
 export async function openBuild(
   spec: BuildSpec,
@@ -59,6 +44,7 @@ export async function openBuild(
       return await openProcessBuild(program, merged, options);
     }
     case 'module': {
+      if (options.isolation === 'thread') return await openIsolatedModule(spec, merged);
       const factory = await loadModuleFactory(spec);
       return guardController(await createGuarded(spec, factory, merged), spec.name, 'module');
     }
@@ -151,39 +137,6 @@ async function createGuarded(spec: BuildSpec, factory: ControllerFactory, setup:
   return controller;
 }
 
-/**
- * Names the first non-finite number in an action ("groundForce_N[4] = NaN"), or null. Cheap and
- * allocation-free on the healthy path, so the episode loop may call it every tick for any build.
- * Telemetry is checked too: a process build cannot send NaN, so an in-process one may not either.
- */
-export function checkActionFinite(action: Action): string | null {
-  let index = firstNonFinite(action.groundForce_N);
-  if (index >= 0) return describe('groundForce_N', index, action.groundForce_N[index]);
-  index = firstNonFinite(action.footTarget_m);
-  if (index >= 0) return describe('footTarget_m', index, action.footTarget_m[index]);
-  index = firstNonFinite(action.footTargetVelocity_mps);
-  if (index >= 0) return describe('footTargetVelocity_mps', index, action.footTargetVelocity_mps[index]);
-  index = firstNonFinite(action.stiffness_N_per_m);
-  if (index >= 0) return describe('stiffness_N_per_m', index, action.stiffness_N_per_m[index]);
-  index = firstNonFinite(action.damping_Ns_per_m);
-  if (index >= 0) return describe('damping_Ns_per_m', index, action.damping_Ns_per_m[index]);
-  index = firstNonFinite(action.telemetry);
-  if (index >= 0) return describe('telemetry', index, action.telemetry[index]);
-  return null;
-}
-
-function firstNonFinite(values: Float64Array): number {
-  for (let i = 0; i < values.length; i++) {
-    const x = values[i];
-    // x − x is 0 for every finite x and NaN for NaN and ±Infinity.
-    if (x - x !== 0) return i;
-  }
-  return -1;
-}
-
-function describe(field: string, index: number, value: number): string {
-  return `${field}[${index}] = ${value}`;
-}
 
 /**
  * Wraps an in-process controller: times each tick (performance.now(): a double, where
@@ -251,6 +204,8 @@ class GuardedController implements OpenedBuild {
     if (problem !== null) {
       throw new BuildFailure('non-finite', `build '${this.name}' at tick ${this.tickCount}: ${problem}`);
     }
+    const modes = checkActionModes(action, action.stiffness_N_per_m.length);
+    if (modes !== null) throw new BuildFailure(modes.reason, `build '${this.name}' at tick ${this.tickCount}: ${modes.detail}`);
     this.tickCount++;
   }
 

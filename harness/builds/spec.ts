@@ -9,6 +9,7 @@
 // numbers become numbers, everything else stays a string.
 
 import { isAbsolute, resolve } from 'node:path';
+import { suggestName } from '../files/suggest.js';
 
 export type BuildKind = 'module' | 'process' | 'reference';
 
@@ -86,7 +87,8 @@ export function parseBuildSpec(text: string, cwd: string): BuildSpec {
     const { head, options } = splitOptions(body.slice(4), fail);
     const id = head.trim();
     if (!(REFERENCE_BUILD_IDS as readonly string[]).includes(id)) {
-      fail(`unknown reference build '${id}'; expected one of ${REFERENCE_BUILD_IDS.join(', ')}`);
+      const guess = suggestName(id, REFERENCE_BUILD_IDS);
+      fail(`unknown reference build '${id}'${guess === undefined ? '' : `; did you mean 'ref:${guess}'?`} (expected one of ${REFERENCE_BUILD_IDS.join(', ')})`);
     }
     return { name: name ?? id, kind: 'reference', entry: id, args: [], options, cwd, text };
   }

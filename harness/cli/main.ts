@@ -16,7 +16,12 @@ import { runConfiguredSuite } from '../commands/run.js';
 import type { CommandOutcome } from '../commands/skeleton.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR, DEFAULT_SCENARIO_PATHS } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
+import { benchHistory, renderHistoryBench } from '../history/bench.js';
+import { registerHistoryCommands } from '../history/cli.js';
+import { addRunToHistory } from '../history/commands.js';
+import { importCommand, replayCommand } from '../recorded/commands.js';
 import { TOOL_VERSION } from '../version.js';
+import { statSync } from 'node:fs';
 
 /** What `footing run` replays when neither --build nor footing.config.yaml names builds. */
 export { DEFAULT_BUILDS, DEFAULT_OUT_DIR };
@@ -39,14 +44,39 @@ function settingOptions(y: Argv): Argv {
   return y
     .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' })
     .option('suite', { alias: 's', type: 'string', describe: 'run a named suite of the config file' })
-    .option('build', { alias: 'b', type: 'string', array: true, describe: `build spec: NAME=module.js, NAME=exec:program args…, ref:ID, NAME=git:REF, or a config build's name (repeatable; default: the config's builds, else ${DEFAULT_BUILDS.join(' ')})` })
+    .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, describe: `build spec: NAME=module.js, NAME=exec:program args…, ref:ID, NAME=git:REF, or a config build's name (repeatable; default: the config's builds, else ${DEFAULT_BUILDS.join(' ')})` })
     .option('out', { alias: 'o', type: 'string', describe: `results folder (default: the config's out, else ${DEFAULT_OUT_DIR})` })
     .option('jobs', { alias: 'j', type: 'number', describe: 'parallel runs (default: the config\'s jobs, else the core count)' })
     .option('baseline', { type: 'string', describe: 'gate every other build against this one (writes gate.md)' })
     .option('policy', { type: 'string', describe: 'gate policy YAML (default: the config\'s gate, else docs/scoring.md)' })
     .option('trace', { type: 'boolean', describe: 'write traces/<scenario>__<build>.csv' })
     .option('loop-budget', { type: 'number', describe: 'loop budget (µs) of this machine, replacing each scenario\'s' })
-    .option('bench', { type: 'boolean', describe: 'also bench every build (governor rate, tick time, real-time factor) into results.json' });
+    .option('bench', { type: 'boolean', describe: 'also bench every build (governor rate, tick time, real-time factor) into results.json' })
+    .check(numbersWithin({ jobs: 'count', 'loop-budget': 'positive' }));
+}
+
+type NumberRule = 'count' | 'positive';
+
+/** A flag's value refused before anything runs (exit 2, like yargs' own usage errors). */
+class UsageError extends Error {}
+
+/**
+ * Numeric flags checked before anything runs: yargs reads `--jobs abc` as NaN and `--jobs 0` as
+ * 0, and a negative loop budget would run every pair and then fail to write a valid result.
+ */
+function numbersWithin(rules: Record<string, NumberRule>): (args: Args) => true {
+  return (args) => {
+    for (const [flag, rule] of Object.entries(rules)) {
+      const value = args[flag];
+      if (value === undefined) continue;
+      const ok = typeof value === 'number' && Number.isFinite(value) && value > 0 && (rule !== 'count' || Number.isInteger(value));
+      if (!ok) {
+        const given = typeof value === 'number' && Number.isNaN(value) ? ': not a number' : ` ${Array.isArray(value) ? value.join(' ') : String(value)}`;
+        throw new UsageError(`--${flag}${given}: expected ${rule === 'count' ? 'a whole number ≥ 1' : 'a number > 0'}`);
+      }
+    }
+    return true;
+  };
 }
 
 function runFlags(args: Args): RunFlags {
@@ -79,9 +109,17 @@ const COMMANDS: CommandRow[] = [
         .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic)' })
         .option('resume', { type: 'boolean', describe: 'skip pairs already complete in --out', default: false })
         .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
-        .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false }),
+        .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false })
+        .option('history', { type: 'boolean', describe: 'also add the results to the history store as a night (docs/history.md)' })
+        .option('store', { type: 'string', describe: 'history store file for --history (default: the config\'s history, else .footing/history.sqlite)' }),
     printing: 'logged',
-    call: (args, log) => runConfiguredSuite(runFlags(args), { log, exitZero: args['exit-zero'] as boolean }),
+    call: async (args, log) => {
+      const outcome = await runConfiguredSuite(runFlags(args), { log, exitZero: args['exit-zero'] as boolean });
+      if (!args.history || !outcome.results) return outcome;
+      const added = addRunToHistory(outcome.results, { store: args.store as string | undefined, config: args.config as string | undefined });
+      for (const line of added.lines) log(line);
+      return added.exitCode === 0 ? outcome : { ...outcome, exitCode: Math.max(outcome.exitCode, added.exitCode) as ExitCode };
+    },
   },
   {
     usage: 'config',
@@ -98,10 +136,13 @@ const COMMANDS: CommandRow[] = [
     describe: 'manage the cache of git-ref builds (.footing-cache/ by default)',
     options: (y) =>
       y
-        .option('clear', { type: 'boolean', demandOption: true, describe: 'remove every cached build and its worktree' })
+        .option('clear', { type: 'boolean', describe: 'remove every cached build and its worktree' })
         .option('config', { type: 'string', describe: 'project config file (default: ./footing.config.yaml when present)' }),
     printing: 'stderrUnlessPass',
-    call: (args) => clearCache({ config: args.config as string | undefined }),
+    call: async (args) =>
+      args.clear === true
+        ? clearCache({ config: args.config as string | undefined })
+        : { exitCode: EXIT.badInput, lines: ['footing cache: name an action: footing cache --clear (removes every cached build and its worktree)'] },
   },
   {
     usage: 'check [paths..]',
@@ -118,7 +159,7 @@ const COMMANDS: CommandRow[] = [
         .option('baseline', { type: 'string', demandOption: true, describe: 'results.json or results folder of the reference' })
         .option('candidate', { type: 'string', demandOption: true, describe: 'results.json or results folder to judge' })
         .option('policy', { type: 'string', describe: 'gate policy YAML' })
-        .option('pair', { type: 'string', array: true, describe: 'pair builds explicitly: BASE=CAND (repeatable)' })
+        .option('pair', { type: 'string', array: true, nargs: 1, describe: 'pair builds explicitly: BASE=CAND (repeatable)' })
         .option('out', { type: 'string', describe: 'folder for gate.md (default: the candidate folder)' }),
     printing: 'stdout',
     call: (args) =>
@@ -145,14 +186,18 @@ const COMMANDS: CommandRow[] = [
     describe: 'measure governor update rate, controller tick time and closed-loop real-time factor per build',
     options: (y) =>
       y
-        .option('build', { alias: 'b', type: 'string', array: true, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
+        .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
         .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
         .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
         .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
-        .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' }),
+        .option('suite-runs', { type: 'number', describe: 'instead: wall time and peak memory of N runs of 10 s through the suite runner' })
+        .check(numbersWithin({ 'time-ms': 'positive', 'suite-runs': 'count' }))
+        .option('history', { type: 'boolean', describe: 'instead: load 365 nights × 200 scenarios × 3 builds (generated) into a history store, time a trend query' }),
     printing: 'stderrOnBadInput',
-    call: (args) =>
-      runBenchCommand({
+    call: async (args, log) =>
+      args.history
+        ? { exitCode: EXIT.pass, lines: renderHistoryBench(await benchHistory({ log, time_ms: args['time-ms'] as number | undefined })) }
+        : runBenchCommand({
         builds: args.build as string[],
         scenario: args.scenario as string | undefined,
         json: args.json as string | undefined,
@@ -184,10 +229,11 @@ const COMMANDS: CommandRow[] = [
     options: (y) =>
       y
         .positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS, describe: 'scenario files or folders' })
-        .option('build', { alias: 'b', type: 'string', array: true, default: DEFAULT_BUILDS, describe: 'build spec (repeatable)' })
+        .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, default: DEFAULT_BUILDS, describe: 'build spec (repeatable)' })
         .option('out', { alias: 'o', type: 'string', default: MARGIN_COMMAND_DEFAULTS.out, describe: 'results folder' })
         .option('tolerance', { type: 'number', default: MARGIN_COMMAND_DEFAULTS.tolerance, describe: 'bisection tolerance on the scale' })
-        .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' }),
+        .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' })
+        .check(numbersWithin({ jobs: 'count', tolerance: 'positive' })),
     printing: 'logged',
     call: (args, log) =>
       runMarginCommand({
@@ -198,6 +244,41 @@ const COMMANDS: CommandRow[] = [
         jobs: args.jobs as number | undefined,
         log,
       }),
+  },
+  {
+    usage: 'import <log>',
+    describe: 'turn a robot log (CSV or MCAP) into a scenario: commands, push, identified friction, recorded trajectory',
+    options: (y) =>
+      y
+        .positional('log', { type: 'string', demandOption: true, describe: 'log file (.csv or .mcap)' })
+        .option('map', { type: 'string', demandOption: true, describe: 'log map file (format footing-log-map, docs/recorded.md)' })
+        .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'folder for the scenario and its files' })
+        .option('id', { type: 'string', describe: "scenario id (default: the map's, else the log's name)" }),
+    printing: 'stderrUnlessPass',
+    call: async (args) => {
+      let logBytes = 0;
+      try {
+        logBytes = statSync(args.log as string).size;
+      } catch {
+        // Reported by the import.
+      }
+      const outcome = await importCommand({ log: args.log as string, map: args.map as string, out: args.out as string, id: args.id as string | undefined, progress: process.stderr.isTTY === true, logBytes });
+      return { exitCode: outcome.exitCode as ExitCode, lines: outcome.lines };
+    },
+  },
+  {
+    usage: 'replay <scenario>',
+    describe: 'run a build on an imported scenario and score how closely it reproduces the recording (fidelity.json)',
+    options: (y) =>
+      y
+        .positional('scenario', { type: 'string', demandOption: true, describe: 'scenario written by footing import' })
+        .option('build', { alias: 'b', type: 'string', demandOption: true, describe: 'build spec (as for run)' })
+        .option('out', { alias: 'o', type: 'string', default: 'reports/out/replay', describe: 'folder for fidelity.json' }),
+    printing: 'stderrOnBadInput',
+    call: async (args) => {
+      const outcome = await replayCommand({ scenario: args.scenario as string, build: args.build as string, out: args.out as string });
+      return { exitCode: outcome.exitCode as ExitCode, lines: outcome.lines };
+    },
   },
 ];
 
@@ -213,25 +294,32 @@ function printOutcome(printing: Printing, outcome: CommandOutcome): void {
 
 export async function main(argv: string[]): Promise<number> {
   let exitCode: ExitCode = EXIT.pass;
+  // yargs with exitProcess(false) reports a usage error and may still call the handler: a usage
+  // error means nothing runs.
+  let usageError = false;
   let parser = yargs(argv)
     .scriptName('footing')
     .usage('$0 <command> [options]\n\nRegression harness for legged-robot controllers: replays contact scenarios through controller builds, scores friction-cone use, slip, falls and loop time, and gates merges.');
+  const setExit = (code: number) => (exitCode = code as ExitCode);
   for (const row of COMMANDS) {
     parser = parser.command(row.usage, row.describe, row.options, async (args) => {
+      if (usageError) return;
       const outcome = await row.call(args, printError);
       printOutcome(row.printing, outcome);
       exitCode = outcome.exitCode;
     });
   }
-  parser = parser
-    .demandCommand(1, `name a command: ${COMMANDS.map((row) => row.usage.split(' ')[0]).join(', ')} (footing --help lists them)`)
+  parser = registerHistoryCommands(parser, { print, printError, setExit })
+    .demandCommand(1, `name a command: ${[...COMMANDS.map((row) => row.usage.split(' ')[0]), 'history', 'bisect'].join(', ')} (footing --help lists them)`)
     .strict()
     .version(TOOL_VERSION)
     .help()
     .epilogue('Simulation is not proof of safety: hardware trials follow your lab\'s risk assessment, local codes and licensed practice.')
     .fail((message, error) => {
-      if (error) throw error;
-      printError(message);
+      usageError = true;
+      // A check() that throws arrives as an error with our own message: a usage error, not a bug.
+      if (error && !(error instanceof UsageError)) throw error;
+      printError(message ?? (error as Error).message);
       printError('(footing --help lists the commands and options)');
       exitCode = EXIT.badInput;
     })

@@ -10,6 +10,7 @@ import { loadPolicy, PolicyError } from '../gate/policy.js';
 import { renderGateMarkdown, renderGateText } from '../gate/render.js';
 import { parsePairs } from '../gate/pairing.js';
 import { GateInputError } from '../gate/types.js';
+import { describeDivergence, gateDivergences, renderDivergenceMarkdown } from '../results/divergence.js';
 import { EXIT, type ExitCode } from './exit.js';
 import { OUTPUT_FILES } from './outputs.js';
 import type { CommandOutcome } from './skeleton.js';
@@ -43,9 +44,12 @@ export async function runGate(args: RunGateArgs): Promise<CommandOutcome> {
     }
     text = renderGateText(outcome);
     exitCode = outcome.verdict === 'block' ? EXIT.fail : EXIT.pass;
+    // Where the candidate's traces first part from the baseline's (when both kept traces).
+    const divergences = gateDivergences(baseline, candidate, outcome.buildPairs);
+    for (const d of divergences) if (!d.unavailable) text += `\nfirst divergence: ${d.scenario} (${d.baselineBuild} → ${d.candidateBuild}): ${describeDivergence(d)}`;
     if (args.out !== undefined) {
       const file = join(args.out, OUTPUT_FILES.gate);
-      writeFileAtomicSync(file, renderGateMarkdown(outcome));
+      writeFileAtomicSync(file, renderGateMarkdown(outcome) + renderDivergenceMarkdown(divergences));
       text += `\nwrote ${file}`;
     }
   } catch (error) {

@@ -5,7 +5,8 @@ import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { renderReportHtml, type ReportOptions } from '../report/index.js';
 import { writeFileAtomicSync } from '../files/atomic.js';
-import { writeJunitXml } from '../results/writeJunit.js';
+import type { GateOutcome } from '../gate/types.js';
+import { junitRunKey, writeJunitXml, type JunitRunChanges } from '../results/writeJunit.js';
 import { writeResultsJson } from '../results/writeJson.js';
 import { writeSummaryMarkdown } from '../results/writeSummary.js';
 import { RESULTS_FILE_NAME, type ResultsFile } from '../results/types.js';
@@ -22,6 +23,13 @@ export const OUTPUT_FILES = {
 /** Report options beyond the folder (baseline build, gate outcome, policy, shard folders). */
 export type OutputOptions = Omit<ReportOptions, 'outDir'>;
 
+/** The gate's run changes by candidate run, for junit.xml (new failures vs still failing). */
+function runChangesOf(gate: GateOutcome): JunitRunChanges {
+  const changes = new Map<string, 'new-failure' | 'still-failing' | 'fixed' | 'passing'>();
+  for (const row of gate.rows) if (row.metric === 'status' && row.runChange) changes.set(junitRunKey(row.scenario, row.candidateBuild), row.runChange);
+  return changes;
+}
+
 export function writeOutputs(outDir: string, results: ResultsFile, report: OutputOptions = {}): string[] {
   mkdirSync(outDir, { recursive: true });
   const written = [
@@ -31,7 +39,7 @@ export function writeOutputs(outDir: string, results: ResultsFile, report: Outpu
     path.join(outDir, OUTPUT_FILES.report),
   ];
   writeResultsJson(written[0], results);
-  writeJunitXml(written[1], results);
+  writeJunitXml(written[1], results, report.gate ? runChangesOf(report.gate) : undefined);
   writeSummaryMarkdown(written[2], results);
   writeFileAtomicSync(written[3], renderReportHtml(results, { bench: results.bench, ...report, outDir }));
   return written;

@@ -2,6 +2,7 @@
 // then the results folder: results.json, junit.xml, summary.md, report.html, and gate.md when a
 // baseline build is named. Exit 0 every run passes (and the gate holds), 1 otherwise, 2 bad input.
 
+import { createHash } from 'node:crypto';
 import path from 'node:path';
 import { attachBench } from '../bench/attach.js';
 import { measurePairedLoopTime, recordStreams } from '../bench/pairedLoopTime.js';
@@ -16,14 +17,17 @@ import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
 import { gateWithinResults } from '../gate/gate.js';
 import { loadPolicy } from '../gate/policy.js';
 import { renderGateMarkdown, verdictLine } from '../gate/render.js';
+import { gateDivergences, renderDivergenceMarkdown } from '../results/divergence.js';
 import type { PairedLoopTimeRecord } from '../results/loopTime.js';
 import { createResultsFile, firstReason } from '../results/runResult.js';
-import type { ResultsFile, RunResult } from '../results/types.js';
+import type { ResultsFile, RunResult, ShardRecord } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import type { RunTimeout } from '../run/pool.js';
 import { buildManifests, type PreparedBuild } from '../run/prepare.js';
 import { parseShard, ShardSpecError, type ShardSpec } from '../run/shard.js';
-import { countStatuses, runPairs } from '../run/suite.js';
+import { SIGNAL_EXIT } from '../run/interrupt.js';
+import { lockOutputFolder, OutputFolderError } from '../run/outputLock.js';
+import { countStatuses, runPairs, SuiteInterruptedError } from '../run/suite.js';
 import { loadScenarioFile } from '../scenario/load.js';
 import { TOOL_VERSION } from '../version.js';
 import { resolveForCommand } from './config.js';
@@ -105,6 +109,15 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   }
 
   const outDir = path.resolve(cwd, options.outDir);
+  // One writer per results folder: a second run into it is refused before anything is run.
+  let releaseLock: () => void;
+  try {
+    releaseLock = lockOutputFolder(outDir, log);
+  } catch (error) {
+    if (error instanceof OutputFolderError) return out.badInput(error.message);
+    throw error;
+  }
+  const runLocked = async (): Promise<SuiteRunOutcome> => {
   const manifests = await buildManifests(specs, prepared);
   const startedAt = new Date();
   const runs = await runPairs({
@@ -124,6 +137,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   });
 
   let resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs });
+  if (shard) resultsFile = { ...resultsFile, shard: shardRecord(shard, scenarios, specs) };
   if (options.bench) resultsFile = await benchSuiteBuilds(resultsFile, specs.filter((spec) => !prepared.get(spec.name)?.failure), log);
   if (options.baseline !== undefined && loopTimeJudged(policy)) {
     const loopTime = await pairedLoopTimes(scenarios, specs, prepared, options.baseline, log);
@@ -131,7 +145,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   }
   // The gate runs first so that the report shows the gate's own regression list.
   const gateOutcome = options.baseline !== undefined ? gateWithinResults(resultsFile, options.baseline, policy, undefined, resultsFile.loopTime) : undefined;
-  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy });
+  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy, scenarios });
 
   // With a baseline the gate decides: a run failing on both sides is inherited, not a block.
   const exitCode: ExitCode = gateOutcome ? (gateOutcome.verdict === 'block' ? EXIT.fail : EXIT.pass) : exitCodeOfRuns(runs);
@@ -139,10 +153,39 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   log(`${runs.length} runs: ${counts.pass} pass, ${counts.fail} fail, ${counts.error} error — ${path.relative(cwd, outDir) || '.'}/${OUTPUT_FILES.report}`);
   for (const line of failingSummary(runs)) log(line);
   if (gateOutcome) {
-    writeFileAtomicSync(path.join(outDir, OUTPUT_FILES.gate), renderGateMarkdown(gateOutcome));
+    // First divergence of the traces (results/divergence.ts), when the runs kept traces.
+    const resultsRef = { file: path.join(outDir, OUTPUT_FILES.results), results: resultsFile };
+    const divergences = options.trace ? gateDivergences(resultsRef, resultsRef, gateOutcome.buildPairs) : [];
+    writeFileAtomicSync(path.join(outDir, OUTPUT_FILES.gate), renderGateMarkdown(gateOutcome) + renderDivergenceMarkdown(divergences));
     log(`gate against ${options.baseline}: ${verdictLine(gateOutcome)} (${path.relative(cwd, path.join(outDir, OUTPUT_FILES.gate))})`);
   }
   return { ...out.finish(exitCode), results: resultsFile };
+  };
+  try {
+    return await runLocked();
+  } catch (error) {
+    if (error instanceof OutputFolderError) return out.badInput(error.message);
+    if (error instanceof SuiteInterruptedError) {
+      log(error.message);
+      return out.finish(SIGNAL_EXIT[error.signal]);
+    }
+    throw error;
+  } finally {
+    releaseLock();
+  }
+}
+
+/** Which share of which suite a shard ran: `footing merge` refuses missing, doubled or mixed shards. */
+function shardRecord(shard: ShardSpec, scenarios: readonly ResolvedScenario[], specs: readonly BuildSpec[]): ShardRecord {
+  const hash = createHash('sha256');
+  let pairs = 0;
+  for (const scenario of scenarios) {
+    for (const spec of specs) {
+      hash.update(`${scenario.id}\u0000${scenario.hash}\u0000${spec.name}\n`);
+      pairs++;
+    }
+  }
+  return { index: shard.index, count: shard.count, suite: hash.digest('hex'), pairs };
 }
 
 /** Failing pairs listed with their first reason, at most this many (the rest in summary.md). */

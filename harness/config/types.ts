@@ -33,6 +33,8 @@ export interface ConfigData {
   loopBudget_us?: number;
   bench?: boolean;
   cache?: string;
+  /** History store file (harness/history), relative to this file. */
+  history?: string;
 }
 
 /** Where a resolved value came from. */

@@ -4,9 +4,9 @@
 
 import { LineCounter, isAlias, isMap, isScalar, isSeq, parseDocument, type Document } from 'yaml';
 import { pointerJoin, pointerSegments, type FileIssue, type Finding } from './issue.js';
+import { listLengthProblem, MAX_NESTING_DEPTH, nestingProblemInText } from './bounds.js';
 
-/** Deeper nesting than any scenario needs; refusing it keeps every later walk bounded. */
-export const MAX_NESTING_DEPTH = 64;
+export { MAX_NESTING_DEPTH };
 /** Anchors/aliases beyond this are refused (guards against alias-expansion bombs). */
 const MAX_ALIAS_COUNT = 100;
 
@@ -20,7 +20,39 @@ export interface ParsedSource {
   sourceText(pointer: string): string | undefined;
 }
 
-export function parseSource(text: string): ParsedSource {
+/**
+ * The first place `text` is not strict JSON (RFC 8259: no trailing commas, no comments, no single
+ * quotes), or null. A `.json` file is held to that: YAML would accept `[1, 2,]` and a reader of the
+ * file in any other tool would not.
+ */
+export function strictJsonProblem(text: string): Finding | null {
+  try {
+    JSON.parse(text);
+    return null;
+  } catch (error) {
+    const message = (error as Error).message;
+    const at = /at position (\d+)/.exec(message);
+    const offset = at ? Number(at[1]) : 0;
+    let line = 1;
+    let column = 1;
+    for (let k = 0; k < offset && k < text.length; k++) {
+      if (text[k] === '\n') {
+        line++;
+        column = 1;
+      } else column++;
+    }
+    const what = message.replace(/ in JSON at position \d+.*$/, '').replace(/^Unexpected token/, 'unexpected token');
+    return { path: '', message: `JSON syntax: ${what} (a .json file is read as strict JSON: no trailing commas or comments; use .yaml for those)`, line, column };
+  }
+}
+
+export function parseSource(text: string, options: { json?: boolean } = {}): ParsedSource {
+  const tooDeep = nestingProblemInText(text);
+  if (tooDeep !== null) return { value: null, errors: [tooDeep], warnings: [], locate: () => undefined, sourceText: () => undefined };
+  if (options.json) {
+    const problem = strictJsonProblem(text);
+    if (problem !== null) return { value: null, errors: [problem], warnings: [], locate: () => undefined, sourceText: () => undefined };
+  }
   const lineCounter = new LineCounter();
   // YAMLError is an Error: capturing a stack for each of a broken file's many syntax errors costs
   // more than the parse itself, and the stacks are never shown (positions come from the parser).
@@ -176,6 +208,11 @@ export function scanData(value: unknown, source: ParsedSource | undefined): { no
     }
     if (depth >= MAX_NESTING_DEPTH) {
       structural.push({ path: pointer, message: `nesting deeper than ${MAX_NESTING_DEPTH} levels is refused` });
+      return;
+    }
+    const tooLong = Array.isArray(v) ? listLengthProblem(v, pointer) : null;
+    if (tooLong !== null) {
+      structural.push(tooLong);
       return;
     }
     ancestors.add(v);

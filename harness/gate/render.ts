@@ -1,6 +1,7 @@
 // The gate's outcome as Markdown (gate.md, for a merge-request comment) and as a plain text table
 // for the terminal. Both list broken rules first, then every other metric that moved.
 
+import { markdownCode } from '../files/markdown.js';
 import { markdownCell } from '../results/writeSummary.js';
 import type { GateOutcome, GateRow, GateValue } from './types.js';
 
@@ -63,8 +64,8 @@ function markdownTable(rows: GateRow[], withScenario = false): string[] {
     : ['| builds | metric | baseline | candidate | change | rule |', '|---|---|---:|---:|---:|---|'];
   for (const r of rows) {
     lines.push(
-      `| ${withScenario ? `${markdownCell(r.scenario)} | ` : ''}${markdownCell(builds(r))} | ${r.metric} | ${formatGateValue(r.metric, r.baseline)} | ` +
-        `${formatGateValue(r.metric, r.candidate)} | ${markdownCell(r.change)} | ${r.rule === null ? '(info)' : markdownCell(r.rule)}${r.blocking ? ' ❌' : r.broken ? ' ⚠️' : ''} |`,
+      `| ${withScenario ? `${markdownCell(r.scenario)} | ` : ''}${markdownCell(builds(r))} | ${markdownCell(r.metric)} | ${markdownCell(formatGateValue(r.metric, r.baseline))} | ` +
+        `${markdownCell(formatGateValue(r.metric, r.candidate))} | ${markdownCell(r.change)} | ${r.rule === null ? '(info)' : markdownCell(r.rule)}${r.blocking ? ' ❌' : r.broken ? ' ⚠️' : ''} |`,
     );
   }
   return lines;
@@ -83,7 +84,7 @@ function byScenario(rows: GateRow[]): Map<string, GateRow[]> {
 function reasonList(rows: GateRow[]): string[] {
   const lines: string[] = [];
   for (const [scenario, list] of byScenario(rows)) {
-    lines.push(`- \`${markdownCell(scenario)}\``);
+    lines.push(`- ${markdownCode(scenario)}`);
     for (const r of list) lines.push(`  - ${markdownCell(builds(r))}: ${markdownCell(r.reason ?? r.metric)}`);
   }
   return lines;
@@ -100,7 +101,7 @@ export function renderGateMarkdown(outcome: GateOutcome, fullReport = 'report.ht
   const moved = outcome.rows.filter((r) => !r.broken);
   const head = [`### Footing gate: ${outcome.verdict === 'block' ? '❌' : '✅'} ${markdownCell(verdictLine(outcome))}`, '', runChangeLine(outcome), ''];
   if (outcome.buildPairs.length > 0) {
-    head.push(`Builds compared (baseline → candidate): ${outcome.buildPairs.map(([b, c]) => `\`${markdownCell(b)}\` → \`${markdownCell(c)}\``).join(', ')}`, '');
+    head.push(`Builds compared (baseline → candidate): ${outcome.buildPairs.map(([b, c]) => `${markdownCode(b)} → ${markdownCode(c)}`).join(', ')}`, '');
   }
   const sections: string[][] = [];
   if (blocking.length > 0) sections.push([`**Blocking** (${blocking.length})`, '', ...reasonList(blocking), '', ...markdownTable(blocking, true), '']);
@@ -109,19 +110,19 @@ export function renderGateMarkdown(outcome: GateOutcome, fullReport = 'report.ht
   }
   if (moved.length > 0) {
     const body = [`<details><summary>${plural(moved.length, 'other metric')} moved within policy</summary>`, ''];
-    for (const [scenario, list] of byScenario(moved)) body.push(`**\`${markdownCell(scenario)}\`**`, '', ...markdownTable(list), '');
+    for (const [scenario, list] of byScenario(moved)) body.push(`**${markdownCode(scenario)}**`, '', ...markdownTable(list), '');
     body.push('</details>', '');
     sections.push(body);
   }
   if (outcome.notComparable.length > 0) {
     const body = ['**Not comparable** (not compared, see why)', ''];
-    for (const n of outcome.notComparable) body.push(`- \`${markdownCell(n.scenario)}\` (${markdownCell(n.baselineBuild)} → ${markdownCell(n.candidateBuild)}): ${markdownCell(n.reason)}`);
+    for (const n of outcome.notComparable) body.push(`- ${markdownCode(n.scenario)} (${markdownCell(n.baselineBuild)} → ${markdownCell(n.candidateBuild)}): ${markdownCell(n.reason)}`);
     sections.push([...body, '']);
   }
   const otherUnpaired = outcome.unpaired.filter((u) => !(u.side === 'baseline' && u.scenario !== null));
   if (otherUnpaired.length > 0) {
     const body = ['**Unpaired**', ''];
-    for (const u of otherUnpaired) body.push(`- ${u.side} \`${markdownCell(u.build)}\`${u.scenario === null ? '' : ` \`${markdownCell(u.scenario)}\``}: ${markdownCell(u.reason)}`);
+    for (const u of otherUnpaired) body.push(`- ${u.side} ${markdownCode(u.build)}${u.scenario === null ? '' : ` ${markdownCode(u.scenario)}`}: ${markdownCell(u.reason)}`);
     sections.push([...body, '']);
   }
   if (outcome.warnings.length > 0) sections.push(outcome.warnings.flatMap((w) => [`> ${markdownCell(w)}`, '']));

@@ -16,6 +16,12 @@ export interface RobotParams {
   };
   /** Hip attachment points in the trunk frame, one per foot (order = foot index). */
   hips_m: Vec3[];
+  /**
+   * Optional label per leg, same order and count as hips_m (e.g. FL, FR, HL, HR), for the report's
+   * plots. Part of the scenario hash like the robot's name (a renamed leg makes new results
+   * incomparable with older ones, as a renamed robot does).
+   */
+  legNames?: string[];
   foot: {
     mass_kg: number;
     /** Radius of the foot's spherical tip, m; with `material`, the contact law follows Hertz. */

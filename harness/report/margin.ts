@@ -85,8 +85,8 @@ function nonMonotoneText(s: MarginSearchRecord): string | null {
   return `boundary not monotone — samples in scale order: ${sorted.map((p) => `${p.status} ${scaleText(p.scale)}`).join(', ')}`;
 }
 
-function searchView(run: RunResult, search: MarginSearchRecord | null, axisMax: number, buildIndex: number, what: 'friction' | 'push', critical: string): SearchView {
-  const style = buildStyle(buildIndex);
+function searchView(run: RunResult, search: MarginSearchRecord | null, axisMax: number, buildIndex: number, baseline: string | null, what: 'friction' | 'push', critical: string): SearchView {
+  const style = buildStyle(run.build, run.build === baseline);
   return {
     build: run.build,
     buildIndex,
@@ -102,7 +102,7 @@ function searchView(run: RunResult, search: MarginSearchRecord | null, axisMax: 
   };
 }
 
-export function marginView(results: ResultsFile, buildNames: readonly string[], anchorOf: (run: RunResult) => string): MarginView | null {
+export function marginView(results: ResultsFile, buildNames: readonly string[], anchorOf: (run: RunResult) => string, baseline: string | null = null): MarginView | null {
   const withMargin = results.runs.filter((r) => r.margin !== undefined);
   if (withMargin.length === 0) return null;
   const buildIndex = new Map(buildNames.map((n, i) => [n, i]));
@@ -120,9 +120,9 @@ export function marginView(results: ResultsFile, buildNames: readonly string[], 
     const pushes = runs.map((r) => r.margin?.push ?? null);
     const frictionMax = stripAxisMax(frictions.filter((s): s is FrictionMarginRecord => s !== null));
     const pushMax = stripAxisMax(pushes.filter((s): s is PushMarginRecord => s !== null));
-    const friction = runs.map((r, k) => searchView(r, frictions[k], frictionMax, buildIndex.get(r.build) ?? 0, 'friction', frictionCritical(frictions[k])));
+    const friction = runs.map((r, k) => searchView(r, frictions[k], frictionMax, buildIndex.get(r.build) ?? 0, baseline, 'friction', frictionCritical(frictions[k])));
     const push = pushes.some((p) => p !== null)
-      ? runs.map((r, k) => searchView(r, pushes[k], pushMax, buildIndex.get(r.build) ?? 0, 'push', pushCritical(pushes[k])))
+      ? runs.map((r, k) => searchView(r, pushes[k], pushMax, buildIndex.get(r.build) ?? 0, baseline, 'push', pushCritical(pushes[k])))
       : [];
     for (const s of [...frictions, ...pushes]) if (s && !s.monotone) nonMonotoneCount++;
     const ref = runs[0].scenario;
@@ -158,7 +158,7 @@ function spreadText(name: string, s: FamilySummary['slipDistance_m'], digits: nu
   return `${name}: median ${f(s.median)}${unit} (p10 ${f(s.p10)} – p90 ${f(s.p90)}, min ${f(s.min)}, max ${f(s.max)})`;
 }
 
-export function familiesView(results: ResultsFile, buildNames: readonly string[]): FamilyView[] | null {
+export function familiesView(results: ResultsFile, buildNames: readonly string[], baseline: string | null = null): FamilyView[] | null {
   const families = results.families ?? [];
   if (families.length === 0) return null;
   const buildIndex = new Map(buildNames.map((n, i) => [n, i]));
@@ -176,7 +176,7 @@ export function familiesView(results: ResultsFile, buildNames: readonly string[]
       samples: list[0].samples,
       rows: list.map((f) => {
         const b = buildIndex.get(f.build) ?? 0;
-        const style = buildStyle(b);
+        const style = buildStyle(f.build, f.build === baseline);
         const pct = (v: number) => label(v * 100, 0);
         return {
           build: f.build,

@@ -128,7 +128,7 @@ export function metricCells(run: RunResult, baseline: RunResult | null, gate: Ga
   const m = run.metrics;
   if (!m) return [];
   const base = baseline && baseline !== run && baseline.scenario.hash === run.scenario.hash ? baseline.metrics : null;
-  return MATRIX_METRICS.map((def) => {
+  return [...MATRIX_METRICS.map((def) => {
     const value = def.value(m);
     let delta: string | null = null;
     let mark: Mark | null = null;
@@ -153,7 +153,50 @@ export function metricCells(run: RunResult, baseline: RunResult | null, gate: Ga
       broken,
       note: over ? 'over budget' : null,
     };
-  });
+  }), ...optionalCells(m, base)];
+}
+
+/**
+ * Metric groups the scorer may add (stance and touchdown metrics): shown where a run carries them,
+ * one cell per numeric field (one level of nesting, e.g. `touchdown.impactSpeed_mps.max`), with
+ * the change against the baseline but no better/worse judgement until the metric has its own
+ * MATRIX_METRICS entry (which way is better is the metric's fact, not the report's guess).
+ */
+export const OPTIONAL_METRIC_GROUPS = ['stance', 'touchdown'] as const;
+
+function optionalCells(m: ScoreMetrics, base: ScoreMetrics | null): MetricCell[] {
+  const out: MetricCell[] = [];
+  const numbers = (value: unknown, prefix: string, into: Map<string, number>) => {
+    if (typeof value === 'number' && Number.isFinite(value)) into.set(prefix, value);
+    else if (typeof value === 'object' && value !== null && !Array.isArray(value) && prefix.split('.').length < 3)
+      for (const [k, v] of Object.entries(value)) numbers(v, `${prefix}.${k}`, into);
+  };
+  for (const group of OPTIONAL_METRIC_GROUPS) {
+    const mine = new Map<string, number>();
+    const theirs = new Map<string, number>();
+    numbers((m as unknown as Record<string, unknown>)[group], group, mine);
+    if (base) numbers((base as unknown as Record<string, unknown>)[group], group, theirs);
+    for (const [key, value] of mine) {
+      // Rows of their own (MATRIX_METRICS) are not repeated; of a spread only the mean is shown,
+      // the full spread is in results.json.
+      if (MATRIX_METRICS.some((def) => def.key === key) || (/\.(p95|max)$/.test(key) && mine.has(key.replace(/\.(p95|max)$/, '.mean')))) continue;
+      if (key === `${group}.transient_s`) continue;
+      const b = theirs.get(key);
+      const change = b === undefined ? null : value - b;
+      out.push({
+        label: key.replace(/\./g, ' '),
+        value: change === null || change === 0 ? label(value, 3) : `${label(value, 3)} (${change > 0 ? '+' : '−'}${label(Math.abs(change), 3)})`,
+        delta: null,
+        mark: null,
+        glyph: '',
+        markText: '',
+        showDelta: false,
+        broken: false,
+        note: null,
+      });
+    }
+  }
+  return out;
 }
 
 function signed(change: number, def: MetricDefinition): string {

@@ -2,7 +2,7 @@
 // the plain view model the templates lay out. Every user string stays a plain string here (the
 // templates escape it); every plot is SvgMarkup built from numbers by plot/ (timeSeries.ts, floor.ts, overview.ts).
 
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { defaultPolicy, type GatePolicy } from '../gate/defaults.js';
 import { gateWithinResults } from '../gate/gate.js';
@@ -14,12 +14,19 @@ import { familiesView, marginView, type FamilyView, type MarginView } from './ma
 import { metricCells, type MetricCell } from './matrix.js';
 import { floorDefinition, floorExtent, floorPlot, muLegend } from './plot/floor.js';
 import { buildSwatch, marginAxis, marginDots, slipAxis, slipDots } from './plot/overview.js';
-import { frictionUsePlot, governorAxisFlat, governorPlot, loopTimePlot, normalForcePlot, slipDistancePlot } from './plot/timeSeries.js';
+import { frictionUsePlot, governorAxisFlat, governorPlot, loopTimePlot, normalForcePlot, slipDistancePlot, telemetryPlot, timeClipDefinition, type TimeEvent } from './plot/timeSeries.js';
+import { rollUp, regressionGroups, type RegressionGroup, type RollUpRow } from './rollup.js';
+import { telemetryOf } from './telemetry.js';
 import { buildStyle, type BuildStyle } from './plot/palette.js';
 import { niceCeil } from './plot/scale.js';
 import { asSvg, label, type SvgMarkup } from './plot/svg.js';
 import { readSeriesFor } from '../score/series/file.js';
+import { recordedErrorPlot, recordedPathPlot } from './plot/fidelity.js';
+import type { FidelityBlock } from '../score/fidelity.js';
+import { describeDivergence, firstDivergence } from '../results/divergence.js';
 import type { RunSeries } from '../score/series/types.js';
+import type { ResolvedScenario } from '../scenario/types.js';
+import { scenarioEvents } from './events.js';
 
 export interface ReportOptions {
   /** Folder the report is written to (links are relative to it). */
@@ -36,6 +43,12 @@ export interface ReportOptions {
   sourceDirs?: string[];
   /** For reproducible output in tests. */
   generatedAt?: Date;
+  /**
+   * The resolved scenarios of the run (matched to runs by id and hash): their pushes and command
+   * changes are marked on the time axes and their robot's legNames label the feet. Optional: without
+   * them the plots say "foot i" and mark falls only.
+   */
+  scenarios?: readonly ResolvedScenario[];
 }
 
 const STATUS_GLYPH: Record<RunStatus, string> = { pass: '✓', fail: '✗', error: '!' };
@@ -67,6 +80,8 @@ export interface RunView {
   floor: SvgMarkup | null;
   floorCaption: string;
   governor: { axis: string; svg: SvgMarkup }[];
+  /** Named telemetry scalars by name prefix (when the series file carries them). */
+  telemetry: { prefix: string; plots: { name: string; svg: SvgMarkup }[] }[];
   /** Governor axes not plotted because target and applied stayed constant. */
   governorFlat: string;
   loopTime: SvgMarkup | null;
@@ -74,6 +89,8 @@ export interface RunView {
   traceHref: string | null;
   cells: MetricCell[];
   isBaseline: boolean;
+  /** footing replay: recorded vs simulated overlays (plot/fidelity.ts), with the figures. */
+  fidelity: { path: SvgMarkup; error: SvgMarkup; caption: string; note: string } | null;
 }
 
 export interface ScenarioView {
@@ -96,7 +113,12 @@ export interface ScenarioView {
   slipOverlay: SvgMarkup | null;
   overview: { margin: SvgMarkup; slip: SvgMarkup };
   hasGovernor: boolean;
+  hasTelemetry: boolean;
   duration: string;
+  /** Longest run, in ms (the zoom's range). */
+  tMax_ms: number;
+  /** "governed → overtrusting: first differs at …" per gated build pair with traces. */
+  divergences: string[];
 }
 
 export interface RegressionView {
@@ -119,7 +141,12 @@ export interface ReportModel {
   baseline: { name: string; explicit: boolean } | null;
   builds: BuildView[];
   totals: Record<RunStatus, number> & { runs: number };
+  /** One row per compared build (null without a gate). */
+  rollUp: (RollUpRow & { swatch: SvgMarkup; buildIndex: number })[] | null;
+  /** The build with the most new failures (ties: the first in pair order); null when none. */
+  mostNewFailures: string | null;
   gate: {
+    groups: RegressionGroup[];
     present: boolean;
     verdict: string;
     headline: string;
@@ -133,6 +160,7 @@ export interface ReportModel {
   };
   scenarios: ScenarioView[];
   overviewAxes: { margin: SvgMarkup; slip: SvgMarkup };
+  timeClip: SvgMarkup;
   bench: BenchView;
   /** Present only when some run carries a margin search (`footing margin`). */
   margin: MarginView | null;
@@ -165,7 +193,7 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     const runs = results.runs.filter((r) => r.build === name);
     const counts = { pass: 0, fail: 0, error: 0 };
     for (const r of runs) counts[r.status]++;
-    const style = buildStyle(index);
+    const style = buildStyle(name, name === baselineName);
     return {
       name,
       index,
@@ -197,7 +225,8 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     const anchor = `scenario-${index + 1}-${ref.id.replace(/[^A-Za-z0-9_-]/g, '-')}`;
     if (!anchors.has(ref.id)) anchors.set(ref.id, anchor);
     anchorByKey.set(`${ref.id}\u0000${ref.hash}`, anchor);
-    scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, outDir: options.outDir, traces }));
+    const resolved = options.scenarios?.find((s) => s.id === ref.id && s.hash === ref.hash) ?? null;
+    scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, outDir: options.outDir, traces, resolved }));
     index++;
   }
 
@@ -220,8 +249,15 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
       reason: r.reason ?? '',
     }));
 
+  const anchorOfRun = (run: RunResult) => anchorByKey.get(`${run.scenario.id}\u0000${run.scenario.hash}`) ?? '';
+  const rolled = gate ? rollUp(gate, results.runs, anchorOfRun) : null;
+  let most: RollUpRow | null = null;
+  for (const row of rolled ?? []) if (row.newFailures > 0 && (!most || row.newFailures > most.newFailures)) most = row;
+
   const machine = results.machine;
   return {
+    rollUp: rolled?.map((r) => ({ ...r, swatch: buildSwatch(buildStyle(r.build, r.build === baselineName)), buildIndex: buildIndex.get(r.build) ?? 0 })) ?? null,
+    mostNewFailures: most?.build ?? null,
     title: `Footing report — ${results.runs.length} runs, ${buildNames.length} build${buildNames.length === 1 ? '' : 's'}`,
     generatedAt: (options.generatedAt ?? new Date()).toISOString(),
     results: {
@@ -233,6 +269,7 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     builds,
     totals,
     gate: {
+      groups: regressionGroups(gate, titles, anchors),
       present: gate !== null,
       verdict: gate ? gate.verdict : 'none',
       headline: gate
@@ -250,9 +287,10 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     },
     scenarios,
     overviewAxes: { margin: marginAxis(), slip: slipAxis() },
+    timeClip: timeClipDefinition(),
     bench: benchView(options.bench),
-    margin: marginView(results, buildNames, (run) => anchorByKey.get(`${run.scenario.id}\u0000${run.scenario.hash}`) ?? ''),
-    families: familiesView(results, buildNames),
+    margin: marginView(results, buildNames, anchorOfRun, baselineName),
+    families: familiesView(results, buildNames, baselineName),
     provenance: {
       scenarios: scenarios.map((s) => ({ id: s.id, title: s.title, revision: s.revision, hash: s.hash, file: s.file, anchor: s.anchor })),
       traces,
@@ -269,12 +307,48 @@ interface ScenarioContext {
   sourceDirs: string[];
   outDir: string;
   traces: { href: string; name: string }[];
+  resolved: ResolvedScenario | null;
+}
+
+/** First divergence of each gated build pair's traces on this scenario (recorded/divergence.ts). */
+function scenarioDivergences(runs: RunResult[], ctx: ScenarioContext): string[] {
+  if (!ctx.gate) return [];
+  const traceText = (run: RunResult | undefined): string | null => {
+    if (!run?.trace) return null;
+    for (const dir of ctx.sourceDirs) {
+      const file = path.join(dir, run.trace);
+      if (existsSync(file)) return readFileSync(file, 'utf8');
+    }
+    return null;
+  };
+  const lines: string[] = [];
+  for (const [base, cand] of ctx.gate.buildPairs) {
+    const a = runs.find((r) => r.build === base);
+    const b = runs.find((r) => r.build === cand);
+    if (!a || !b) continue;
+    const ta = traceText(a);
+    const tb = traceText(b);
+    if (ta === null || tb === null) continue;
+    try {
+      lines.push(`${base} → ${cand}: ${describeDivergence({ scenario: a.scenario.id, baselineBuild: base, candidateBuild: cand, divergence: firstDivergence(ta, tb) })}`);
+    } catch (e) {
+      lines.push(`${base} → ${cand}: not computed (${(e as Error).message})`);
+    }
+  }
+  return lines;
 }
 
 function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: ScenarioContext): ScenarioView {
   const ref = runs[0].scenario;
   const baselineRun = runs.find((r) => r.build === ctx.baselineName) ?? null;
-  const loaded = runs.map((run) => ({ run, lookup: readSeriesFor(ctx.sourceDirs, ref.id, ref.hash, run.build) }));
+  const legNames = ctx.resolved?.plant.robot.legNames;
+  const fixed = ctx.resolved ? scenarioEvents(ctx.resolved) : [];
+  const loaded = runs.map((run) => {
+    const lookup = readSeriesFor(ctx.sourceDirs, ref.id, ref.hash, run.build);
+    // The robot's leg names travel with the series the plots read (footLabel in plot/timeSeries.ts).
+    if (lookup.series && legNames && legNames.length === lookup.series.footCount) lookup.series = { ...lookup.series, legNames } as RunSeries;
+    return { run, lookup };
+  });
   const withSeries = loaded.filter((l) => l.lookup.series !== null).map((l) => ({ run: l.run, series: l.lookup.series as RunSeries }));
   const tMax_s = Math.max(0.001, ...withSeries.map(({ series }) => series.t_s[series.t_s.length - 1] ?? 0));
   let forceMax = 0;
@@ -293,10 +367,11 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     const traceHref = traceLink(run, ctx);
     if (traceHref) ctx.traces.push({ href: traceHref, name: `${ref.id} × ${run.build}` });
     const overBudget = series ? loopOver(series) : 0;
+    const events = series ? [...fixed, ...runEvents(run, series)] : [];
     return {
       build: run.build,
       buildIndex: b,
-      swatch: buildSwatch(buildStyle(b)),
+      swatch: buildSwatch(buildStyle(run.build, run.build === ctx.baselineName)),
       status: run.status,
       glyph: STATUS_GLYPH[run.status],
       reasons: run.reasons,
@@ -305,27 +380,33 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
         : null,
       hasSeries: series !== null,
       seriesProblem: lookup.series === null ? (run.metrics === null ? 'the run ended before its first tick' : lookup.problem) : null,
-      frictionUse: series ? frictionUsePlot(series, tMax_s) : null,
-      normalForce: series ? normalForcePlot(series, tMax_s, forceMax_N) : null,
+      frictionUse: series ? frictionUsePlot(series, tMax_s, events) : null,
+      normalForce: series ? normalForcePlot(series, tMax_s, forceMax_N, events) : null,
       floor: floor?.svg ?? null,
       floorCaption: floor
         ? `${series?.footholds.length ?? 0} footholds${series && series.dropped.footholds > 0 ? ` (+${series.dropped.footholds} not stored)` : ''}, ` +
           `${floor.slipsTotal} slip segment${floor.slipsTotal === 1 ? '' : 's'}${floor.slipsTotal > floor.slipsDrawn ? ` (${floor.slipsDrawn} longest drawn)` : ''}` +
           (floor.longest ? `; longest ${label(floor.longest.distance_m * 1000, 1)} mm (foot ${floor.longest.foot}, ${label(floor.longest.start_s, 2)} s, ringed)` : '')
         : '',
-      governor: series ? series.governor.flatMap((g, k) => (governorAxisFlat(series, k) ? [] : [{ axis: g.axis, svg: governorPlot(series, k, tMax_s) }])) : [],
+      governor: series ? series.governor.flatMap((g, k) => (governorAxisFlat(series, k) ? [] : [{ axis: g.axis, svg: governorPlot(series, k, tMax_s, events) }])) : [],
+      telemetry: series ? telemetryOf(series).map((g) => ({ prefix: g.prefix, plots: g.scalars.map((t) => ({ name: t.name, svg: telemetryPlot(series, t.name, t.values, tMax_s, events) })) })) : [],
       governorFlat: series ? series.governor.filter((_, k) => governorAxisFlat(series, k)).map((g) => g.axis).join(', ') : '',
       loopTime: series && series.loopTime.ticks > 0 ? loopTimePlot(series) : null,
       loopCaption: series ? `${series.loopTime.ticks} ticks, ${overBudget} over the ${label(series.loopTime.budget_us, 0)} µs budget` : '',
       traceHref,
       cells: metricCells(run, baselineRun, ctx.gate),
       isBaseline: run.build === ctx.baselineName,
+      fidelity: run.fidelity ? fidelityView(run.fidelity, buildStyle(run.build, run.build === ctx.baselineName)) : null,
     };
   });
   const byBuild = new Map(views.map((v) => [v.build, v]));
-  const styled = withSeries.map(({ run, series }) => ({ series, style: buildStyle(ctx.buildIndex.get(run.build) ?? 0) }));
+  const styled = withSeries.map(({ run, series }) => ({ series, build: run.build, style: buildStyle(run.build, run.build === ctx.baselineName) }));
+  // One lane per build of the suite (in build order), so every scenario row lines builds up alike.
   const dots = (value: (r: RunResult) => number | null) =>
-    runs.map((r) => ({ value: r.metrics ? value(r) : null, style: buildStyle(ctx.buildIndex.get(r.build) ?? 0) }));
+    ctx.buildNames.map((name) => {
+      const r = runs.find((run) => run.build === name);
+      return { value: r?.metrics ? value(r) : null, style: buildStyle(name, name === ctx.baselineName), passed: r?.status === 'pass' };
+    });
   return {
     anchor,
     index,
@@ -342,11 +423,45 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     floorDefinition: friction ? floorDefinition(friction, definitionId) : null,
     muLegend: friction ? muLegend(materialMus(friction)) : null,
     materials: friction ? describeMaterials(friction) : [],
-    slipOverlay: styled.length > 0 ? slipDistancePlot(styled, tMax_s) : null,
+    slipOverlay: styled.length > 0 ? slipDistancePlot(styled, tMax_s, sharedEvents([fixed, ...loaded.map((l) => (l.lookup.series ? runEvents(l.run, l.lookup.series) : []))])) : null,
     overview: { margin: marginDots(dots((r) => r.metrics?.frictionMargin.min ?? null)), slip: slipDots(dots((r) => r.metrics?.slipDistance_m ?? null)) },
     hasGovernor: views.some((v) => v.governor.length > 0 || v.governorFlat !== ''),
+    hasTelemetry: views.some((v) => v.telemetry.length > 0),
+    tMax_ms: Math.round(tMax_s * 1000),
     duration: `${label(tMax_s, 2)} s`,
+    divergences: scenarioDivergences(runs, ctx),
   };
+}
+
+/**
+ * Time-axis events of one run: its fall (from the scorer's fellAt_s), and pushes and command changes
+ * when the series file carries them (an optional `events` list of { t_s, kind, text }).
+ */
+function runEvents(run: RunResult, series: RunSeries): TimeEvent[] {
+  const out: TimeEvent[] = [];
+  const given = (series as RunSeries & { events?: unknown }).events;
+  if (Array.isArray(given)) {
+    for (const e of given as { t_s?: unknown; kind?: unknown; text?: unknown }[]) {
+      if (typeof e?.t_s !== 'number' || !Number.isFinite(e.t_s) || (e.kind !== 'push' && e.kind !== 'command')) continue;
+      out.push({ t_s: e.t_s, kind: e.kind, text: typeof e.text === 'string' ? e.text : e.kind });
+    }
+  }
+  const m = run.metrics;
+  if (m?.fell && typeof m.fellAt_s === 'number') out.push({ t_s: m.fellAt_s, kind: 'fall', text: `${run.build} fell` });
+  return out;
+}
+
+/** Events every build shares (the scenario's pushes and commands) plus each build's fall. */
+function sharedEvents(lists: TimeEvent[][]): TimeEvent[] {
+  const seen = new Set<string>();
+  const out: TimeEvent[] = [];
+  for (const list of lists) for (const e of list) {
+    const key = `${e.kind}\u0000${e.t_s}\u0000${e.text}`;
+    if (seen.has(key)) continue;
+    seen.add(key);
+    out.push(e);
+  }
+  return out;
 }
 
 function loopOver(series: RunSeries): number {
@@ -427,4 +542,15 @@ function statusBar(counts: Record<RunStatus, number>): SvgMarkup {
     x += w;
   }
   return asSvg(out + '</svg>');
+}
+
+/** The replay figures in one caption; the plots from plot/fidelity.ts. */
+function fidelityView(f: FidelityBlock, style: ReturnType<typeof buildStyle>): NonNullable<RunView['fidelity']> {
+  const e = f.trunkPositionError_m;
+  const first = f.firstExceeded;
+  const caption =
+    `trunk path error RMS ${label(e.rms * 1000, 1)} mm, max ${label(e.max * 1000, 1)} mm at ${label(e.maxAt_s, 2)} s; ` +
+    `first past tolerance: ${first ? `${label(first.time_s, 3)} s (${first.quantity})` : 'never'}; ` +
+    `slips ${f.slips.recorded} recorded, ${f.slips.reproduced} reproduced, ${f.slips.extra} extra`;
+  return { path: recordedPathPlot(f, style), error: recordedErrorPlot(f), caption, note: f.note };
 }

@@ -1,7 +1,8 @@
 // Reading a results set back: a results.json file, or a folder holding one. Every failure names
 // the path and what was expected (the gate turns these into exit code 2).
 
-import { readFileSync, statSync } from 'node:fs';
+import { statSync } from 'node:fs';
+import { readBoundedTextSync } from '../files/bounded.js';
 import { join } from 'node:path';
 import { migrateResults } from './migrate.js';
 import { RESULTS_FILE_NAME, type ResultsFile } from './types.js';
@@ -39,7 +40,7 @@ export function readResultsFile(path: string): { file: string; results: ResultsF
   const file = resolveResultsPath(path);
   let text: string;
   try {
-    text = readFileSync(file, 'utf8');
+    text = readBoundedTextSync(file);
   } catch (error) {
     throw new ResultsReadError(file, `${file}: cannot read (${(error as Error).message})`);
   }

@@ -7,8 +7,20 @@ import type { FamilySummary, RunMargin } from './margin.js';
 import type { StartMode } from '../plant/types.js';
 import type { FamilyMembership } from '../scenario/types.js';
 import type { ScoreMetrics, SimMetrics } from '../score/types.js';
+import type { FidelityBlock } from '../score/fidelity.js';
 
 export const RESULTS_FORMAT = 'footing-results';
+
+export interface ShardRecord {
+  /** 1-based shard index K of `--shard K/N`. */
+  index: number;
+  /** N. */
+  count: number;
+  /** sha256 over every (scenario id, scenario hash, build) pair of the unsharded suite. */
+  suite: string;
+  /** Pairs of the unsharded suite. */
+  pairs: number;
+}
 /** 2 added the optional run `margin`, scenario `family` and top-level `families` (migrate.ts reads 1). */
 export const RESULTS_FORMAT_VERSION = 2;
 export const RESULTS_FILE_NAME = 'results.json';
@@ -50,6 +62,8 @@ export interface RunResult {
   metrics: ScoreMetrics | null;
   /** Trace CSV path relative to the results folder, with --trace. */
   trace?: string;
+  /** footing replay only: the comparison with the scenario's recorded trajectory. */
+  fidelity?: FidelityBlock;
   /** Critical friction and push scales, written by `footing margin` (docs/margin.md). */
   margin?: RunMargin;
 }
@@ -88,6 +102,11 @@ export interface ResultsFile {
    * harness/bench/bench.schema.json. Typed loosely here: the results layer does not import the bench.
    */
   bench?: { format: 'footing-bench'; formatVersion: number; builds: unknown[]; [field: string]: unknown };
+  /**
+   * Set by `footing run --shard K/N`: which share this is, and the identity of the whole suite it
+   * was cut from, so `footing merge` can refuse missing, duplicate or mixed shards.
+   */
+  shard?: ShardRecord;
   /** Paired loop-time measurements of the gate's build pairs (`footing run --baseline`). */
   loopTime?: PairedLoopTimeRecord[];
 }

@@ -3,10 +3,24 @@
 
 import { XMLBuilder } from 'fast-xml-parser';
 import { writeFileAtomicSync } from '../files/atomic.js';
+import { xmlSafeTree } from '../files/xml.js';
 import { runsByBuild } from './buildOrder.js';
 import type { ResultsFile, RunResult } from './types.js';
 
 type XmlNode = Record<string, unknown>;
+
+/**
+ * How each failing run compares with the gate's baseline, keyed `scenario id \0 build`: a CI test
+ * view then tells a failure the candidate introduced from one it inherited. Given by the caller
+ * (the gate lives above this layer); runs not in it are marked by their own status only.
+ */
+export type JunitRunChanges = ReadonlyMap<string, 'new-failure' | 'still-failing' | 'fixed' | 'passing'>;
+
+export function junitRunKey(scenarioId: string, build: string): string {
+  return `${scenarioId}\u0000${build}`;
+}
+
+const CHANGE_PREFIX: Record<string, string> = { 'new-failure': 'new failure: ', 'still-failing': 'still failing (fails on the baseline too): ' };
 
 function seconds(value: number): string {
   return value.toFixed(3);
@@ -27,7 +41,9 @@ function brief(run: RunResult): string {
   ].join('; ');
 }
 
-function testcase(run: RunResult): XmlNode {
+function testcase(run: RunResult, changes?: JunitRunChanges): XmlNode {
+  const change = changes?.get(junitRunKey(run.scenario.id, run.build));
+  const prefix = change === undefined ? '' : (CHANGE_PREFIX[change] ?? '');
   const node: XmlNode = {
     '@_name': run.scenario.id,
     '@_classname': run.build,
@@ -35,12 +51,13 @@ function testcase(run: RunResult): XmlNode {
     '@_time': seconds(run.sim?.wall_s ?? 0),
   };
   if (run.status === 'fail') {
-    node.failure = { '@_message': run.reasons.join('; '), '@_type': 'acceptance', '#text': run.reasons.join('\n') };
+    const type = change === 'still-failing' ? 'acceptance-still-failing' : change === 'new-failure' ? 'acceptance-new-failure' : 'acceptance';
+    node.failure = { '@_message': prefix + run.reasons.join('; '), '@_type': type, '#text': run.reasons.join('\n') };
   } else if (run.status === 'error') {
     const error = run.error ?? { message: run.reasons.join('; ') };
     node.error = {
-      '@_message': error.message,
-      '@_type': error.reason ?? 'error',
+      '@_message': prefix + error.message,
+      '@_type': `${error.reason ?? 'error'}${change === 'still-failing' ? '-still-failing' : change === 'new-failure' ? '-new-failure' : ''}`,
       '#text': error.stderrTail ?? run.reasons.join('\n'),
     };
   }
@@ -48,7 +65,7 @@ function testcase(run: RunResult): XmlNode {
   return node;
 }
 
-export function renderJunitXml(results: ResultsFile): string {
+export function renderJunitXml(results: ResultsFile, changes?: JunitRunChanges): string {
   const suites: XmlNode[] = [];
   let tests = 0;
   let failures = 0;
@@ -78,7 +95,7 @@ export function renderJunitXml(results: ResultsFile): string {
       '@_timestamp': results.startedAt,
     };
     if (properties.length > 0) suite.properties = { property: properties };
-    suite.testcase = runs.map(testcase);
+    suite.testcase = runs.map((run) => testcase(run, changes));
     suites.push(suite);
   }
   const builder = new XMLBuilder({
@@ -87,6 +104,8 @@ export function renderJunitXml(results: ResultsFile): string {
     format: true,
     indentBy: '  ',
     suppressEmptyNode: true,
+    // Default true writes value="true" as a bare `value`, which is not XML (only HTML has boolean attributes).
+    suppressBooleanAttributes: false,
   });
   const document = {
     '?xml': { '@_version': '1.0', '@_encoding': 'UTF-8' },
@@ -99,9 +118,10 @@ export function renderJunitXml(results: ResultsFile): string {
       testsuite: suites,
     },
   };
-  return builder.build(document) as string;
+  // Build-supplied text (stderr, messages) may hold characters XML 1.0 cannot (harness/text/xml.ts).
+  return builder.build(xmlSafeTree(document)) as string;
 }
 
-export function writeJunitXml(file: string, results: ResultsFile): void {
-  writeFileAtomicSync(file, renderJunitXml(results));
+export function writeJunitXml(file: string, results: ResultsFile, changes?: JunitRunChanges): void {
+  writeFileAtomicSync(file, renderJunitXml(results, changes));
 }

@@ -2,15 +2,15 @@
 // runs with their reasons, and the full table folded away.
 
 import { writeFileAtomicSync } from '../files/atomic.js';
+import { markdownCode, markdownInline } from '../files/markdown.js';
 import { runsByBuild } from './buildOrder.js';
 import type { ResultsFile, RunResult } from './types.js';
 
 /** Failures listed in full before "… and N more" (keeps the comment short). */
 export const SUMMARY_FAILURE_LIMIT = 20;
 
-export function markdownCell(text: string): string {
-  return text.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\r?\n/g, ' ');
-}
+/** Build-supplied text in a table cell or list item: one inert line (harness/text/markdown.ts). */
+export const markdownCell = markdownInline;
 
 function fixed(value: number | null | undefined, decimals: number): string {
   return value === null || value === undefined ? '–' : value.toFixed(decimals);
@@ -50,7 +50,7 @@ export function renderSummaryMarkdown(results: ResultsFile): string {
   if (failing.length > 0) {
     lines.push('', '**Not passing**', '');
     for (const run of failing.slice(0, SUMMARY_FAILURE_LIMIT)) {
-      lines.push(`- \`${run.scenario.id}\` × \`${run.build}\` (${run.status}): ${run.reasons.join('; ')}`);
+      lines.push(`- ${markdownCode(run.scenario.id)} × ${markdownCode(run.build)} (${run.status}): ${markdownInline(run.reasons.join('; '))}`);
     }
     if (failing.length > SUMMARY_FAILURE_LIMIT) lines.push(`- … and ${failing.length - SUMMARY_FAILURE_LIMIT} more`);
   }

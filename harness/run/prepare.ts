@@ -2,6 +2,8 @@
 // build specs (names unique), load the scenarios in the one canonical order, and describe each
 // build for results.json. A failing parse or load is bad input: the lines say what, nothing runs.
 
+import { existsSync, statSync } from 'node:fs';
+import { whichProgram } from '../builds/contentIdentity.js';
 import { buildManifest } from '../builds/provenance.js';
 import { BuildSpecError, parseBuildSpec, type BuildSpec } from '../builds/spec.js';
 import type { BuildManifest } from '../results/types.js';
@@ -22,13 +24,31 @@ export function prepareBuilds(command: string, builds: (string | BuildSpec)[], c
     throw error;
   }
   const names = new Set<string>();
-  for (const spec of specs) {
+  for (const [k, spec] of specs.entries()) {
+    // Specs prepared elsewhere (git-ref builds) carry their own failure; only given text is checked.
+    const missing = typeof builds[k] === 'string' ? missingEntry(spec) : null;
+    if (missing !== null) return { ok: false, lines: [`--build ${spec.text}: ${missing}; nothing was run`] };
     if (names.has(spec.name)) {
       return { ok: false, lines: [`--build ${spec.text}: the build name "${spec.name}" is used twice; name one of them (NAME=SPEC)`] };
     }
     names.add(spec.name);
   }
   return { ok: true, value: specs, warnings: [] };
+}
+
+/**
+ * A module file or program that is not there is bad input (exit 2 before anything runs), not an
+ * error run per scenario: nothing about the scenarios could change it.
+ */
+function missingEntry(spec: BuildSpec): string | null {
+  if (spec.kind === 'module') {
+    if (!existsSync(spec.entry)) return `module file ${spec.entry} does not exist`;
+    if (!statSync(spec.entry).isFile()) return `${spec.entry} is not a file (expected an ES module, .js .mjs .ts .mts)`;
+  }
+  if (spec.kind === 'process' && whichProgram(spec.entry, spec.cwd) === null) {
+    return spec.entry.includes('/') ? `program ${spec.entry} does not exist` : `program "${spec.entry}" is not on PATH`;
+  }
+  return null;
 }
 
 /** Loads the suite; scenarios sorted by file then id (the order results and merges use). */

@@ -4,19 +4,38 @@
 // where it stopped. What a results folder holds besides runs/ is the `run` command's business
 // (harness/commands/run.ts); this engine knows nothing of gates, reports or exit codes.
 
-import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { readdirSync, readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
+import { buildContentIdentity } from '../builds/contentIdentity.js';
 import type { BuildSpec } from '../builds/spec.js';
 import { removeStaleTemps, writeFileAtomicSync } from '../files/atomic.js';
 import { createErrorRunResult } from '../results/runResult.js';
 import type { RunResult } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
-import { createRunPool, defaultJobs, runOnPool, DEFAULT_RUN_TIMEOUT, type RunTimeout } from './pool.js';
+import { keepOnResume, onInterrupt, type InterruptSignal } from './interrupt.js';
+import { realFolder } from './outputLock.js';
+import { createRunPool, defaultJobs, runOnPool, DEFAULT_RUN_TIMEOUT, RunInterruptedError, type RunTimeout } from './pool.js';
 import type { PreparedBuild } from './prepare.js';
 import { chooseProgressMode, createProgress } from './progress.js';
 import { shardIndices, type ShardSpec } from './shard.js';
 
 export const RUNS_FOLDER = 'runs';
+
+/**
+ * SIGINT/SIGTERM stopped the suite: the pool was aborted (every build's process group killed), the
+ * runs finished so far are saved in runs/, and --resume finishes the rest.
+ */
+export class SuiteInterruptedError extends Error {
+  constructor(
+    readonly signal: InterruptSignal,
+    readonly saved: number,
+    readonly total: number,
+    readonly runsDir: string,
+  ) {
+    super(`interrupted by ${signal}: ${saved} of ${total} runs are saved in ${runsDir}; run the same command again with --resume to finish the rest`);
+    this.name = 'SuiteInterruptedError';
+  }
+}
 
 export interface PairRunOptions {
   /** In the canonical order (run/prepare.ts); builds as given. */
@@ -30,7 +49,7 @@ export interface PairRunOptions {
   traceEveryNth?: number;
   jobs?: number;
   shard?: ShardSpec;
-  /** Keep saved runs of unchanged pairs (same scenario hash and build name). */
+  /** Keep saved runs of unchanged pairs (same scenario hash, build name and build content). */
   resume?: boolean;
   quiet?: boolean;
   runTimeout?: RunTimeout;
@@ -64,51 +83,80 @@ export async function runPairs(options: PairRunOptions): Promise<RunResult[]> {
     pairs = mine.map((i) => pairs[i]);
   }
 
-  const runsDir = path.join(outDir, RUNS_FOLDER);
-  mkdirSync(runsDir, { recursive: true });
+  // Deletion below never follows a link: runs/ and traces/ must be real folders (OutputFolderError).
+  const runsDir = realFolder(path.join(outDir, RUNS_FOLDER));
   removeStaleTemps(outDir);
   removeStaleTemps(runsDir);
-  if (options.trace) {
-    mkdirSync(path.join(outDir, 'traces'), { recursive: true });
-    removeStaleTemps(path.join(outDir, 'traces'));
-  }
+  if (options.trace) removeStaleTemps(realFolder(path.join(outDir, 'traces')));
 
-  const saved = options.resume ? readSavedRuns(runsDir) : new Map<string, RunResult>();
+  // What code each build runs, as a hash of its files: a saved run of an edited build is stale.
+  const identities = new Map(options.builds.map((build) => [build.name, buildContentIdentity(build).sha256]));
+  const saved = options.resume ? readSavedRuns(runsDir) : new Map<string, SavedRun>();
   if (!options.resume) clearSavedRuns(runsDir);
   const results = new Map<string, RunResult>();
   const pending: Pair[] = [];
+  const stale = new Map<string, string>();
   for (const pair of pairs) {
     const previous = saved.get(pair.key);
-    // A build that could not be prepared last time is tried again, not resumed as an error.
-    const reusable = previous && previous.error?.reason !== 'build-failed';
-    if (reusable && previous.scenario.hash === pair.scenario.hash && previous.build === pair.build.name) results.set(pair.key, previous);
-    else pending.push(pair);
+    const identity = identities.get(pair.build.name);
+    if (previous === undefined) pending.push(pair);
+    else if (!keepOnResume(previous.result.error?.reason)) pending.push(pair);
+    else if (previous.result.scenario.hash !== pair.scenario.hash || previous.result.build !== pair.build.name) {
+      stale.set(`scenario ${pair.scenario.id}`, 'its content changed');
+      pending.push(pair);
+    } else if (previous.buildIdentity !== identity) {
+      stale.set(`build ${pair.build.name}`, previous.buildIdentity === undefined ? 'the saved run does not say which code it ran' : 'its code changed (module, imports, program or options)');
+      pending.push(pair);
+    } else results.set(pair.key, previous.result);
   }
-  if (options.resume) log(`resuming: ${results.size} of ${pairs.length} runs already complete in ${options.outLabel ?? outDir}`);
+  if (options.resume) {
+    log(`resuming: ${results.size} of ${pairs.length} runs already complete in ${options.outLabel ?? outDir}`);
+    for (const [what, why] of stale) log(`  rerunning the saved runs of ${what}: ${why}`);
+  }
 
   const jobs = Math.max(1, Math.min(options.jobs ?? defaultJobs(), pending.length || 1));
   const progress = createProgress(chooseProgressMode({ quiet: options.quiet }), pending.length, log);
   const timeout = options.runTimeout ?? DEFAULT_RUN_TIMEOUT;
   const pool = createRunPool(jobs);
+  let interrupted: InterruptSignal | undefined;
+  const stopWatching = onInterrupt((signal) => {
+    interrupted = signal;
+    pool.abort(signal);
+  });
   try {
     await Promise.all(
       pending.map(async (pair) => {
         const started = performance.now();
         const failure = prepared.get(pair.build.name)?.failure;
-        const result = failure
-          ? createErrorRunResult(pair.scenario, pair.build.name, { message: failure.message, reason: 'build-failed', stderrTail: failure.outputTail })
-          : await runOnPool(pool, { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth }, timeout);
-        writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(result)}\n`);
+        let result: RunResult;
+        try {
+          result = failure
+            ? createErrorRunResult(pair.scenario, pair.build.name, { message: failure.message, reason: 'build-failed', stderrTail: failure.outputTail })
+            : await runOnPool(pool, { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth }, timeout);
+        } catch (error) {
+          if (error instanceof RunInterruptedError) return; // not saved: --resume runs it
+          throw error;
+        }
+        const record: SavedRun = { buildIdentity: identities.get(pair.build.name), result };
+        writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(record)}\n`);
         results.set(pair.key, result);
         // The run's own wall time (measured in its worker); queueing time is not the run's.
         progress.done(result, result.sim?.wall_s ?? (performance.now() - started) / 1000);
       }),
     );
   } finally {
+    stopWatching();
     progress.stop();
     await pool.close();
   }
+  if (interrupted !== undefined) throw new SuiteInterruptedError(interrupted, results.size, pairs.length, path.relative(process.cwd(), runsDir) || runsDir);
   return pairs.map((pair) => results.get(pair.key) as RunResult);
+}
+
+/** A saved run (runs/<key>.json): the result and the content identity of the build that made it. */
+interface SavedRun {
+  buildIdentity?: string;
+  result: RunResult;
 }
 
 export function countStatuses(runs: readonly RunResult[]): Record<'pass' | 'fail' | 'error', number> {
@@ -117,12 +165,16 @@ export function countStatuses(runs: readonly RunResult[]): Record<'pass' | 'fail
   return counts;
 }
 
-function readSavedRuns(runsDir: string): Map<string, RunResult> {
-  const saved = new Map<string, RunResult>();
+function readSavedRuns(runsDir: string): Map<string, SavedRun> {
+  const saved = new Map<string, SavedRun>();
   for (const name of readdirSync(runsDir)) {
     if (!name.endsWith('.json') || name.startsWith('.')) continue;
     try {
-      saved.set(name.slice(0, -'.json'.length), JSON.parse(readFileSync(path.join(runsDir, name), 'utf8')) as RunResult);
+      const record = JSON.parse(readFileSync(path.join(runsDir, name), 'utf8')) as Partial<SavedRun>;
+      // Anything without a result of the expected shape is simply run again.
+      if (record && typeof record === 'object' && record.result && typeof record.result === 'object' && record.result.scenario) {
+        saved.set(name.slice(0, -'.json'.length), record as SavedRun);
+      }
     } catch {
       // An unreadable saved run is simply run again.
     }

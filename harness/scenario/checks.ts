@@ -10,6 +10,7 @@ import { DEFAULT_MATERIAL, defaultControlRate_Hz, defaultLoopBudget_us, defaultP
 import { polygonProblem, type Point } from './geometry.js';
 import { list, num, rec, vec } from './guards.js';
 import { pointerJoin, type Finding } from '../files/issue.js';
+import { runSizeProblems } from '../files/bounds.js';
 import { checkPlausibility } from './plausibility.js';
 
 export interface CheckResult {
@@ -32,6 +33,7 @@ export function checkScenario(data: Record<string, unknown>, robot: RobotParams 
   checkGround(data, errors);
   checkTiming(data, errors, warnings);
   checkStart(data, errors);
+  if (duration !== undefined) errors.push(...runSize(data, duration));
   if (robot) {
     checkInitial(data, robot, errors);
     checkContactStep(data, robot, errors);
@@ -251,6 +253,15 @@ function checkInitial(data: Record<string, unknown>, robot: RobotParams, errors:
       });
     }
   });
+}
+
+function runSize(data: Record<string, unknown>, duration_s: number): Finding[] {
+  const control = rec(data.control);
+  const physics = rec(data.physics);
+  const rate = num(control?.rate_Hz) ?? defaultControlRate_Hz();
+  const step = num(physics?.step_s) ?? defaultPhysicsStep_s();
+  if (!(rate > 0 && step > 0)) return []; // the schema reports it
+  return runSizeProblems(duration_s, rate, step, { rate: control && 'rate_Hz' in control ? '/control/rate_Hz' : 'the default control rate', step: physics && 'step_s' in physics ? '/physics/step_s' : '/duration_s' });
 }
 
 function checkStart(data: Record<string, unknown>, errors: Finding[]) {

@@ -65,6 +65,7 @@ export function resolveRobot(file: RobotFile): RobotParams {
       halfExtents_m: v3(file.trunk.halfExtents_m),
     },
     hips_m: file.hips_m.map(v3),
+    ...(file.legNames ? { legNames: [...file.legNames] } : {}),
     foot: {
       mass_kg: file.foot.mass_kg,
       ...(file.foot.radius_m !== undefined ? { radius_m: file.foot.radius_m } : {}),
@@ -191,5 +192,6 @@ export function fillScenarioDefaults(s: ScenarioFile, refs: InlinedReferences): 
     },
     acceptance: resolveAcceptance(s.acceptance),
     tags: [...(s.tags ?? [])],
+    ...(s.recorded ? { recorded: { trajectory: s.recorded.trajectory, sha256: s.recorded.sha256 } } : {}),
   };
 }

@@ -107,4 +107,11 @@ export interface ScenarioFile {
     maxCommandedViolations?: number | null;
     minProgress?: number | null;
   };
+  recorded?: RecordedReference;
+}
+
+/** The recorded trajectory an imported scenario came from (harness/recorded/, docs/recorded.md). */
+export interface RecordedReference {
+  trajectory: string;
+  sha256: string;
 }

@@ -2,7 +2,10 @@
 // migrate → expand the matrix → schema → physical checks → inline referenced files → defaults →
 // hash. Every problem becomes a FileIssue with file, line, column and path; nothing throws.
 
-import { readFile as fsReadFile, realpath } from 'node:fs/promises';
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { realpath } from 'node:fs/promises';
+import { readBoundedText } from '../files/bounded.js';
 import path from 'node:path';
 import type { RobotParams } from '../plant/types.js';
 import { scenarioHash } from './canonical.js';
@@ -80,7 +83,7 @@ function makeContext(fileName: string, opts: LoadOptions): Context {
     display: displayPath(absolute, cwd),
     suiteRoot: opts.suiteRoot !== undefined ? path.resolve(cwd, opts.suiteRoot) : defaultSuiteRoot(absolute),
     cwd,
-    readFile: opts.readFile ?? ((p) => fsReadFile(p, 'utf8')),
+    readFile: opts.readFile ?? ((p) => readBoundedText(p)),
     realFiles: opts.readFile === undefined,
     cache: opts.cache ?? createLoadCache(),
   };
@@ -157,7 +160,7 @@ export async function loadScenarioFile(file: string, opts: LoadOptions = {}): Pr
   const ctx = makeContext(file, opts);
   let text: string;
   try {
-    text = await fsReadFile(ctx.absolute, 'utf8');
+    text = await readBoundedText(ctx.absolute);
   } catch (e) {
     return { ok: false, errors: [{ file: ctx.display, path: '', message: `cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})` }] };
   }
@@ -176,8 +179,13 @@ export async function loadScenarioText(text: string, fileName: string, opts: Loa
   }
 }
 
+/** `.json` files are strict JSON; everything else is YAML (of which JSON is a subset). */
+function isJsonFile(fileName: string): boolean {
+  return /\.json$/i.test(fileName);
+}
+
 async function loadScenario(text: string, ctx: Context): Promise<LoadResult> {
-  const src = parseSource(text);
+  const src = parseSource(text, { json: isJsonFile(ctx.display) });
   const located = locator(ctx, src);
   if (src.errors.length) return { ok: false, errors: sortIssues(src.errors.map(located), ctx.display) };
   const warnings: FileIssue[] = src.warnings.map(located);
@@ -292,6 +300,8 @@ async function loadInstance(data: Record<string, unknown>, ctx: Context, locate:
     }
   }
 
+  await checkRecorded(rec(data.recorded), ctx, errors, locate);
+
   if (blocked || errors.length || !robot) {
     if (!blocked && errors.length === 0) errors.push(locate({ path: '/robot', message: 'no usable robot (expected a robot file path or an inline robot)' }));
     return { errors, warnings };
@@ -306,6 +316,39 @@ async function loadInstance(data: Record<string, unknown>, ctx: Context, locate:
     return { errors, warnings, scenario, family: expanded.scenarios };
   }
   return { errors, warnings, scenario };
+}
+
+/** An imported scenario's recorded trajectory must exist and still have the sha256 the file names. */
+async function checkRecorded(recorded: Record<string, unknown> | undefined, ctx: Context, errors: FileIssue[], locate: (f: Finding) => FileIssue): Promise<void> {
+  if (!recorded || typeof recorded.trajectory !== 'string' || typeof recorded.sha256 !== 'string') return;
+  const pointer = '/recorded/trajectory';
+  let display: string;
+  let actual: string;
+  if (ctx.realFiles) {
+    // Streamed: an hour-long recording is more text than one string may hold.
+    const resolved = await resolveInside(recorded.trajectory, ctx);
+    if (!resolved.ok) {
+      errors.push(locate({ path: pointer, message: `recorded trajectory ${resolved.message}` }));
+      return;
+    }
+    display = displayPath(resolved.absolute, ctx.cwd);
+    try {
+      const hash = createHash('sha256');
+      for await (const chunk of createReadStream(resolved.absolute, { highWaterMark: 1 << 20 })) hash.update(chunk as Buffer);
+      actual = hash.digest('hex');
+    } catch (e) {
+      errors.push(locate({ path: pointer, message: `recorded trajectory "${recorded.trajectory}" cannot be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}; resolved to ${display})` }));
+      return;
+    }
+  } else {
+    const text = await readReference(recorded.trajectory, ctx, pointer, 'recorded trajectory', errors, locate);
+    if (text === undefined) return;
+    display = text.display;
+    actual = createHash('sha256').update(text.content).digest('hex');
+  }
+  if (actual !== recorded.sha256) {
+    errors.push(locate({ path: '/recorded/sha256', message: `recorded trajectory ${display} has sha256 ${actual}, not the ${recorded.sha256} this scenario was imported with (the recording changed: re-import it, expected the file as written by footing import)` }));
+  }
 }
 
 async function readReference(
@@ -374,7 +417,7 @@ export async function loadRobotFile(file: string, opts: { cwd?: string } = {}): 
   const cwd = opts.cwd ?? process.cwd();
   const absolute = path.resolve(cwd, file);
   try {
-    return loadRobotText(await fsReadFile(absolute, 'utf8'), absolute, { cwd });
+    return loadRobotText(await readBoundedText(absolute), absolute, { cwd });
   } catch (e) {
     return { ok: false, errors: [{ file: displayPath(absolute, cwd), path: '', message: `cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})` }] };
   }
@@ -385,7 +428,7 @@ export function loadRobotText(text: string, fileName: string, opts: { cwd?: stri
   const absolute = path.resolve(cwd, fileName);
   const display = displayPath(absolute, cwd);
   try {
-    const src = parseSource(text);
+    const src = parseSource(text, { json: isJsonFile(display) });
     const ctx = { display } as Context;
     const located = locator(ctx, src);
     if (src.errors.length) return { ok: false, errors: src.errors.map(located) };

@@ -88,6 +88,10 @@ export function checkRobot(data: unknown, base: string): Finding[] {
   }
   const height = num(robot.standingHeight_m);
   const hips = list(robot.hips_m);
+  const legNames = list(robot.legNames);
+  if (legNames && hips && legNames.length !== hips.length) {
+    out.push({ path: pointerJoin(base, 'legNames'), message: `gives ${legNames.length} leg names for ${hips.length} hips (expected one name per entry of hips_m, in the same order)` });
+  }
   if (height !== undefined && minLength !== undefined && maxLength !== undefined && minLength < maxLength && hips) {
     hips.forEach((h, i) => {
       const hip = vec(h, 3);

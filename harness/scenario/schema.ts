@@ -42,7 +42,7 @@ function describeExpectation(schema: unknown): string {
   return typeof description === 'string' ? description : '';
 }
 
-function translateErrors(errors: ErrorObject[], basePath: string): Finding[] {
+export function translateErrors(errors: ErrorObject[], basePath: string): Finding[] {
   const out: Finding[] = [];
   const seen = new Set<string>();
   const push = (f: Finding) => {

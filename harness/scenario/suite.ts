@@ -1,7 +1,8 @@
 // A suite: files and folders of scenarios, loaded in a deterministic order, with ids unique
 // across files (`footing check` reports every file's problems: harness/commands/check.ts).
 
-import { readdir, readFile, stat } from 'node:fs/promises';
+import { readdir, stat } from 'node:fs/promises';
+import { readBoundedText } from '../files/bounded.js';
 import path from 'node:path';
 import { ROBOT_FORMAT, SCENARIO_FORMAT } from './format.js';
 import type { FileIssue } from '../files/issue.js';
@@ -93,7 +94,7 @@ export async function loadSuite(paths: string[], opts: SuiteOptions = {}): Promi
     const display = displayPath(entry.absolute, cwd);
     let text: string;
     try {
-      text = await readFile(entry.absolute, 'utf8');
+      text = await readBoundedText(entry.absolute);
     } catch (e) {
       files.push({ file: display, kind: 'unknown', errors: [{ file: display, path: '', message: `cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})` }], warnings: [], scenarioIds: [] });
       continue;

@@ -69,4 +69,6 @@ export interface ResolvedScenario {
   tags: string[];
   /** Present only on the samples of a seeded family. */
   family?: FamilyMembership;
+  /** Present only on scenarios imported from a log: the recorded trajectory, as written in the file. */
+  recorded?: { trajectory: string; sha256: string };
 }

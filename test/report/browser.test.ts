@@ -125,9 +125,11 @@ describe.skipIf(!available)('report in headless chromium', () => {
     expect(await header.isVisible()).toBe(true);
   });
 
-  it('opens the linked scenario from the regression list', async () => {
+  it('opens the linked scenario from the regression list (grouped by scenario, collapsed)', async () => {
     await page.locator('button[data-action="collapse"]').click();
-    const link = page.locator('table.regressions a').first();
+    await page.evaluate(() => document.querySelectorAll<HTMLDetailsElement>('details.reg-group').forEach((d) => (d.open = false)));
+    expect(await page.locator('table.regressions').first().isVisible()).toBe(false);
+    const link = page.locator('details.reg-group > summary a').first();
     const target = (await link.getAttribute('href'))?.slice(1) ?? '';
     await link.click();
     expect(await page.locator(`[id="${target}"]`).evaluate((d) => (d as HTMLDetailsElement).open)).toBe(true);

@@ -60,8 +60,18 @@ describe('report from a small real run', () => {
     expect(html).toContain(escaped('<img src=x onerror=alert(3)>'));
     expect(html).not.toContain(HOSTILE_STDERR);
     expect(html).toContain(escaped(HOSTILE_STDERR));
+    // The robot file's leg names (fixtures/hostile/robots) label the plots as text, in SVG too.
+    expect(html).not.toContain('<svg onload');
+    expect(html).toContain('&lt;svg onload=alert(6)&gt;');
     // Our one inline script is the only script element.
     expect(html.match(/<script/g)).toHaveLength(1);
+  });
+
+  it('labels feet by the robot file\'s leg names', () => {
+    const start = html.indexOf('id="scenario-2-shaped-floor"');
+    const section = html.slice(start, html.indexOf('id="bench"', start));
+    for (const leg of ['FL', 'FR', 'HL', 'HR']) expect(section).toContain(`class="foot">${leg}<`);
+    expect(html).not.toContain('class="foot">foot 0<');
   });
 
   it('draws the shaped floor: raster cells, a rectangle, a circle and a polygon patch', () => {
@@ -98,6 +108,41 @@ describe('report from a small real run', () => {
     expect(bench).toContain('2\u2009500\u2009000');
     expect(bench).toContain('650');
     expect(bench).not.toContain('Not measured');
+  });
+});
+
+describe('fields other parts of the harness may add', () => {
+  it('plots every named telemetry scalar of a series, grouped by name prefix, names escaped', () => {
+    const copy = mkdtempSync(path.join(tmpdir(), 'footing-telemetry-'));
+    mkdirSync(path.join(copy, 'series'));
+    for (const run of results.runs.filter((r) => r.metrics)) {
+      const file = seriesPath(run.scenario.id, run.build);
+      const series = JSON.parse(readFileSync(path.join(dir, file), 'utf8')) as RunSeries;
+      const ramp = series.t_s.map((t) => t);
+      const telemetry = [
+        { name: 'estimator.frictionEstimate', min: ramp, max: ramp },
+        { name: 'estimator.contactForce_N', values: { min: ramp, max: ramp } },
+        { name: '<img src=x onerror=alert(7)>.x', min: ramp, max: ramp },
+        { name: 'short.series', min: [1], max: [1] }, // wrong length: ignored
+      ];
+      writeFileSync(path.join(copy, file), JSON.stringify({ ...series, telemetry }));
+    }
+    const page = renderReportHtml(results, { outDir: copy, baseline: 'nominal' });
+    const withSeries = results.runs.filter((r) => r.metrics).length;
+    expect((page.match(/<svg class="plot telemetry"/g) ?? []).length).toBe(3 * withSeries);
+    expect(page).toContain('data-name="estimator.contactForce_N (N)"');
+    expect(page).not.toContain('<img src=x onerror=alert(7)>');
+    expect(page).not.toContain('short.series');
+  });
+
+  it('shows stance and touchdown metrics in the matrix where a run carries them', () => {
+    // The scorer's own rows (stance margin, slip per touchdown) and, from its touchdown group,
+    // one mean per landing quantity; spreads stay in results.json.
+    const matrix = text(html.slice(html.indexOf('id="matrix"'), html.indexOf('id="scenarios"')));
+    expect(matrix).toContain('slip per touchdown');
+    expect(matrix).toContain('touchdown impactPeakForce_N mean');
+    expect(matrix).not.toContain('touchdown impactPeakForce_N max');
+    expect(matrix).not.toContain('touchdown transient_s');
   });
 });
 

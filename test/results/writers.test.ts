@@ -107,7 +107,7 @@ describe('summary.md', () => {
     const text = renderSummaryMarkdown(sampleResults());
     expect(text).toContain('### Footing: 4 runs — 2 pass, 1 fail, 1 error');
     expect(text).toContain('| ref:governed | 2 | 2 | 0 | 0 | 0.750 | 0.0000 | 0 |'); // 1 − 4/16 = 0.75
-    expect(text).toContain('- `slippery-walk` × `ref:trusting` (fail): stance friction margin 0.13 < 0.20; slip distance 0.10 m > 0.05 m');
+    expect(text).toContain('- `slippery-walk` × `ref:trusting` (fail): stance friction margin 0.13 \\< 0.20; slip distance 0.10 m \\> 0.05 m');
     expect(text).toContain('- `quiet-stand` × `ref:trusting` (error): error at 0.500 s: build process exited with code 3');
   });
 });

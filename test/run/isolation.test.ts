@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runSuite } from '../../harness/commands/run.js';
+import { expectStrictJunit } from '../support/junit.js';
 
 const SCENARIO = 'test/run/fixtures/mini/short-stand.yaml';
 const MISBEHAVING = 'test/builds/bridge/fixtures/misbehaving_build.py';
@@ -44,5 +45,6 @@ describe('a failing build fails its own runs, never the suite', () => {
       expect(run.error!.message, build).toMatch(reason);
     }
     expect(runs.get('hangs')!.error!.stderrTail).toMatch(/misbehaving_build\[hang-tick\]/);
+    expectStrictJunit(out);
   });
 });

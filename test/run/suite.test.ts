@@ -11,6 +11,7 @@ import { validateResults } from '../../harness/results/validate.js';
 import type { ResultsFile, RunResult } from '../../harness/results/types.js';
 import { EXIT } from '../../harness/commands/exit.js';
 import { runSuite } from '../../harness/commands/run.js';
+import { expectStrictJunit } from '../support/junit.js';
 
 const MINI = 'test/run/fixtures/mini';
 const fresh = (name: string) => mkdtempSync(path.join(tmpdir(), `footing-${name}-`));
@@ -49,6 +50,7 @@ describe('footing run, end to end', () => {
     const suites = [xml.testsuites.testsuite].flat();
     expect(suites.map((s: Record<string, string>) => s['@_name'])).toEqual(['governed', 'overtrusting']);
     for (const s of suites) expect([s.testcase].flat()).toHaveLength(2);
+    expectStrictJunit(out);
 
     // The over-trusting build asks for more tangential force than the floor gives: the gate names
     // friction margin. Baseline and candidate are the two builds of one results file.

@@ -11,6 +11,7 @@ import { JsonTickChannel, decodeReady, encodeHello } from './codec.js';
 import { BuildFailure, TailBuffer, type BuildFailureReason } from './failure.js';
 import { newlineFraming, type FrameDecoder, type Framing } from './framing.js';
 import type { MessageProblem, WireEncoding } from './messages.js';
+import { announceGroupGone, announceGroupStarted } from './groups.js';
 
 export interface ProcessBuildOptions {
   /** Time from spawn to the ready message. */
@@ -160,6 +161,7 @@ export class ProcessBuild implements Controller {
       windowsHide: true,
     });
     track(this);
+    if (this.child.pid !== undefined) announceGroupStarted(this.child.pid);
 
     const child = this.child;
     child.on('error', (error: NodeJS.ErrnoException) => {
@@ -376,6 +378,7 @@ export class ProcessBuild implements Controller {
     if (this.gone) return;
     this.gone = true;
     untrack(this);
+    if (this.child.pid !== undefined) announceGroupGone(this.child.pid);
     if (this.killTimer !== null) clearTimeout(this.killTimer);
     if (this.exitFallbackTimer !== null) clearTimeout(this.exitFallbackTimer);
     if (this.closeTimer !== null) clearTimeout(this.closeTimer);

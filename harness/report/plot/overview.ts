@@ -8,45 +8,60 @@ import { asSvg, label, num, type SvgMarkup } from './svg.js';
 export interface DotValue {
   value: number | null;
   style: BuildStyle;
+  /** The run passed its acceptance: filled marker; failed or errored: hollow (shape, not colour alone). */
+  passed: boolean;
 }
 
 export const OVERVIEW_WIDTH = 220;
+/** Each build has its own lane, so equal values never hide one marker behind another. */
+const LANE_PX = 9;
+const LANE_TOP = 6;
+const MARKER_R = 3.6;
+
+function lanesHeight(lanes: number): number {
+  return LANE_TOP * 2 + Math.max(0, lanes - 1) * LANE_PX;
+}
+
+function marker(v: DotValue, x: number, lane: number): string {
+  const d = markerPath(v.style.shape, x, LANE_TOP + lane * LANE_PX, MARKER_R);
+  return v.passed
+    ? `<path class="dot pass" d="${d}" fill="${v.style.colour}" stroke="#fff" stroke-width="0.8"/>`
+    : `<path class="dot fail" d="${d}" fill="#fff" stroke="${v.style.colour}" stroke-width="1.6"/>`;
+}
 
 /**
- * Friction margin min of every build on one line from MARGIN_AXIS[0] to [1], the cone (0) marked
- * and the far side shaded. The axis is cut where the interesting values are (a walking robot's
- * worst margin sits in −0.25 … 0.5); values beyond are drawn hollow at the edge.
+ * Friction margin min of every build (one lane each, in build order) from MARGIN_AXIS[0] to [1],
+ * the cone (0) marked and the far side shaded. The axis is cut where the interesting values are (a
+ * walking robot's worst margin sits in −0.25 … 0.5); values beyond sit at the edge with an arrow.
  */
 export const MARGIN_AXIS: [number, number] = [-0.25, 0.5];
 export function marginDots(values: DotValue[]): SvgMarkup {
   const x = linearScale(MARGIN_AXIS[0], MARGIN_AXIS[1], 8, OVERVIEW_WIDTH - 8);
-  let out = `<svg class="dots margin" viewBox="0 0 ${OVERVIEW_WIDTH} 22" width="${OVERVIEW_WIDTH}" height="22" role="img">`;
+  const h = lanesHeight(values.length);
+  let out = `<svg class="dots margin" viewBox="0 0 ${OVERVIEW_WIDTH} ${h}" width="${OVERVIEW_WIDTH}" height="${h}" role="img">`;
   const [lo, hi] = MARGIN_AXIS;
-  out += `<rect x="${num(x(lo))}" y="3" width="${num(x(0) - x(lo))}" height="16" fill="#f6dccb"/>`;
-  out += `<path d="M${num(x(lo))} 11H${num(x(hi))}" stroke="${GRID}"/><path d="M${num(x(0))} 2V20" stroke="${CONE_COLOUR}" stroke-dasharray="2 1.5"/>`;
-  for (const t of [-0.2, -0.1, 0.1, 0.2, 0.3, 0.4, 0.5]) out += `<path d="M${num(x(t))} 8V14" stroke="${GRID}"/>`;
-  for (const v of values) {
-    if (v.value === null) continue;
-    const inside = v.value >= lo && v.value <= hi;
+  out += `<rect x="${num(x(lo))}" y="1" width="${num(x(0) - x(lo))}" height="${h - 2}" fill="#f6dccb"/>`;
+  for (const t of [-0.2, -0.1, 0.1, 0.2, 0.3, 0.4, 0.5]) out += `<path d="M${num(x(t))} 1V${h - 1}" stroke="${GRID}" stroke-width="0.6"/>`;
+  out += `<path d="M${num(x(0))} 0V${h}" stroke="${CONE_COLOUR}" stroke-dasharray="2 1.5"/>`;
+  values.forEach((v, lane) => {
+    if (v.value === null) return;
     const at = x(Math.max(lo, Math.min(hi, v.value)));
-    out += inside
-      ? `<path class="dot" d="${markerPath(v.style.shape, at, 11, 4.2)}" fill="${v.style.colour}" fill-opacity="0.9" stroke="#fff" stroke-width="0.8"/>`
-      : `<path class="dot" d="${markerPath(v.style.shape, at, 11, 4.2)}" fill="#fff" stroke="${v.style.colour}" stroke-width="1.6"/>`;
-  }
+    out += marker(v, at, lane);
+    if (v.value < lo || v.value > hi) out += `<text x="${num(v.value < lo ? at + 6 : at - 6)}" y="${num(LANE_TOP + lane * LANE_PX + 3)}" text-anchor="${v.value < lo ? 'start' : 'end'}">${v.value < lo ? '◂' : '▸'}</text>`;
+  });
   return asSvg(out + '</svg>');
 }
 
-/** Slip distance of every build on a log axis from 1 mm to 1 m (beyond: at the edges). */
+/** Slip distance of every build (one lane each) on a log axis from 1 mm to 1 m (beyond: at the edges). */
 export function slipDots(values: DotValue[]): SvgMarkup {
   const x = linearScale(-3, 0, 8, OVERVIEW_WIDTH - 8);
   const at = (m: number) => x(Math.max(-3, Math.min(0, Math.log10(Math.max(m, 1e-3)))));
-  let out = `<svg class="dots slip" viewBox="0 0 ${OVERVIEW_WIDTH} 22" width="${OVERVIEW_WIDTH}" height="22" role="img">`;
-  out += `<path d="M${num(x(-3))} 11H${num(x(0))}" stroke="${GRID}"/>`;
-  for (const t of [-3, -2, -1, 0]) out += `<path d="M${num(x(t))} 7V15" stroke="${GRID}"/>`;
-  for (const v of values) {
-    if (v.value === null) continue;
-    out += `<path class="dot" d="${markerPath(v.style.shape, at(v.value), 11, 4.2)}" fill="${v.style.colour}" fill-opacity="0.9" stroke="#fff" stroke-width="0.8"/>`;
-  }
+  const h = lanesHeight(values.length);
+  let out = `<svg class="dots slip" viewBox="0 0 ${OVERVIEW_WIDTH} ${h}" width="${OVERVIEW_WIDTH}" height="${h}" role="img">`;
+  for (const t of [-3, -2, -1, 0]) out += `<path d="M${num(x(t))} 1V${h - 1}" stroke="${GRID}" stroke-width="0.6"/>`;
+  values.forEach((v, lane) => {
+    if (v.value !== null) out += marker(v, at(v.value), lane);
+  });
   return asSvg(out + '</svg>');
 }
 

@@ -21,12 +21,33 @@ export interface BuildStyle {
   dash: string;
 }
 
-export function buildStyle(index: number): BuildStyle {
+/** The baseline's style in every report: neutral grey, solid line, square marker. */
+export const BASELINE_STYLE: BuildStyle = { colour: '#6f6f6f', shape: 'square', dash: '' };
+
+/**
+ * A build's style from its name alone (FNV-1a 32-bit hash, Fowler–Noll–Vo), so a build looks the
+ * same in every report whatever the build order; the baseline always takes BASELINE_STYLE. Hue,
+ * marker and dash come from different digits of the hash, so two names sharing a hue almost
+ * always differ in marker (7 hues × 5 markers × 7 dashes; the square stays the baseline's).
+ */
+export function buildStyle(name: string, isBaseline = false): BuildStyle {
+  if (isBaseline) return BASELINE_STYLE;
+  const h = fnv1a(name);
+  const shapes = MARKER_SHAPES.filter((s) => s !== BASELINE_STYLE.shape);
   return {
-    colour: BUILD_HUES[index % BUILD_HUES.length],
-    shape: MARKER_SHAPES[index % MARKER_SHAPES.length],
-    dash: DASHES[index % DASHES.length],
+    colour: BUILD_HUES[h % BUILD_HUES.length],
+    shape: shapes[Math.floor(h / BUILD_HUES.length) % shapes.length],
+    dash: DASHES[1 + (Math.floor(h / (BUILD_HUES.length * shapes.length)) % (DASHES.length - 1))],
   };
+}
+
+function fnv1a(text: string): number {
+  let h = 0x811c9dc5;
+  for (let k = 0; k < text.length; k++) {
+    h ^= text.charCodeAt(k);
+    h = Math.imul(h, 0x01000193) >>> 0;
+  }
+  return h;
 }
 
 /** Friction ramp stops (μs, colour); μs above the last stop takes its colour. */

@@ -2,7 +2,9 @@
 // atomically by the worker that ran it. Read back leniently: a missing or foreign file only means
 // the report shows "no series" for that run, never a failed report.
 
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync } from 'node:fs';
+import { readBoundedTextSync } from '../../files/bounded.js';
+import { validateSeries } from './validate.js';
 import path from 'node:path';
 import { writeFileAtomicSync } from '../../files/atomic.js';
 import { SERIES_FORMAT, SERIES_FORMAT_VERSION, type RunSeries } from './types.js';
@@ -31,9 +33,14 @@ export function readSeriesFor(roots: string[], scenarioId: string, hash: string,
     const file = path.join(root, relative);
     if (!existsSync(file)) continue;
     try {
-      const value = JSON.parse(readFileSync(file, 'utf8')) as Partial<RunSeries>;
-      if (value.format !== SERIES_FORMAT || value.formatVersion !== SERIES_FORMAT_VERSION) {
+      const value = JSON.parse(readBoundedTextSync(file)) as Partial<RunSeries>;
+      if (value?.format !== SERIES_FORMAT || value.formatVersion !== SERIES_FORMAT_VERSION) {
         problem = `${file}: not a ${SERIES_FORMAT} v${SERIES_FORMAT_VERSION} file`;
+        continue;
+      }
+      const checked = validateSeries(value);
+      if (!checked.ok) {
+        problem = `${file}: series unusable (${checked.problem})`;
         continue;
       }
       if (value.scenario?.hash !== hash || value.build !== build) {

@@ -88,7 +88,9 @@ describe('parseBuildSpec', () => {
   });
 
   it('rejects unknown reference ids, listing the known ones', () => {
-    expect(problemOf('ref:fancy')).toMatch(/unknown reference build 'fancy'; expected one of nominal, governed, clamped, qp, overtrusting/);
+    expect(problemOf('ref:fancy')).toMatch(/unknown reference build 'fancy' \(expected one of nominal, governed, clamped, qp, overtrusting\)/);
+    // A near miss gets a did-you-mean.
+    expect(problemOf('ref:governd')).toMatch(/unknown reference build 'governd'; did you mean 'ref:governed'\?/);
   });
 
   it('rejects a module without a module extension, pointing to exec:', () => {

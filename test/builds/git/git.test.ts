@@ -68,6 +68,15 @@ describe('git-ref builds: worktree, build, cache', () => {
     expect(other.ok && other.origin.cached).toBe(false);
   });
 
+  it('two preparations of one commit at once build it once: the second waits for the lock and finds it cached', async () => {
+    const repo = createControllerRepo();
+    const counted = `${BUILD_COMMAND} && sleep 0.5 && echo built >> ../../built.log`;
+    const [a, b] = await Promise.all([prepareGitBuild(recipe(repo.dir, 'feature', { build: counted })), prepareGitBuild(recipe(repo.dir, 'feature', { build: counted, name: 'other' }))]);
+    expect(a.ok && b.ok).toBe(true);
+    expect([a.ok && a.origin.cached, b.ok && b.origin.cached].sort()).toEqual([false, true]);
+    expect(readFileSync(path.join(repo.dir, '.footing-cache', 'built.log'), 'utf8')).toBe('built\n');
+  });
+
   it('rebuilds after the ref moves to a new commit', async () => {
     const repo = createControllerRepo();
     const before = await prepareGitBuild(recipe(repo.dir, 'tidy'));

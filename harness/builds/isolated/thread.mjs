@@ -1,0 +1,5 @@
+// Worker threads do not inherit the TypeScript loader: register it, then load the build thread.
+import { register } from 'tsx/esm/api';
+
+register();
+await import('./thread.ts');
