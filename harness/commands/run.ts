@@ -78,6 +78,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
       return item.spec;
     }),
     cwd,
+    new Set([...prepared.values()].filter((item) => item.manifest !== undefined || item.failure !== undefined).map((item) => item.spec.name)),
   );
   if (isOutcome(specs)) return specs;
   const names = new Set(specs.map((spec) => spec.name));

@@ -61,8 +61,8 @@ export function isOutcome(value: object): value is CommandOutcome {
 }
 
 /** Build specs parsed once, names unique; a bad spec is one message (all its lines together). */
-export function prepareBuildSpecs(out: CommandLog, command: string, builds: (string | BuildSpec)[], cwd: string): BuildSpec[] | CommandOutcome {
-  const parsed = prepareBuilds(command, builds, cwd);
+export function prepareBuildSpecs(out: CommandLog, command: string, builds: (string | BuildSpec)[], cwd: string, builtElsewhere?: ReadonlySet<string>): BuildSpec[] | CommandOutcome {
+  const parsed = prepareBuilds(command, builds, cwd, builtElsewhere);
   return parsed.ok ? parsed.value : out.badInput(parsed.lines.join('\n'));
 }
 

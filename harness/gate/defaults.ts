@@ -10,14 +10,18 @@ export interface GateRules {
   blockStillFailing: boolean | null;
   /** A baseline run the candidate did not run (missing coverage) is allowed. */
   allowMissingRuns: boolean | null;
-  /** Allowed drop of frictionMargin.min (absolute, margin units). */
+  /** Allowed drop of the stance margin's min, stanceMargin.min (absolute, margin units). */
   frictionMarginMinLoss: number | null;
-  /** Allowed drop of frictionMargin.p05 (absolute). */
+  /** Allowed drop of stanceMargin.p05 (absolute). */
   frictionMarginP05Loss: number | null;
   /** Slip distance may grow by this fraction of the baseline … */
   slipDistanceGrowthFraction: number | null;
   /** … and by this many metres: a breach must exceed both allowances. */
   slipDistanceGrowth_m: number | null;
+  /** Slip per touchdown (touchdown.slip_m.mean) may grow by this fraction of the baseline … */
+  touchdownSlipGrowthFraction: number | null;
+  /** … and by this many metres per touchdown: a breach must exceed both allowances. */
+  touchdownSlipGrowth_m: number | null;
   /** A run that fell where the baseline stood. */
   allowNewFalls: boolean | null;
   /** More commanded friction-cone violation intervals than the baseline. */
@@ -55,6 +59,8 @@ export const GATE_RULE_NAMES = [
   'frictionMarginP05Loss',
   'slipDistanceGrowthFraction',
   'slipDistanceGrowth_m',
+  'touchdownSlipGrowthFraction',
+  'touchdownSlipGrowth_m',
   'allowNewFalls',
   'allowNewCommandedViolations',
   'loopTimeSlowdownFraction',
@@ -74,13 +80,20 @@ export const DEFAULT_GATE_RULES: Readonly<GateRules> = Object.freeze({
   // A scenario the candidate skipped is not evidence that it holds.
   allowMissingRuns: false,
   // 0.02 of margin is about the run-to-run spread of p05 between builds that differ only in
-  // numerics (common practice: tolerate noise, catch a lost safety factor).
+  // numerics (common practice: tolerate noise, catch a lost safety factor). Judged on the stance
+  // margin: the whole-run minimum is a touchdown sample set by the contact law and the step.
   frictionMarginMinLoss: 0.02,
   frictionMarginP05Loss: 0.02,
   // +20 % alone would flag 1 mm → 1.3 mm of creep; +0.01 m alone would hide a doubling of a small
   // slip. Requiring both keeps the rule quiet on noise and loud on real sliding.
   slipDistanceGrowthFraction: 0.2,
   slipDistanceGrowth_m: 0.01,
+  // Per touchdown: the same +20 % as the whole-run slip (one reason for both), and 0.5 mm, above
+  // the error of the default step on a landing (0.13 mm per touchdown against a 4× finer step on
+  // the dry walk, docs/scoring.md) so refining numerics never trips it, and a fortieth of the
+  // bundled feet's 2 cm radius, so a landing that skids visibly does.
+  touchdownSlipGrowthFraction: 0.2,
+  touchdownSlipGrowth_m: 0.0005,
   allowNewFalls: false,
   allowNewCommandedViolations: false,
   // Paired, interleaved timing removes the machine's drift; what is left is the build's cost. 25 %

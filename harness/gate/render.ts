@@ -8,7 +8,10 @@ import type { GateOutcome, GateRow, GateValue } from './types.js';
 const DECIMALS: Record<string, number> = {
   'frictionMargin.min': 3,
   'frictionMargin.p05': 3,
+  'stanceMargin.min': 3,
+  'stanceMargin.p05': 3,
   slipDistance_m: 4,
+  'touchdown.slip_m.mean': 6,
   'loopTime_us.p99': 1,
   'loopTime.ratio': 1,
   'loopTime.budgetRatio': 2,

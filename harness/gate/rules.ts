@@ -69,12 +69,20 @@ function marginRule(
   });
 }
 
-function slipRule(at: RowBase, base: number, cand: number, rules: GateRules): GateRow | null {
+interface GrowthRule {
+  metric: string;
+  label: string;
+  fraction: number | null;
+  absolute_m: number | null;
+  /** Decimals of the metres printed. */
+  decimals: number;
+}
+
+/** Growth beyond every allowance that is on (fraction of the baseline and metres); both off: off. */
+function growthRule(at: RowBase, rule: GrowthRule, base: number, cand: number): GateRow | null {
   if (base === cand) return null;
   const growth_m = cand - base;
-  const fraction = rules.slipDistanceGrowthFraction;
-  const absolute_m = rules.slipDistanceGrowth_m;
-  // A breach must exceed every allowance that is on; both off switches the rule off.
+  const { fraction, absolute_m } = rule;
   const overAbsolute = absolute_m === null || growth_m > absolute_m + ALLOWANCE_SLACK;
   const overRelative = fraction === null || cand > base * (1 + fraction) + ALLOWANCE_SLACK;
   const on = fraction !== null || absolute_m !== null;
@@ -84,13 +92,28 @@ function slipRule(at: RowBase, base: number, cand: number, rules: GateRules): Ga
     ...(absolute_m === null ? [] : [`+${absolute_m} m`]),
   ];
   return row(at, {
-    metric: 'slipDistance_m', baseline: base, candidate: cand,
-    change: signed(growth_m, 4, ' m') + relative(base, cand),
+    metric: rule.metric, baseline: base, candidate: cand,
+    change: signed(growth_m, rule.decimals, ' m') + relative(base, cand),
     rule: on ? `growth ≤ ${limits.join(' or ≤ ')}` : null, broken,
     ...(broken ? {
-      reason: `slip distance grew from ${base.toFixed(4)} m to ${cand.toFixed(4)} m, more than ${limits.length > 1 ? 'both ' : ''}${limits.join(' and ')}`,
+      reason: `${rule.label} grew from ${base.toFixed(rule.decimals)} m to ${cand.toFixed(rule.decimals)} m, more than ${limits.length > 1 ? 'both ' : ''}${limits.join(' and ')}`,
     } : {}),
   });
+}
+
+function slipRule(at: RowBase, base: number, cand: number, rules: GateRules): GateRow | null {
+  return growthRule(at, { metric: 'slipDistance_m', label: 'slip distance', fraction: rules.slipDistanceGrowthFraction, absolute_m: rules.slipDistanceGrowth_m, decimals: 4 }, base, cand);
+}
+
+/** Mean slip per touchdown; compared only when both sides measured touchdowns. */
+function touchdownSlipRule(at: RowBase, base: ScoreMetrics, cand: ScoreMetrics, rules: GateRules): GateRow | null {
+  const b = base.touchdown?.slip_m.mean ?? null;
+  const c = cand.touchdown?.slip_m.mean ?? null;
+  if (b === null || c === null) return b === c ? null : info(at, 'touchdown.slip_m.mean', b, c, 6, ' m');
+  return growthRule(at, {
+    metric: 'touchdown.slip_m.mean', label: 'slip per touchdown',
+    fraction: rules.touchdownSlipGrowthFraction, absolute_m: rules.touchdownSlipGrowth_m, decimals: 6,
+  }, b, c);
 }
 
 function fallRule(at: RowBase, base: ScoreMetrics, cand: ScoreMetrics, rules: GateRules): GateRow | null {
@@ -184,12 +207,16 @@ export function compareRuns(pair: RunPair, rules: GateRules): GateRow[] {
   const c = candidate.metrics;
   const candidates = [
     status,
-    marginRule(at, 'frictionMargin.min', 'friction margin min', b.frictionMargin.min, c.frictionMargin.min, rules.frictionMarginMinLoss),
-    marginRule(at, 'frictionMargin.p05', 'friction margin p05', b.frictionMargin.p05, c.frictionMargin.p05, rules.frictionMarginP05Loss),
+    // The margin rules judge the stance margin; a side scored before it existed has none (null).
+    marginRule(at, 'stanceMargin.min', 'stance friction margin min', b.stanceMargin?.min ?? null, c.stanceMargin?.min ?? null, rules.frictionMarginMinLoss),
+    marginRule(at, 'stanceMargin.p05', 'stance friction margin p05', b.stanceMargin?.p05 ?? null, c.stanceMargin?.p05 ?? null, rules.frictionMarginP05Loss),
     slipRule(at, b.slipDistance_m, c.slipDistance_m, rules),
+    touchdownSlipRule(at, b, c, rules),
     fallRule(at, b, c, rules),
     commandedRule(at, b.violations.commanded, c.violations.commanded, rules),
     loopRule(at, b, c, rules),
+    info(at, 'frictionMargin.min', b.frictionMargin.min, c.frictionMargin.min, 3),
+    info(at, 'frictionMargin.p05', b.frictionMargin.p05, c.frictionMargin.p05, 3),
     info(at, 'violations.slip', b.violations.slip, c.violations.slip, 0),
     info(at, 'trackingRms_m', b.trackingRms_m, c.trackingRms_m, 4, ' m'),
     info(at, 'progress', b.progress, c.progress, 3),

@@ -65,7 +65,7 @@ export async function benchHistory(options: { nights?: number; scenarios?: numbe
       if (points !== shape.builds * TREND_METRICS.length * shape.nights) throw new Error(`trend query returned ${points} points`);
     }, 1, budget);
     const lineTrend = await measureTask('history trend of one line', () => {
-      store.trend({ scenario: nextScenario(), build: 'build-0', metric: 'frictionMargin.min' });
+      store.trend({ scenario: nextScenario(), build: 'build-0', metric: 'stanceMargin.min' });
     }, 1, budget);
     store.close();
     return { ...shape, runs, metricValues, load_s, fileSize_MB, scenarioTrend, lineTrend, peakRss_MB: process.resourceUsage().maxRSS / 1024 } as HistoryBenchFigures;

@@ -53,6 +53,8 @@ export function generateNight(options: GenerateOptions, night: number): ResultsF
         loadedThreshold_N: 5,
         slipSpeed_mps: 0.01,
         frictionMargin: { min, p05: min + 0.05 + 0.005 * random.normal(), loadedSamples: 8000, perFoot: [] },
+        // The gate judges the stance margin; generated nights carry the same figures there.
+        stanceMargin: { min, p05: min + 0.05, loadedSamples: 7600, perFoot: [] },
         violations: { commanded: 0, commandedTime_s: 0, slip: Math.round(Math.abs(random.normal())), slipTime_s: 0.01 * Math.abs(random.normal()), perFoot: [] },
         slipDistance_m: slip,
         slipDistancePerFoot_m: [],

@@ -16,11 +16,12 @@ export interface GateLimit {
 export function gateLimit(metric: string, reference: number, rules: GateRules, _extra: { loopBudget_us?: number } = {}): GateLimit | null {
   // A rule set to null in the policy is off: no line for it.
   switch (metric) {
-    case 'frictionMargin.min': {
+    // The gate's margin rules judge the stance margin (touchdown transients apart).
+    case 'stanceMargin.min': {
       const loss = rules.frictionMarginMinLoss;
       return loss === null ? null : { value: reference - loss, breaks: 'below', rule: `loss ≤ ${loss}` };
     }
-    case 'frictionMargin.p05': {
+    case 'stanceMargin.p05': {
       const loss = rules.frictionMarginP05Loss;
       return loss === null ? null : { value: reference - loss, breaks: 'below', rule: `loss ≤ ${loss}` };
     }

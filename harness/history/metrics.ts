@@ -35,8 +35,8 @@ export function runMetricValues(run: RunResult): [string, number][] {
 
 /** The metrics the trend page draws, in this order; each is the metric of a gate rule (limits.ts). */
 export const TREND_METRICS = [
-  { metric: 'frictionMargin.min', label: 'friction margin, min', decimals: 3, higherIsBetter: true },
-  { metric: 'frictionMargin.p05', label: 'friction margin, p05', decimals: 3, higherIsBetter: true },
+  { metric: 'stanceMargin.min', label: 'stance friction margin, min', decimals: 3, higherIsBetter: true },
+  { metric: 'stanceMargin.p05', label: 'stance friction margin, p05', decimals: 3, higherIsBetter: true },
   { metric: 'slipDistance_m', label: 'slip distance (m)', decimals: 4, higherIsBetter: false },
   { metric: 'violations.commanded', label: 'commanded cone violations', decimals: 0, higherIsBetter: false },
   { metric: 'fell', label: 'fell (1 = yes)', decimals: 0, higherIsBetter: false },

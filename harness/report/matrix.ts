@@ -47,6 +47,30 @@ export const MATRIX_METRICS: MetricDefinition[] = [
     format: (v) => (v === null ? 'n/a' : label(v, 3)),
   },
   {
+    key: 'stanceMargin.min',
+    label: 'stance margin min',
+    value: (m) => m.stanceMargin?.min ?? null,
+    better: 'higher',
+    same: absBand(0.005),
+    format: (v) => (v === null ? 'n/a' : label(v, 3)),
+  },
+  {
+    key: 'stanceMargin.p05',
+    label: 'stance margin p05',
+    value: (m) => m.stanceMargin?.p05 ?? null,
+    better: 'higher',
+    same: absBand(0.005),
+    format: (v) => (v === null ? 'n/a' : label(v, 3)),
+  },
+  {
+    key: 'touchdown.slip_m.mean',
+    label: 'slip per touchdown',
+    value: (m) => m.touchdown?.slip_m.mean ?? null,
+    better: 'lower',
+    same: (a, b) => Math.abs(b - a) <= Math.max(0.00005, 0.05 * Math.abs(a)),
+    format: (v) => (v === null ? 'n/a' : `${label(v * 1000, 3)} mm`),
+  },
+  {
     key: 'slipDistance_m',
     label: 'slip',
     value: (m) => m.slipDistance_m,
@@ -153,6 +177,10 @@ function optionalCells(m: ScoreMetrics, base: ScoreMetrics | null): MetricCell[]
     numbers((m as unknown as Record<string, unknown>)[group], group, mine);
     if (base) numbers((base as unknown as Record<string, unknown>)[group], group, theirs);
     for (const [key, value] of mine) {
+      // Rows of their own (MATRIX_METRICS) are not repeated; of a spread only the mean is shown,
+      // the full spread is in results.json.
+      if (MATRIX_METRICS.some((def) => def.key === key) || (/\.(p95|max)$/.test(key) && mine.has(key.replace(/\.(p95|max)$/, '.mean')))) continue;
+      if (key === `${group}.transient_s`) continue;
       const b = theirs.get(key);
       const change = b === undefined ? null : value - b;
       out.push({
@@ -172,7 +200,11 @@ function optionalCells(m: ScoreMetrics, base: ScoreMetrics | null): MetricCell[]
 }
 
 function signed(change: number, def: MetricDefinition): string {
-  const digits = def.key.startsWith('frictionMargin') ? 3 : def.key === 'slipDistance_m' ? 4 : def.key === 'loopTime_us.p99' ? 1 : 0;
+  const digits = def.key.startsWith('frictionMargin') || def.key.startsWith('stanceMargin') ? 3 : def.key === 'slipDistance_m' ? 4 : def.key === 'loopTime_us.p99' ? 1 : 0;
+  if (def.key === 'touchdown.slip_m.mean') {
+    const mm = change * 1000;
+    return `${mm >= 0 ? '+' : '−'}${label(Math.abs(mm), 3)} mm`;
+  }
   if (def.key === 'slipDistance_m') {
     const mm = change * 1000;
     return `${mm >= 0 ? '+' : '−'}${label(Math.abs(mm), 1)} mm`;

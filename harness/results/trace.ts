@@ -5,11 +5,18 @@
 import { createAtomicStream, type AtomicStream } from '../files/atomic.js';
 import type { TickSample } from '../score/sample.js';
 
-/** Decimals per column family: time 1 µs, position 1 µm, velocity 10 µm/s, force 0.1 mN. */
-export const TRACE_DECIMALS = { time: 6, position: 6, velocity: 5, force: 4, friction: 4 } as const;
+/**
+ * Decimals per column family: time 1 µs, position 1 µm, velocity 10 µm/s, force 0.1 mN, quaternion
+ * components 1e-7 (an angle of 0.2 µrad), angular velocity 10 µrad/s.
+ */
+export const TRACE_DECIMALS = { time: 6, position: 6, velocity: 5, force: 4, friction: 4, quaternion: 7, angularVelocity: 5 } as const;
 
 export function traceColumns(footCount: number): string[] {
-  const columns = ['t_s', 'base_x_m', 'base_y_m', 'base_z_m', 'base_vx_mps', 'base_vy_mps', 'base_vz_mps'];
+  const columns = [
+    't_s', 'base_x_m', 'base_y_m', 'base_z_m', 'base_vx_mps', 'base_vy_mps', 'base_vz_mps',
+    // Trunk orientation (w, x, y, z; trunk → world) and body-frame angular velocity.
+    'base_qw', 'base_qx', 'base_qy', 'base_qz', 'base_wx_radps', 'base_wy_radps', 'base_wz_radps',
+  ];
   for (let i = 0; i < footCount; i++) {
     columns.push(
       `foot${i}_x_m`,
@@ -22,6 +29,10 @@ export function traceColumns(footCount: number): string[] {
       `foot${i}_fz_N`,
       `foot${i}_mus`,
       `foot${i}_loaded`,
+      // The build's wanted ground force on the foot (its action for the tick), world frame.
+      `foot${i}_wanted_fx_N`,
+      `foot${i}_wanted_fy_N`,
+      `foot${i}_wanted_fz_N`,
     );
   }
   return columns;
@@ -68,10 +79,15 @@ export function createTraceWriter(
       if (tick++ % everyNth !== 0) return;
       const p = s.trunkPosition_m;
       const v = s.trunkVelocity_mps;
+      const q = s.trunkQuaternion;
+      const w = s.trunkAngularVelocity_radps;
+      const wanted = s.wantedForce_N;
       let row =
         s.time_s.toFixed(d.time) +
         ',' + p[0].toFixed(d.position) + ',' + p[1].toFixed(d.position) + ',' + p[2].toFixed(d.position) +
-        ',' + v[0].toFixed(d.velocity) + ',' + v[1].toFixed(d.velocity) + ',' + v[2].toFixed(d.velocity);
+        ',' + v[0].toFixed(d.velocity) + ',' + v[1].toFixed(d.velocity) + ',' + v[2].toFixed(d.velocity) +
+        ',' + q[0].toFixed(d.quaternion) + ',' + q[1].toFixed(d.quaternion) + ',' + q[2].toFixed(d.quaternion) + ',' + q[3].toFixed(d.quaternion) +
+        ',' + w[0].toFixed(d.angularVelocity) + ',' + w[1].toFixed(d.angularVelocity) + ',' + w[2].toFixed(d.angularVelocity);
       const fp = s.footPosition_m;
       const fv = s.footVelocity_mps;
       const ff = s.footForce_N;
@@ -82,7 +98,8 @@ export function createTraceWriter(
           ',' + fv[j].toFixed(d.velocity) + ',' + fv[j + 1].toFixed(d.velocity) +
           ',' + ff[j].toFixed(d.force) + ',' + ff[j + 1].toFixed(d.force) + ',' + ff[j + 2].toFixed(d.force) +
           ',' + s.footStaticFriction[i].toFixed(d.friction) +
-          (ff[j + 2] > loadedThreshold_N ? ',1' : ',0');
+          (ff[j + 2] > loadedThreshold_N ? ',1' : ',0') +
+          ',' + wanted[j].toFixed(d.force) + ',' + wanted[j + 1].toFixed(d.force) + ',' + wanted[j + 2].toFixed(d.force);
       }
       stream.write(row + '\n');
     },

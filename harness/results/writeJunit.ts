@@ -32,7 +32,9 @@ function brief(run: RunResult): string {
   const fixed = (v: number | null, d: number) => (v === null ? 'n/a' : v.toFixed(d));
   return [
     `friction margin min ${fixed(m.frictionMargin.min, 3)}, p05 ${fixed(m.frictionMargin.p05, 3)}`,
+    ...(m.stanceMargin ? [`stance margin min ${fixed(m.stanceMargin.min, 3)}, p05 ${fixed(m.stanceMargin.p05, 3)}`] : []),
     `slip distance ${m.slipDistance_m.toFixed(4)} m`,
+    ...(m.touchdown ? [`${m.touchdown.count} touchdowns, slip per touchdown mean ${fixed(m.touchdown.slip_m.mean, 6)} m, p95 ${fixed(m.touchdown.slip_m.p95, 6)} m`] : []),
     `commanded violations ${m.violations.commanded}`,
     m.fell ? `fell at ${fixed(m.fellAt_s, 3)} s` : 'did not fall',
     `loop time p99 ${fixed(m.loopTime_us.p99, 1)} us`,

@@ -1,7 +1,7 @@
 // One run: a resolved scenario replayed through one opened build. Per control tick: the plant's
 // truth becomes an observation (with the scenario's sensing), the build answers with an action,
-// the plant holds it for the tick's physics steps, and the scorer (and optional trace/recorders)
-// see the tick. A build failure or a diverged plant ends the run as an `error`, never the suite.
+// the plant holds it for the tick's physics steps, the scorer sees every physics step (the plant
+// itself is the step view: nothing is copied) and then the tick, as do optional trace/recorders. A build failure or a diverged plant ends the run as an `error`, never the suite.
 // OpenedBuild (builds/loader.ts) already times each tick and refuses non-finite actions.
 
 import { createAction, createObservation, type Action } from '../contract/tick.js';
@@ -64,9 +64,13 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
       if (pending !== undefined) await pending; // process builds; in-process ticks stay synchronous
 
       plant.applyAction(action);
-      for (let s = 0; s < substeps; s++) plant.step();
+      holdAction(sample, action);
+      for (let s = 0; s < substeps; s++) {
+        plant.step();
+        scorer.recordStep(plant, sample); // every physics step is scored, not only the tick's last
+      }
 
-      fillSample(sample, plant, action);
+      fillSample(sample, plant);
       sample.loopTime_us = build.loopTime_us;
       sample.reportedCompute_us = build.reportedCompute_us;
       scorer.record(sample);
@@ -80,11 +84,15 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   return { scored: scorer.finish({ wall_s, duration_s: plant.time_s }), ...(error ? { error } : {}) };
 }
 
-function fillSample(sample: TickSample, plant: Plant, action: Action): void {
-  plant.fillObservation(sample); // the plant's truth, through the one state copy (contract/state.ts)
-  sample.footStaticFriction.set(plant.footStaticFriction);
+/** The action the plant holds over the tick's steps, as the sample carries it to the scorer. */
+function holdAction(sample: TickSample, action: Action): void {
   sample.mode.set(action.mode);
   sample.wantedForce_N.set(action.groundForce_N);
+}
+
+function fillSample(sample: TickSample, plant: Plant): void {
+  plant.fillObservation(sample); // the plant's truth, through the one state copy (contract/state.ts)
+  sample.footStaticFriction.set(plant.footStaticFriction);
   sample.trunkGroundForce_N = plant.trunkGroundForce_N;
 }
 

@@ -14,7 +14,7 @@ import type { ResolvedScenario } from '../scenario/types.js';
 export type Prepared<T> = { ok: true; value: T; warnings: string[] } | { ok: false; lines: string[] };
 
 /** Parses build specs (already-parsed ones pass through) and refuses a name used twice. */
-export function prepareBuilds(command: string, builds: (string | BuildSpec)[], cwd: string): Prepared<BuildSpec[]> {
+export function prepareBuilds(command: string, builds: (string | BuildSpec)[], cwd: string, builtElsewhere: ReadonlySet<string> = new Set()): Prepared<BuildSpec[]> {
   if (builds.length === 0) return { ok: false, lines: [`footing ${command}: no build given (use --build SPEC, e.g. --build ref:governed)`] };
   let specs: BuildSpec[];
   try {
@@ -24,9 +24,9 @@ export function prepareBuilds(command: string, builds: (string | BuildSpec)[], c
     throw error;
   }
   const names = new Set<string>();
-  for (const [k, spec] of specs.entries()) {
-    // Specs prepared elsewhere (git-ref builds) carry their own failure; only given text is checked.
-    const missing = typeof builds[k] === 'string' ? missingEntry(spec) : null;
+  for (const spec of specs) {
+    // Builds made elsewhere (git-ref builds) carry their own failure; the others must exist now.
+    const missing = builtElsewhere.has(spec.name) ? null : missingEntry(spec);
     if (missing !== null) return { ok: false, lines: [`--build ${spec.text}: ${missing}; nothing was run`] };
     if (names.has(spec.name)) {
       return { ok: false, lines: [`--build ${spec.text}: the build name "${spec.name}" is used twice; name one of them (NAME=SPEC)`] };

@@ -28,13 +28,15 @@ export function evaluateAcceptance(acceptance: Acceptance, metrics: ScoreMetrics
 
   if (acceptance.mustNotFall && metrics.fell) reasons.push(fallSentence(metrics));
 
+  // Judged on the stance margin (touchdown transients excluded, docs/scoring.md); results scored
+  // before the stance margin existed fall back to the whole-run margin.
   if (acceptance.minFrictionMargin !== null) {
-    const margin = metrics.frictionMargin.min;
+    const margin = (metrics.stanceMargin ?? metrics.frictionMargin).min;
     if (margin === null) {
-      reasons.push('friction margin not measured: no foot was ever loaded');
+      reasons.push('stance friction margin not measured: no foot was ever loaded in stance');
     } else if (margin < acceptance.minFrictionMargin) {
       const [value, limit] = formatPair(margin, acceptance.minFrictionMargin);
-      reasons.push(`friction margin ${value} < ${limit}`);
+      reasons.push(`stance friction margin ${value} < ${limit}`);
     }
   }
 

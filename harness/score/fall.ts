@@ -1,8 +1,8 @@
-// Fall detection, latched at the first tick any test holds: the trunk touches the ground, its up
+// Fall detection, latched at the first physics step any test holds: the trunk touches the ground, its up
 // axis is tilted more than FALL_TILT_deg from the ground normal (world +z), or its centre is below
 // FALL_HEIGHT_FRACTION of the standing height.
 
-import type { TickSample } from './sample.js';
+import type { StepView } from './sample.js';
 import { FALL_HEIGHT_FRACTION, FALL_TILT_deg } from './thresholds.js';
 import type { FallReason } from './types.js';
 
@@ -31,7 +31,7 @@ export class FallDetector {
     this.minHeight_m = FALL_HEIGHT_FRACTION * standingHeight_m;
   }
 
-  record(sample: TickSample): void {
+  record(sample: StepView): void {
     if (this.fallen) return;
     let reason: FallReason | null = null;
     if (sample.trunkGroundForce_N > 0) reason = 'trunkContact';

@@ -1,9 +1,10 @@
 // Friction margin of the true ground force: m = 1 − |f_t| / (μs·f_n) with f_n the normal (z)
 // component, f_t the tangential (x, y) part and μs the true static friction under the foot.
 // m = 1: no tangential load; m = 0: on the Coulomb cone; m < 0: outside it (sliding, transient).
+// Every physics step of a loaded foot is one sample (no sample depends on where ticks fall).
 
 import { Histogram } from './histogram.js';
-import type { TickSample } from './sample.js';
+import type { StepView } from './sample.js';
 import { MARGIN_BIN_WIDTH, MARGIN_FLOOR } from './thresholds.js';
 import type { FrictionMarginMetrics, MarginStats } from './types.js';
 
@@ -17,22 +18,44 @@ export function frictionMargin(fx_N: number, fy_N: number, fz_N: number, staticF
 
 export class FrictionMarginTracker {
   private readonly perFoot: Histogram[];
+  /** Each foot's margin at the last step recorded (loaded or not); the stance split reuses it. */
+  readonly margins: Float64Array;
+  /** MARGIN_FLOOR read once: an imported binding read in the loop cost a heap number per foot (measured). */
+  private readonly floor: number = MARGIN_FLOOR;
 
   constructor(
     private readonly footCount: number,
     private readonly loadedThreshold_N: number,
   ) {
     this.perFoot = [];
+    this.margins = new Float64Array(footCount);
     for (let i = 0; i < footCount; i++) this.perFoot.push(Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH));
   }
 
-  record(sample: TickSample): void {
-    const force = sample.footForce_N;
+  recordStep(sample: StepView): void {
+    const force = sample.footGroundForce_N;
+    this.fillMargins(force, sample.footStaticFriction);
     for (let i = 0; i < this.footCount; i++) {
-      const fz = force[3 * i + 2];
-      if (!(fz > this.loadedThreshold_N)) continue;
-      const margin = frictionMargin(force[3 * i], force[3 * i + 1], fz, sample.footStaticFriction[i]);
-      this.perFoot[i].add(margin);
+      if (force[3 * i + 2] > this.loadedThreshold_N) this.perFoot[i].addFrom(this.margins, i);
+    }
+  }
+
+  /**
+   * frictionMargin() of every foot into `margins`: the same law written out for the per-step loop,
+   * with if/else on local doubles so that V8 keeps every value unboxed.
+   */
+  private fillMargins(force_N: Float64Array, staticFriction: Float64Array): void {
+    const floor = this.floor;
+    const out = this.margins;
+    for (let i = 0; i < this.footCount; i++) {
+      const fx = force_N[3 * i];
+      const fy = force_N[3 * i + 1];
+      const tangential_N = Math.sqrt(fx * fx + fy * fy);
+      const capacity_N = staticFriction[i] * force_N[3 * i + 2];
+      let margin = floor;
+      if (capacity_N > 0) margin = 1 - tangential_N / capacity_N;
+      else if (tangential_N === 0) margin = 1;
+      out[i] = margin < floor ? floor : margin;
     }
   }
 
@@ -40,11 +63,11 @@ export class FrictionMarginTracker {
   result(): FrictionMarginMetrics {
     const all = this.perFoot[0]?.emptyCopy() ?? Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH);
     for (const foot of this.perFoot) all.addAll(foot);
-    return { ...stats(all), perFoot: this.perFoot.map(stats) };
+    return { ...marginStats(all), perFoot: this.perFoot.map(marginStats) };
   }
 }
 
-function stats(histogram: Histogram): MarginStats {
+export function marginStats(histogram: Histogram): MarginStats {
   return {
     min: histogram.count > 0 ? histogram.min : null,
     p05: histogram.quantile(0.05),

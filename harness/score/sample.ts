@@ -1,5 +1,7 @@
-// One control tick as the scorer sees it: the plant's truth after the tick's physics steps, the
-// action the build returned for it, and the tick's measured wall time. The episode loop owns one
+// What the scorer sees. Per physics step, a StepView: the plant's own arrays after the step (the
+// plant satisfies the interface itself, so nothing is copied per step). Per control tick, a
+// TickSample: the plant's truth after the tick's physics steps, the action the build returned for
+// it (held over the tick's steps), and the tick's measured wall time. The episode loop owns one
 // TickSample per run and overwrites it every tick (no allocation); scorers copy what they keep.
 
 import { createRobotState, type RobotState } from '../contract/state.js';
@@ -36,6 +38,28 @@ export function createTickSample(footCount: number): TickSample {
     loopTime_us: 0,
     reportedCompute_us: Number.NaN,
   };
+}
+
+/**
+ * The plant's truth after one physics step, read in place (harness/plant/plant.ts has these
+ * fields). Forces are those of the step, velocities the post-kick ones; `step_s` is each step's
+ * weight in time integrals.
+ */
+export interface StepView {
+  readonly time_s: number;
+  readonly step_s: number;
+  readonly trunkPosition_m: Float64Array; // 3
+  readonly trunkQuaternion: Float64Array; // 4, (w, x, y, z)
+  readonly trunkGroundForce_N: number;
+  readonly footVelocity_mps: Float64Array; // 3N
+  readonly footGroundForce_N: Float64Array; // 3N, ground on foot, world
+  readonly footStaticFriction: Float64Array; // N
+}
+
+/** The action held over a tick's physics steps (a TickSample carries it). */
+export interface HeldAction {
+  readonly mode: Uint8Array; // N, STANCE = 1
+  readonly wantedForce_N: Float64Array; // 3N, world
 }
 
 /** What an observer learns once, before the first tick. */

@@ -1,5 +1,9 @@
-// The streaming scorer of one run: record() is fed every control tick by the episode loop (it
-// allocates nothing: every tracker preallocates its state), finish() returns the run's metrics.
+// The streaming scorer of one run. The episode loop feeds recordStep() after every physics step
+// (margin, stance and touchdowns, slip, commanded violations and falls see every step, so no
+// metric depends on where control ticks fall) and record() once per control tick (tick counts,
+// interval edges from each tick's worst case, tracking, loop time). A caller feeding ticks only
+// (hand-made traces) gets each tick scored as one step of the control period. Nothing allocates:
+// every tracker preallocates its state. finish() returns the run's metrics.
 // Definitions and thresholds: docs/scoring.md.
 
 import type { ResolvedScenario } from '../scenario/types.js';
@@ -7,9 +11,10 @@ import { CommandedViolationTracker } from './commanded.js';
 import { FallDetector } from './fall.js';
 import { FrictionMarginTracker } from './frictionMargin.js';
 import { LoopTimeTracker } from './loopTime.js';
-import type { TickSample } from './sample.js';
+import type { HeldAction, StepView, TickSample } from './sample.js';
 import { SlipTracker } from './slip.js';
-import { DEFAULT_LOADED_FRACTION, DEFAULT_SLIP_SPEED_mps, loadedThreshold_N, totalMass_kg } from './thresholds.js';
+import { DEFAULT_LOADED_FRACTION, DEFAULT_SLIP_SPEED_mps, loadedThreshold_N, totalMass_kg, TOUCHDOWN_TRANSIENT_s } from './thresholds.js';
+import { TouchdownTracker } from './touchdown.js';
 import { commandedTravel_m, TrackingTracker } from './tracking.js';
 import type { FallReason, RunMetrics, SimInfo, ViolationCounts } from './types.js';
 
@@ -20,9 +25,14 @@ export interface ScorerOptions {
   loadedFraction?: number;
   /** Slipping when a loaded foot's tangential speed exceeds this (default DEFAULT_SLIP_SPEED_mps). */
   slipSpeed_mps?: number;
+  /** Length of a touchdown's transient (default TOUCHDOWN_TRANSIENT_s). */
+  touchdownTransient_s?: number;
 }
 
 export interface Scorer {
+  /** One physics step: the plant's state after it, and the action held over the tick. */
+  recordStep(step: StepView, held: HeldAction): void;
+  /** The end of a control tick (after its recordStep calls, or alone: then it is the tick's one step). */
   record(sample: TickSample): void;
   readonly fallen: boolean;
   readonly fellAt_s: number | null;
@@ -45,19 +55,35 @@ export function createScorer(scenario: ResolvedScenario, options: ScorerOptions 
   const commanded = new CommandedViolationTracker(footCount);
   const slip = new SlipTracker(footCount, threshold_N, slipSpeed_mps);
   const fall = new FallDetector(robot.standingHeight_m);
+  const transient_s = options.touchdownTransient_s ?? TOUCHDOWN_TRANSIENT_s;
+  const touchdown = new TouchdownTracker(footCount, threshold_N, transient_s, scenario.duration_s, scenario.plant.initial.start === 'settled');
   const tracking = new TrackingTracker(commandedTravel_m(scenario.commands, scenario.duration_s));
   const loop = new LoopTimeTracker(scenario.control.loopBudget_us);
+  const tickAsStep = new TickAsStep();
   let ticks = 0;
+  let steps = 0;
+  let stepsThisTick = 0;
   let lastTime_s = 0;
 
+  const recordStep = (step: StepView, held: HeldAction): void => {
+    steps++;
+    stepsThisTick++;
+    margin.recordStep(step);
+    touchdown.recordStep(step, held, margin.margins);
+    commanded.recordStep(step, held);
+    slip.recordStep(step);
+    fall.record(step);
+  };
+
   return {
+    recordStep,
     record(sample: TickSample): void {
+      if (stepsThisTick === 0) recordStep(tickAsStep.view(sample), sample);
+      stepsThisTick = 0;
       ticks++;
       lastTime_s = sample.time_s;
-      margin.record(sample);
-      commanded.record(sample);
-      slip.record(sample);
-      fall.record(sample);
+      commanded.endTick();
+      slip.endTick();
       tracking.record(sample);
       loop.record(sample.loopTime_us);
     },
@@ -94,8 +120,11 @@ export function createScorer(scenario: ResolvedScenario, options: ScorerOptions 
         metrics: {
           ticks,
           loadedThreshold_N: threshold_N,
+          steps,
           slipSpeed_mps,
           frictionMargin: margin.result(),
+          stanceMargin: touchdown.stanceMargin(),
+          touchdown: touchdown.result(),
           violations: {
             commanded: commanded.union.count,
             commandedTime_s: commanded.union.time_s,
@@ -116,4 +145,28 @@ export function createScorer(scenario: ResolvedScenario, options: ScorerOptions 
       };
     },
   };
+}
+
+/** A tick sample seen as one physics step of the control period (preallocated, fields re-pointed). */
+class TickAsStep implements StepView {
+  time_s = 0;
+  step_s = 0;
+  trunkGroundForce_N = 0;
+  trunkPosition_m: Float64Array = new Float64Array(3);
+  trunkQuaternion: Float64Array = new Float64Array(4);
+  footVelocity_mps: Float64Array = new Float64Array(0);
+  footGroundForce_N: Float64Array = new Float64Array(0);
+  footStaticFriction: Float64Array = new Float64Array(0);
+
+  view(sample: TickSample): StepView {
+    this.time_s = sample.time_s;
+    this.step_s = sample.dt_s;
+    this.trunkGroundForce_N = sample.trunkGroundForce_N;
+    this.trunkPosition_m = sample.trunkPosition_m;
+    this.trunkQuaternion = sample.trunkQuaternion;
+    this.footVelocity_mps = sample.footVelocity_mps;
+    this.footGroundForce_N = sample.footForce_N;
+    this.footStaticFriction = sample.footStaticFriction;
+    return this;
+  }
 }

@@ -1,9 +1,10 @@
-// Slip of loaded feet: slip distance ∫ |v_t| dt over loaded samples (rectangle rule with the
-// control period, the sample's weight), and slip intervals where |v_t| exceeds the slip speed.
+// Slip of loaded feet: slip distance ∫ |v_t| dt over loaded samples (rectangle rule, each sample
+// weighted by its duration: one physics step in a run, one control period for a per-tick feed),
+// and slip intervals where |v_t| exceeds the slip speed (edges counted per tick, intervals.ts).
 // v_t is the foot velocity's (x, y) part, tangential to the ground plane z = 0.
 
 import { IntervalCounter } from './intervals.js';
-import type { TickSample } from './sample.js';
+import type { StepView, TickSample } from './sample.js';
 
 export class SlipTracker {
   readonly union = new IntervalCounter();
@@ -25,9 +26,23 @@ export class SlipTracker {
     for (let i = 0; i < footCount; i++) this.perFoot.push(new IntervalCounter());
   }
 
+  /** One physics step; call endTick() after the tick's last step. */
+  recordStep(step: StepView): void {
+    this.add(step.footGroundForce_N, step.footVelocity_mps, step.step_s);
+  }
+
+  /** One control tick fed as a single sample (the plot-series recorder's per-tick view). */
   record(sample: TickSample): void {
-    const force = sample.footForce_N;
-    const velocity = sample.footVelocity_mps;
+    this.add(sample.footForce_N, sample.footVelocity_mps, sample.dt_s);
+    this.endTick();
+  }
+
+  endTick(): void {
+    for (let i = 0; i < this.footCount; i++) this.perFoot[i].endTick();
+    this.union.endTick();
+  }
+
+  private add(force: Float64Array, velocity: Float64Array, dt_s: number): void {
     let any = false;
     for (let i = 0; i < this.footCount; i++) {
       let slipping = false;
@@ -36,15 +51,15 @@ export class SlipTracker {
         const vx = velocity[3 * i];
         const vy = velocity[3 * i + 1];
         const speed_mps = Math.sqrt(vx * vx + vy * vy);
-        this.distancePerFoot_m[i] += speed_mps * sample.dt_s;
+        this.distancePerFoot_m[i] += speed_mps * dt_s;
         slipping = speed_mps > this.slipSpeed_mps;
       }
       this.loaded[i] = loaded ? 1 : 0;
       this.sliding[i] = slipping ? 1 : 0;
-      this.perFoot[i].update(slipping, sample.dt_s);
+      this.perFoot[i].step(slipping, dt_s);
       if (slipping) any = true;
     }
-    this.union.update(any, sample.dt_s);
+    this.union.step(any, dt_s);
   }
 
   totalDistance_m(): number {

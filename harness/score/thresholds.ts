@@ -45,6 +45,17 @@ export const MARGIN_FLOOR = -1;
 /** Friction-margin histogram bin width: p05 is exact to within half of it (0.0005). */
 export const MARGIN_BIN_WIDTH = 0.001;
 
+/**
+ * A touchdown's transient lasts this long from the foot's first loaded physics step; the stance
+ * margin is measured on the loaded samples after it (docs/scoring.md, Stance and touchdown). A
+ * fixed time, not "until the foot sticks", so a foot that never stops sliding is still judged in
+ * stance. 20 ms is 2.6 periods of the bundled feet's contact oscillation (7.7 ms, the foot mass
+ * on the Hertz law at full weight, docs/scenarios.md): with restitution 0.5 per impact the bounce
+ * has rung down to a few percent; and it is about a tenth of the shortest bundled stance
+ * (0.6 × 0.32 s), so the stance margin still sees nine tenths of every stance.
+ */
+export const TOUCHDOWN_TRANSIENT_s = 0.02;
+
 /** Loop-time histogram: log-spaced bins from LOOP_TIME_MIN_us to LOOP_TIME_MAX_us. */
 export const LOOP_TIME_MIN_us = 0.1;
 export const LOOP_TIME_MAX_us = 1e7;

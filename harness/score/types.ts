@@ -6,12 +6,39 @@ export interface MarginStats {
   min: number | null;
   /** 5th percentile of the same samples (histogram estimate, within MARGIN_BIN_WIDTH / 2). */
   p05: number | null;
-  /** Number of (tick, foot) samples with the foot loaded. */
+  /** Number of (physics step, foot) samples with the foot loaded. */
   loadedSamples: number;
 }
 
 export interface FrictionMarginMetrics extends MarginStats {
   perFoot: MarginStats[];
+}
+
+/** Mean, 95th percentile (exact, type 7) and maximum of a set of values; null when empty. */
+export interface Spread {
+  mean: number | null;
+  p95: number | null;
+  max: number | null;
+}
+
+/** What the touchdowns of a foot (or of all feet) did; see score/touchdown.ts. */
+export interface TouchdownStats {
+  /** Touchdowns: first loaded steps after the foot was out of contact. */
+  count: number;
+  /** Slip ∫|v_t| dt over each touchdown's loaded transient steps, per touchdown. */
+  slip_m: Spread;
+  /** |v_t| at each touchdown's first step in contact. */
+  landingTangentialSpeed_mps: Spread;
+  /** −v_z (downward positive) at each touchdown's first step in contact. */
+  landingVerticalSpeed_mps: Spread;
+  /** Largest normal force in each touchdown's transient. */
+  impactPeakForce_N: Spread;
+}
+
+export interface TouchdownMetrics extends TouchdownStats {
+  /** The transient's length (TOUCHDOWN_TRANSIENT_s). */
+  transient_s: number;
+  perFoot: TouchdownStats[];
 }
 
 export interface ViolationCounts {
@@ -45,9 +72,19 @@ export interface LoopTimeMetrics {
 export interface ScoreMetrics {
   /** Control ticks scored. */
   ticks: number;
+  /** Physics steps scored (optional: results written before per-step scoring lack it). */
+  steps?: number;
   loadedThreshold_N: number;
   slipSpeed_mps: number;
+  /** Over every loaded physics step, touchdown transients included. */
   frictionMargin: FrictionMarginMetrics;
+  /**
+   * Over loaded steps in stance only, after each touchdown's transient (score/touchdown.ts).
+   * Optional: results written before it existed lack it (the scorer always fills it).
+   */
+  stanceMargin?: FrictionMarginMetrics;
+  /** Touchdowns and their transients (optional for the same reason). */
+  touchdown?: TouchdownMetrics;
   violations: ViolationMetrics;
   /** ∫ tangential foot speed dt over loaded samples, summed over feet. */
   slipDistance_m: number;

@@ -2,7 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { defaultPolicy, type GatePolicy } from '../../harness/gate/defaults.js';
 import { gate, gateWithinResults } from '../../harness/gate/gate.js';
 import { GateInputError, type GateRow } from '../../harness/gate/types.js';
-import { makeScenario } from '../score/fixtures.js';
+import { createRunResult } from '../../harness/results/runResult.js';
+import { createScorer } from '../../harness/score/scorer.js';
+import { drive, makeScenario, standingSample } from '../score/fixtures.js';
 import { errorRun, results, scoredRun, stand, walk, walkChanged } from './fixtures.js';
 
 // Foot 0 carries f_n = 32 N on μs = 0.5 (capacity 16 N) for 1000 ticks of 1 ms, so a tangential
@@ -12,11 +14,37 @@ function one(base: Parameters<typeof scoredRun>[2], cand: Parameters<typeof scor
   return gate({ baseline: results([scoredRun(walk, 'main', base)]), candidate: results([scoredRun(walk, 'branch', cand)]), policy });
 }
 
+/**
+ * A released start: all four feet land at the first 1 ms tick (four touchdowns) and foot 0 slides
+ * at `v_mps` through its 20 ms transient, so the mean slip per touchdown is v × 0.02 s / 4.
+ */
+function landingRun(build: string, v_mps: number) {
+  const base = makeScenario({ id: 'ice-walk' });
+  const scenario = makeScenario({ id: 'ice-walk', plant: { ...base.plant, initial: { ...base.plant.initial, start: 'released' } } });
+  const scorer = createScorer(scenario);
+  drive(scorer.record, standingSample(), 200, (s, k) => s.footVelocity_mps.set([k < 20 ? v_mps : 0, 0, 0], 0));
+  return createRunResult(scenario, build, scorer.finish({ wall_s: 0.2 }));
+}
+
 function rowFor(rows: GateRow[], metric: string): GateRow | undefined {
   return rows.find((r) => r.metric === metric);
 }
 
 describe('gate rules', () => {
+  it('blocks slip per touchdown grown by more than both 0.5 mm and 20 %, not by one alone', () => {
+    const landings = (v: number) => gate({ baseline: results([landingRun('main', 0.02)]), candidate: results([landingRun('branch', v)]), policy: defaultPolicy() });
+    // 0.1 mm per touchdown → 0.6 mm: +0.5 mm exactly (allowed, the slack) though +500 %.
+    const small = rowFor(landings(0.12).rows, 'touchdown.slip_m.mean')!;
+    expect(small).toMatchObject({ broken: false, baseline: 0.0001, rule: 'growth ≤ +20 % or ≤ +0.0005 m' });
+    expect(small.candidate as number).toBeCloseTo(0.0006, 15);
+    // → 0.8 mm: +0.7 mm and +700 %: blocks.
+    const outcome = landings(0.16);
+    expect(outcome.verdict).toBe('block');
+    const grown = rowFor(outcome.rows, 'touchdown.slip_m.mean')!;
+    expect(grown.broken).toBe(true);
+    expect(grown.reason).toBe('slip per touchdown grew from 0.000100 m to 0.000800 m, more than both +20 % and +0.0005 m');
+  });
+
   it('holds identical runs with no rows', () => {
     const outcome = one({ fx_N: 4 }, { fx_N: 4 });
     expect(outcome).toMatchObject({ verdict: 'hold', rows: [], compared: 1, buildPairs: [['main', 'branch']] });
@@ -26,17 +54,17 @@ describe('gate rules', () => {
     // 0.75 → 1 − 4.5/16 = 0.71875: loss 0.03125 > 0.02.
     const outcome = one({ fx_N: 4 }, { fx_N: 4.5 });
     expect(outcome.verdict).toBe('block');
-    const min = rowFor(outcome.rows, 'frictionMargin.min')!;
+    const min = rowFor(outcome.rows, 'stanceMargin.min')!;
     expect(min).toMatchObject({ broken: true, baseline: 0.75, candidate: 0.71875, change: '−0.031', rule: 'loss ≤ 0.02' });
-    expect(min.reason).toBe('friction margin min fell by 0.031 (0.750 → 0.719), more than the 0.02 allowed');
-    expect(rowFor(outcome.rows, 'frictionMargin.p05')!.broken).toBe(true);
+    expect(min.reason).toBe('stance friction margin min fell by 0.031 (0.750 → 0.719), more than the 0.02 allowed');
+    expect(rowFor(outcome.rows, 'stanceMargin.p05')!.broken).toBe(true);
   });
 
   it('holds a friction-margin loss within 0.02 but still shows it moved', () => {
     // 0.75 → 1 − 4.24/16 = 0.735: loss 0.015.
     const outcome = one({ fx_N: 4 }, { fx_N: 4.24 });
     expect(outcome.verdict).toBe('hold');
-    expect(rowFor(outcome.rows, 'frictionMargin.min')).toMatchObject({ broken: false, change: '−0.015' });
+    expect(rowFor(outcome.rows, 'stanceMargin.min')).toMatchObject({ broken: false, change: '−0.015' });
   });
 
   it('treats a loss of exactly the allowance as held', () => {
@@ -111,7 +139,7 @@ describe('only what the candidate changed blocks', () => {
     expect(outcome.verdict).toBe('hold');
     expect(outcome.runChanges).toMatchObject({ 'still-failing': 1, 'new-failure': 0 });
     expect(rowFor(outcome.rows, 'status')).toMatchObject({ broken: true, preExisting: true, blocking: false, runChange: 'still-failing' });
-    expect(rowFor(outcome.rows, 'status')!.reason).toBe('still failing: friction margin 0.75 < 0.90 (fails on the baseline too: friction margin 0.75 < 0.90)');
+    expect(rowFor(outcome.rows, 'status')!.reason).toBe('still failing: stance friction margin 0.75 < 0.90 (fails on the baseline too: stance friction margin 0.75 < 0.90)');
   });
 
   it('blocks the same still-failing scenario when the policy says still-failing runs block', () => {
@@ -125,7 +153,7 @@ describe('only what the candidate changed blocks', () => {
     // 0.75 → 0.5 on a run failing on both sides: the margin loss is the candidate's own doing.
     const outcome = gate({ baseline: results([scoredRun(strict, 'main', { fx_N: 4 })]), candidate: results([scoredRun(strict, 'branch', { fx_N: 8 })]), policy: defaultPolicy() });
     expect(outcome.verdict).toBe('block');
-    expect(outcome.rows[0]).toMatchObject({ metric: 'frictionMargin.min', blocking: true });
+    expect(outcome.rows[0]).toMatchObject({ metric: 'stanceMargin.min', blocking: true });
   });
 
   it('shows a run the candidate fixed, without blocking', () => {

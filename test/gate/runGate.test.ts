@@ -37,12 +37,12 @@ describe('runGate', () => {
     expect(result.exitCode).toBe(1);
     // The verdict line names the first blocking rule, its scenario and builds.
     expect(result.lines[0]).toBe(
-      'gate: block — ice-walk (ref:governed → ref:trusting): friction margin min fell by 0.250 (0.750 → 0.500), more than the 0.02 allowed (and 1 more blocking)',
+      'gate: block — ice-walk (ref:governed → ref:trusting): stance friction margin min fell by 0.250 (0.750 → 0.500), more than the 0.02 allowed (and 1 more blocking)',
     );
-    expect(result.lines.join('\n')).toContain('blocking: ice-walk (ref:governed → ref:trusting): friction margin p05 fell by 0.250');
+    expect(result.lines.join('\n')).toContain('blocking: ice-walk (ref:governed → ref:trusting): stance friction margin p05 fell by 0.250');
     const markdown = readFileSync(join(out, 'gate.md'), 'utf8');
-    expect(markdown).toContain('### Footing gate: ❌ block — ice-walk (ref:governed → ref:trusting): friction margin min fell by 0.250');
-    expect(markdown).toContain('| ice-walk | ref:governed → ref:trusting | frictionMargin.min | 0.750 | 0.500 | −0.250 | loss ≤ 0.02 ❌ |');
+    expect(markdown).toContain('### Footing gate: ❌ block — ice-walk (ref:governed → ref:trusting): stance friction margin min fell by 0.250');
+    expect(markdown).toContain('| ice-walk | ref:governed → ref:trusting | stanceMargin.min | 0.750 | 0.500 | −0.250 | loss ≤ 0.02 ❌ |');
   });
 
   it('applies a policy file', async () => {

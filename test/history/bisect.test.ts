@@ -22,7 +22,7 @@ describe('footing bisect over a 16-commit controller repository (functions, no C
     expect(record.buildBound).toBe(5);
     expect(record.skipped).toEqual([]);
     // Every tested commit carries its metric; the over-trusting ones have less friction margin.
-    const margin = (index: number) => record.tested.find((t) => t.index === index)?.runs[0].metrics['frictionMargin.min'] as number;
+    const margin = (index: number) => record.tested.find((t) => t.index === index)?.runs[0].metrics['stanceMargin.min'] as number;
     expect(margin(OVERTRUSTING_COMMIT)).toBeLessThan(margin(0) - 0.02);
     for (const t of record.tested) expect(t.verdict).toBe(t.index === 0 ? 'reference' : t.index >= OVERTRUSTING_COMMIT ? 'bad' : 'good');
     expect(readFileSync(path.join(repo.dir, 'out', 'bisect', 'bisect.md'), 'utf8')).toContain(`**First bad commit: \`${repo.commits[OVERTRUSTING_COMMIT].slice(0, 12)}\` step 11: trust the friction estimate more**`);

@@ -73,8 +73,8 @@ describe.skipIf(!available)('trend page in headless chromium', () => {
     expect(await page.locator('svg.trend path.change').count()).toBe(model.changeCount);
     expect(model.changeCount).toBeGreaterThan(0);
     // The gate line is inside the plot of every margin line.
-    const limits = await page.locator('[data-metric="frictionMargin.min"] svg.trend path.limit').count();
-    expect(limits).toBe(model.scenarios.reduce((n, s) => n + s.lines.filter((l) => l.metric === 'frictionMargin.min').length, 0));
+    const limits = await page.locator('[data-metric="stanceMargin.min"] svg.trend path.limit').count();
+    expect(limits).toBe(model.scenarios.reduce((n, s) => n + s.lines.filter((l) => l.metric === 'stanceMargin.min').length, 0));
   });
 
   it('lists each change point with the nights and commits either side, and shows hostile names as text', async () => {

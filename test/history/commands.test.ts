@@ -84,7 +84,7 @@ describe('footing history add / list / export (functions, no CLI)', () => {
     const outcome = historyReport({ out: 'trend.html', cwd: dir });
     expect(outcome.exitCode).toBe(0);
     expect(outcome.lines.at(-1)).toMatch(/^history report: 4 nights, 36 trend lines, 0 change points → trend\.html/);
-    expect(historyReport({ out: 'trend.html', metrics: ['frictionMargin.mean'], cwd: dir }).lines[0]).toMatch(/not a trend metric \(expected one of frictionMargin\.min/);
+    expect(historyReport({ out: 'trend.html', metrics: ['frictionMargin.mean'], cwd: dir }).lines[0]).toMatch(/not a trend metric \(expected one of stanceMargin\.min/);
     expect(historyReport({ out: 'trend.pdf', cwd: dir }).exitCode).toBe(2);
     expect(historyReport({ out: 'trend.html', last: 1, cwd: dir }).exitCode).toBe(2);
   });

@@ -22,8 +22,8 @@ function brokenMetrics(base: ResultsFile, cand: ResultsFile): string[] {
 const EPS = 1e-6;
 type Case = { metric: string; reference: number; set: (m: ScoreMetrics, v: number) => void };
 const cases: Case[] = [
-  { metric: 'frictionMargin.min', reference: 0.4, set: (m, v) => (m.frictionMargin.min = v) },
-  { metric: 'frictionMargin.p05', reference: 0.45, set: (m, v) => (m.frictionMargin.p05 = v) },
+  { metric: 'stanceMargin.min', reference: 0.4, set: (m, v) => (m.stanceMargin!.min = v) },
+  { metric: 'stanceMargin.p05', reference: 0.45, set: (m, v) => (m.stanceMargin!.p05 = v) },
   { metric: 'slipDistance_m', reference: 0.004, set: (m, v) => (m.slipDistance_m = v) },
   { metric: 'slipDistance_m', reference: 0.2, set: (m, v) => (m.slipDistance_m = v) },
   { metric: 'violations.commanded', reference: 0, set: (m, v) => (m.violations.commanded = v) },

@@ -7,7 +7,7 @@ import { generatedStore, HOSTILE_BUILD, PLANTED } from './support.js';
 describe('trend page data', () => {
   it('flags the planted change point, between the nights either side of it, and no other margin line', () => {
     const { store } = generatedStore();
-    const model = buildTrendModel(store, { policy: defaultPolicy(), metrics: ['frictionMargin.min'] });
+    const model = buildTrendModel(store, { policy: defaultPolicy(), metrics: ['stanceMargin.min'] });
     const flagged = model.scenarios.flatMap((s) => s.lines.filter((l) => l.changes.length > 0).map((l) => `${s.id}/${l.build}`));
     expect(flagged).toEqual(['generated-002/build-1']);
     const line = model.scenarios.find((s) => s.id === 'generated-002')?.lines.find((l) => l.build === 'build-1');

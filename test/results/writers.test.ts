@@ -26,7 +26,7 @@ describe('results.json', () => {
     expect(runs.map((r) => r.status)).toEqual(['pass', 'pass', 'fail', 'error']);
     // 14 N on μs·f_n = 0.5·32 = 16 N → margin 1 − 14/16 = 0.125 < 0.2; 0.1 m/s for 1 s → 0.1 m.
     expect(runs[2].reasons).toEqual([
-      'friction margin 0.13 < 0.20',
+      'stance friction margin 0.13 < 0.20',
       'slip distance 0.10 m > 0.05 m',
       '1 commanded friction-cone violation > 0 allowed',
     ]);
@@ -87,7 +87,7 @@ describe('junit.xml', () => {
     expect(suites[0].testcase[0].failure).toBeUndefined();
     expect(suites[0].properties.property).toContainEqual({ name: 'commit', value: 'abc123' });
     const failed = suites[1].testcase[0];
-    expect(failed.failure.message).toBe('friction margin 0.13 < 0.20; slip distance 0.10 m > 0.05 m; 1 commanded friction-cone violation > 0 allowed');
+    expect(failed.failure.message).toBe('stance friction margin 0.13 < 0.20; slip distance 0.10 m > 0.05 m; 1 commanded friction-cone violation > 0 allowed');
     expect(failed.failure.type).toBe('acceptance');
     const errored = suites[1].testcase[1];
     expect(errored.error.message).toBe('build process exited with code 3');
@@ -107,7 +107,7 @@ describe('summary.md', () => {
     const text = renderSummaryMarkdown(sampleResults());
     expect(text).toContain('### Footing: 4 runs — 2 pass, 1 fail, 1 error');
     expect(text).toContain('| ref:governed | 2 | 2 | 0 | 0 | 0.750 | 0.0000 | 0 |'); // 1 − 4/16 = 0.75
-    expect(text).toContain('- `slippery-walk` × `ref:trusting` (fail): friction margin 0.13 \\< 0.20; slip distance 0.10 m \\> 0.05 m');
+    expect(text).toContain('- `slippery-walk` × `ref:trusting` (fail): stance friction margin 0.13 \\< 0.20; slip distance 0.10 m \\> 0.05 m');
     expect(text).toContain('- `quiet-stand` × `ref:trusting` (error): error at 0.500 s: build process exited with code 3');
   });
 });
@@ -123,6 +123,9 @@ describe('trace CSV', () => {
       s.trunkPosition_m[0] = 0.001 * k;
       s.footForce_N.set([1.5, -2.25, k === 3 ? 6 : 32], 6); // foot 2 unloaded at tick 3 (6 N < 6.37 N)
       s.footVelocity_mps.set([0.1, 0, 0], 0);
+      s.trunkQuaternion.set([Math.cos(0.05), 0, 0, Math.sin(0.05)]); // 0.1 rad of yaw
+      s.trunkAngularVelocity_radps.set([0, 0, 0.25]);
+      s.wantedForce_N.set([3, -1.5, 40], 3);
     });
     expect(readdirSync(join(dir, 'traces'))).toHaveLength(1);
     expect(readdirSync(join(dir, 'traces'))[0]).toMatch(/^\..*footing-tmp$/);
@@ -130,7 +133,7 @@ describe('trace CSV', () => {
     expect(readdirSync(join(dir, 'traces'))).toEqual(['slippery-walk__ref_governed.csv']);
     const rows: Record<string, string>[] = parseCsv(readFileSync(file, 'utf8'), { columns: true });
     expect(Object.keys(rows[0])).toEqual(traceColumns(4));
-    expect(Object.keys(rows[0])).toHaveLength(7 + 4 * 10);
+    expect(Object.keys(rows[0])).toHaveLength(14 + 4 * 13);
     expect(rows).toHaveLength(5);
     expect(Number(rows[2].t_s)).toBeCloseTo(0.003, 9);
     expect(Number(rows[2].base_x_m)).toBeCloseTo(0.002, 9);
@@ -138,6 +141,11 @@ describe('trace CSV', () => {
     expect(Number(rows[0].foot2_fy_N)).toBe(-2.25);
     expect(Number(rows[0].foot2_mus)).toBe(0.5);
     expect(rows.map((r) => r.foot2_loaded)).toEqual(['1', '1', '1', '0', '1']);
+    // Orientation to 1e-7, body rate, and the build's wanted force per foot.
+    expect(Number(rows[1].base_qw)).toBeCloseTo(Math.cos(0.05), 7);
+    expect(Number(rows[1].base_qz)).toBeCloseTo(Math.sin(0.05), 7);
+    expect(Number(rows[1].base_wz_radps)).toBe(0.25);
+    expect([rows[1].foot1_wanted_fx_N, rows[1].foot1_wanted_fy_N, rows[1].foot1_wanted_fz_N].map(Number)).toEqual([3, -1.5, 40]);
   });
 
   it('decimates and can be aborted without leaving a file', () => {

@@ -28,8 +28,9 @@ function deterministicPart(run: RunResult): unknown {
 describe('footing run, end to end', () => {
   it('writes every result file, valid and parseable, and the gate blocks the over-trusting build on friction margin', async () => {
     const out = fresh('e2e');
-    // The bundled dry hall walk: the over-trusting build's margin falls to the cone there.
-    const outcome = await runSuite({ paths: [`${MINI}/short-stand.yaml`, 'scenarios/dry-baseline-walk.yaml'], builds: ['ref:governed', 'ref:overtrusting'], outDir: out, trace: true, jobs: 2, quiet: true });
+    // The bundled wet push: on the wet floor the over-trusting build puts its stance feet on the
+    // cone (stance margin 0; on the dry walk it holds in stance and only its landings slide).
+    const outcome = await runSuite({ paths: [`${MINI}/short-stand.yaml`, 'scenarios/lateral-push-wet.yaml'], builds: ['ref:governed', 'ref:overtrusting'], outDir: out, trace: true, jobs: 2, quiet: true });
     expect([EXIT.pass, EXIT.fail]).toContain(outcome.exitCode);
     for (const file of ['results.json', 'junit.xml', 'summary.md', 'report.html']) expect(existsSync(path.join(out, file))).toBe(true);
 
@@ -37,8 +38,8 @@ describe('footing run, end to end', () => {
     const validation = validateResults(results);
     expect(validation.ok).toBe(true);
     expect(results.runs.map((r) => `${r.scenario.id}/${r.build}`)).toEqual([
-      'dry-baseline-walk/governed',
-      'dry-baseline-walk/overtrusting',
+      'lateral-push-wet/governed',
+      'lateral-push-wet/overtrusting',
       'short-stand/governed',
       'short-stand/overtrusting',
     ]);

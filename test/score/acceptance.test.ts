@@ -31,7 +31,7 @@ describe('evaluateAcceptance', () => {
     m.fell = true;
     m.fellAt_s = 3.4217;
     m.fallReason = 'trunkTilted';
-    m.frictionMargin.min = 0.0123;
+    m.stanceMargin!.min = 0.0123; // the acceptance margin check judges the stance margin
     m.slipDistance_m = 0.3104;
     m.violations.commanded = 3;
     m.progress = 0.42;
@@ -42,7 +42,7 @@ describe('evaluateAcceptance', () => {
     expect(outcome.status).toBe('fail');
     expect(outcome.reasons).toEqual([
       'fell at 3.42 s (trunk tilted beyond 60°)',
-      'friction margin 0.01 < 0.05',
+      'stance friction margin 0.01 < 0.05',
       'slip distance 0.31 m > 0.05 m',
       '3 commanded friction-cone violations > 0 allowed',
       'progress 0.42 < 0.80 of the commanded travel',
@@ -58,10 +58,10 @@ describe('evaluateAcceptance', () => {
 
   it('fails a check it cannot measure, saying why', () => {
     const m = baseMetrics();
-    m.frictionMargin.min = null;
+    m.stanceMargin!.min = null;
     m.progress = null;
     expect(evaluateAcceptance({ ...none, minFrictionMargin: 0, minProgress: 0.5 }, m).reasons).toEqual([
-      'friction margin not measured: no foot was ever loaded',
+      'stance friction margin not measured: no foot was ever loaded in stance',
       'progress not measured: the scenario commands no travel',
     ]);
   });

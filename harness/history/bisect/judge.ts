@@ -15,8 +15,8 @@ export type Judge =
 
 /** The metric of the gate rows each rule judges (harness/gate/rules.ts, marginRules.ts). */
 const RULE_METRIC: Partial<Record<keyof GateRules, string>> = {
-  frictionMarginMinLoss: 'frictionMargin.min',
-  frictionMarginP05Loss: 'frictionMargin.p05',
+  frictionMarginMinLoss: 'stanceMargin.min',
+  frictionMarginP05Loss: 'stanceMargin.p05',
   slipDistanceGrowthFraction: 'slipDistance_m',
   slipDistanceGrowth_m: 'slipDistance_m',
   allowNewFalls: 'fell',

@@ -22,9 +22,9 @@ export function renderBisectMarkdown(record: BisectRecord): string {
     for (const s of record.skipped) lines.push(`- \`${short(s.commit)}\` ${cell(s.subject)}: ${cell(s.message)}`);
     lines.push('');
   }
-  lines.push('| # | commit | subject | verdict | friction margin min (per scenario) | why |', '| --- | --- | --- | --- | --- | --- |');
+  lines.push('| # | commit | subject | verdict | stance friction margin min (per scenario) | why |', '| --- | --- | --- | --- | --- | --- |');
   for (const t of record.tested) {
-    const margins = t.runs.map((r) => `${r.scenario} ${r.metrics['frictionMargin.min'] === null ? 'n/a' : (r.metrics['frictionMargin.min'] as number).toFixed(3)}`).join(', ');
+    const margins = t.runs.map((r) => `${r.scenario} ${r.metrics['stanceMargin.min'] === null ? 'n/a' : (r.metrics['stanceMargin.min'] as number).toFixed(3)}`).join(', ');
     lines.push(`| ${t.index} | \`${short(t.commit)}\` | ${cell(t.subject)} | ${t.verdict} | ${cell(margins)} | ${cell(t.reasons.slice(0, 2).join('; '))} |`);
   }
   lines.push('', 'Simulation is not proof of safety: the commit named here lost margin in simulation; hardware trials still follow your lab\'s risk assessment.', '');

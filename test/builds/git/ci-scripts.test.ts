@@ -40,7 +40,7 @@ describe('README CI scripts against a controller repository', () => {
     const run = script(branch.dir, 'merge-gate.sh');
     expect(run.status, run.all).toBe(1);
     // The verdict line says which rule, scenario and builds block.
-    expect(run.stdout).toMatch(/footing merge gate: BLOCKS the merge — block — stand-d\w+ \(main → candidate\): friction margin (min|p05) fell by 0\.[1-3]/);
+    expect(run.stdout).toMatch(/footing merge gate: BLOCKS the merge — block — stand-d\w+ \(main → candidate\): stance friction margin (min|p05) fell by 0\.[1-3]/);
     expect(run.stderr).toMatch(/build main: git main → [0-9a-f]{12} \(built in/);
     expect(run.stderr).toMatch(/build candidate: git HEAD → [0-9a-f]{12} \(built in/);
     const out = path.join(branch.dir, 'out', 'merge');
