@@ -64,6 +64,7 @@ function runFlags(args: Args): RunFlags {
     loopBudget_us: args['loop-budget'] as number | undefined,
     bench: args.bench as boolean | undefined,
     shard: args.shard as string | undefined,
+    shardCount: args['shard-count'] as number | undefined,
     resume: args.resume as boolean | undefined,
     quiet: args.quiet as boolean | undefined,
   };
@@ -76,7 +77,8 @@ const COMMANDS: CommandRow[] = [
     options: (y) =>
       settingOptions(y)
         .positional('paths', { type: 'string', array: true, describe: `scenario files or folders (default: the suite's, else ${DEFAULT_SCENARIO_PATHS.join(' ')})` })
-        .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic)' })
+        .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic); auto: K and N from CI_NODE_INDEX/CI_NODE_TOTAL, SLURM_ARRAY_TASK_ID/SLURM_ARRAY_TASK_COUNT or JOB_COMPLETION_INDEX (docs/scale-out.md)' })
+        .option('shard-count', { type: 'number', describe: 'N for --shard auto when the scheduler gives only the index (Kubernetes Indexed Jobs; or FOOTING_SHARD_COUNT)' })
         .option('resume', { type: 'boolean', describe: 'skip pairs already complete in --out', default: false })
         .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
         .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false }),

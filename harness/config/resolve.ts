@@ -38,6 +38,7 @@ export interface RunFlags {
   /** Cache folder for git builds (no CLI flag needed; tests and callers may set it). */
   cache?: string;
   shard?: string;
+  shardCount?: number;
   resume?: boolean;
   quiet?: boolean;
   cwd?: string;
