@@ -96,7 +96,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
     }
   }
 
-  const scenarios = await prepareScenarioList(out, 'run', options.paths, cwd);
+  const scenarios = await prepareScenarioList(out, 'run', options.paths, cwd, options.selection);
   if (isOutcome(scenarios)) return scenarios;
   if (options.loopBudget_us !== undefined) {
     for (const scenario of scenarios) scenario.control.loopBudget_us = options.loopBudget_us;
@@ -296,6 +296,7 @@ export async function runConfiguredSuite(flags: RunFlags, options: ConfiguredRun
 
   const outcome = await runSuite({
     paths: settings.paths.value,
+    selection: settings.selection,
     builds: prepared,
     outDir: settings.out.value,
     trace: settings.trace.value,
