@@ -35,7 +35,8 @@ export function tracePath(scenarioId: string, build: string): string {
 
 export interface TraceWriter {
   readonly path: string;
-  writeRow(sample: TickSample): void;
+  /** `telemetry`: the action's telemetry values, written when the writer was given names. */
+  writeRow(sample: TickSample, telemetry?: ArrayLike<number>): void;
   close(): void;
   abort(): void;
 }
@@ -43,6 +44,13 @@ export interface TraceWriter {
 export interface TraceOptions {
   /** Write every n-th tick only (decimation; default 1 = every tick). */
   everyNth?: number;
+  /** The build's telemetry names: one column each, after every other column, `telemetry.<name>`. */
+  telemetryNames?: readonly string[];
+}
+
+/** A CSV header cell: quoted (RFC 4180) when the name holds a comma, quote or line break. */
+function csvCell(text: string): string {
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
 /**
@@ -58,13 +66,15 @@ export function createTraceWriter(
   const everyNth = options.everyNth ?? 1;
   if (!Number.isInteger(everyNth) || everyNth < 1) throw new RangeError(`trace: everyNth ${everyNth} must be a positive integer`);
   const stream: AtomicStream = createAtomicStream(file);
-  stream.write(`${traceColumns(footCount).join(',')}\n`);
+  const telemetryNames = options.telemetryNames ?? [];
+  const telemetryHeader = telemetryNames.map((name) => `,${csvCell(`telemetry.${name}`)}`).join('');
+  stream.write(`${traceColumns(footCount).join(',')}${telemetryHeader}\n`);
   const d = TRACE_DECIMALS;
   let tick = 0;
 
   return {
     path: file,
-    writeRow(s: TickSample): void {
+    writeRow(s: TickSample, telemetry?: ArrayLike<number>): void {
       if (tick++ % everyNth !== 0) return;
       const p = s.trunkPosition_m;
       const v = s.trunkVelocity_mps;
@@ -84,6 +94,8 @@ export function createTraceWriter(
           ',' + s.footStaticFriction[i].toFixed(d.friction) +
           (ff[j + 2] > loadedThreshold_N ? ',1' : ',0');
       }
+      // Telemetry in the build's own units: the shortest text that reads back to the same double.
+      for (let k = 0; k < telemetryNames.length; k++) row += ',' + (telemetry === undefined ? '' : String(telemetry[k]));
       stream.write(row + '\n');
     },
     close: () => stream.close(),
