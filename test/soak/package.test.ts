@@ -65,10 +65,14 @@ afterAll(() => {
 });
 
 describe('the packed package in a controller repository without "type": "module"', () => {
-  it('declares its build types: a strict NodeNext type-check of the example build passes', () => {
+  it.each([
+    ['NodeNext', 'NodeNext'],
+    ['commonjs', 'node10'],
+    ['ESNext', 'bundler'],
+  ])('declares its build types: a strict type-check (module %s, resolution %s) of the example build passes', (module, moduleResolution) => {
     writeFileSync(
       path.join(repo, 'tsconfig.json'),
-      JSON.stringify({ compilerOptions: { strict: true, module: 'NodeNext', moduleResolution: 'NodeNext', noEmit: true, skipLibCheck: true, types: [] }, include: ['controller/**/*.ts'] }),
+      JSON.stringify({ compilerOptions: { strict: true, target: 'ES2022', module, moduleResolution, noEmit: true, skipLibCheck: true, types: [] }, include: ['controller/**/*.ts'] }),
     );
     const result = spawnSync(process.execPath, [TSC, '-p', 'tsconfig.json'], { cwd: repo, encoding: 'utf8' });
     expect(result.stdout + result.stderr).toBe('');
