@@ -84,6 +84,18 @@ describe('the packed package in a controller repository without "type": "module"
     expect(version).toBe(JSON.parse(readFileSync(path.join(ROOT, 'package.json'), 'utf8')).version);
   });
 
+  it('the C++ example from the package compiles there and runs beside the .ts build, both passing', () => {
+    mkdirSync(path.join(repo, 'build'), { recursive: true });
+    execFileSync('g++', ['-std=c++17', '-O2', '-ffp-contract=off', '-o', 'build/stand_controller', 'node_modules/footing/examples/cpp/stand_controller.cpp'], { cwd: repo, stdio: 'pipe' });
+    const result = spawnSync('npx', ['--no-install', 'footing', 'run', 'scenarios', '--build', 'cpp=exec:build/stand_controller', '--build', 'ts=controller/stand.ts', '--out', 'out/cpp'], { cwd: repo, encoding: 'utf8' });
+    expect(result.stderr).toContain('2 runs: 2 pass, 0 fail, 0 error');
+    expect(result.status).toBe(0);
+    const results = JSON.parse(readFileSync(path.join(repo, 'out/cpp/results.json'), 'utf8')) as { runs: { build: string; telemetry: { name: string; min: number; max: number }[] }[] };
+    // The same arithmetic on the same observations: the same telemetry extremes, bit for bit.
+    const [cpp, ts] = ['cpp', 'ts'].map((name) => results.runs.find((run) => run.build === name)?.telemetry);
+    expect(cpp).toEqual(ts);
+  });
+
   it('ci/merge-gate.sh holds (exit 0) for a candidate equal to the baseline, both .ts builds run', () => {
     writeFileSync(path.join(repo, 'footing.config.yaml'), CONFIG('controller/stand.ts'));
     const { status, text } = gate();
