@@ -8,7 +8,7 @@
 // velocity damper), plus its part of a PD torque on trunk attitude spread by lever arm; the legs
 // hold a small impedance toward the standing foot position below each hip. tick allocates nothing.
 
-import type { Action, Controller, ControllerSetup, Observation } from '../../harness/builds/interface.js';
+import type { Action, Controller, ControllerSetup, Observation } from 'footing';
 
 export const TELEMETRY_NAMES = ['stand.heightError_m', 'stand.tiltError'] as const;
 

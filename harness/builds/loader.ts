@@ -84,18 +84,20 @@ export async function loadModuleFactory(spec: BuildSpec): Promise<ControllerFact
   return factory as ControllerFactory;
 }
 
+/** TypeScript build modules: .ts follows the nearest package.json's "type", .mts is ESM, .cts CommonJS. */
+const TYPESCRIPT_MODULE = /\.[mc]?ts$/;
+
 async function importFile(path: string): Promise<Record<string, unknown>> {
   const url = pathToFileURL(path).href;
-  try {
-    return (await import(url)) as Record<string, unknown>;
-  } catch (error) {
-    // Plain Node (no tsx loader registered, e.g. a worker thread) cannot import .ts itself.
-    if ((error as NodeJS.ErrnoException).code === 'ERR_UNKNOWN_FILE_EXTENSION' && /\.m?ts$/.test(path)) {
-      const { tsImport } = await import('tsx/esm/api');
-      return (await tsImport(url, import.meta.url)) as Record<string, unknown>;
-    }
-    throw error;
+  // tsImport compiles TypeScript through both of Node's loaders: a plain `import` with only the
+  // ESM hooks registered hands a .ts in a CommonJS package to the CommonJS loader untransformed
+  // ("Unexpected identifier", or "Cannot require() ES Module … in a cycle"). It also works in a
+  // worker thread, which does not inherit the hooks of the thread that started it.
+  if (TYPESCRIPT_MODULE.test(path)) {
+    const { tsImport } = await import('tsx/esm/api');
+    return (await tsImport(url, import.meta.url)) as Record<string, unknown>;
   }
+  return (await import(url)) as Record<string, unknown>;
 }
 
 async function loadReferenceRegistry(spec: BuildSpec): Promise<Record<string, ControllerFactory>> {

@@ -2,7 +2,7 @@
 // system access): whether a module exists is checked when the build is opened (loader.ts).
 //
 // Grammar (documented for users in docs/protocol.md, "Build specs"):
-//   name=path/to/module.js[?options]          in-process ES module (.js .mjs .ts .mts)
+//   name=path/to/module.js[?options]          in-process module (.js .mjs .cjs .ts .mts .cts)
 //   name=exec:program arg1 "arg 2" … [?options] out-of-process build, arguments split without a shell
 //   ref:<id>[?options]  or  name=ref:<id>[?options]   bundled reference build
 // options: `key=value` pairs joined by `&`, URL-decoded; values `true`/`false` become booleans,
@@ -23,7 +23,7 @@ export type ReferenceBuildId = (typeof REFERENCE_BUILD_IDS)[number];
 export const DEFAULT_REFERENCE_BUILDS: readonly ReferenceBuildId[] = ['nominal', 'governed', 'clamped', 'qp'];
 export const DEFAULT_BUILDS: readonly string[] = DEFAULT_REFERENCE_BUILDS.map((id) => `ref:${id}`);
 
-export const MODULE_EXTENSIONS = ['.js', '.mjs', '.ts', '.mts'] as const;
+export const MODULE_EXTENSIONS = ['.js', '.mjs', '.cjs', '.ts', '.mts', '.cts'] as const;
 
 export type BuildOptionValue = string | number | boolean;
 

@@ -10,6 +10,7 @@ import type { CommandOutcome } from '../commands/skeleton.js';
 import { DEFAULT_BUILDS, DEFAULT_OUT_DIR, DEFAULT_SCENARIO_PATHS } from '../config/defaults.js';
 import type { RunFlags } from '../config/resolve.js';
 import { registerHistoryCommands } from '../history/cli.js';
+import type { ScenarioSelection } from '../commands/skeleton.js';
 import { TOOL_VERSION } from '../version.js';
 import { statSync } from 'node:fs';
 
@@ -69,6 +70,18 @@ function numbersWithin(rules: Record<string, NumberRule>): (args: Args) => true 
   };
 }
 
+/** --tag, --exclude-tag, --grep: which scenarios run, margin and check take (scenario/select.ts). */
+function selectionOptions(y: Argv): Argv {
+  return y
+    .option('tag', { type: 'string', array: true, describe: 'only scenarios carrying this tag (repeatable: every one must match)' })
+    .option('exclude-tag', { type: 'string', array: true, describe: 'leave out scenarios carrying this tag (repeatable)' })
+    .option('grep', { type: 'string', describe: 'only scenarios whose id matches this regular expression' });
+}
+
+function selection(args: Args): ScenarioSelection {
+  return { tags: args.tag as string[] | undefined, excludeTags: args['exclude-tag'] as string[] | undefined, grep: args.grep as string | undefined };
+}
+
 function runFlags(args: Args): RunFlags {
   const paths = args.paths as string[] | undefined;
   return {
@@ -84,6 +97,10 @@ function runFlags(args: Args): RunFlags {
     loopBudget_us: args['loop-budget'] as number | undefined,
     bench: args.bench as boolean | undefined,
     shard: args.shard as string | undefined,
+    shardCount: args['shard-count'] as number | undefined,
+    tags: args.tag as string[] | undefined,
+    excludeTags: args['exclude-tag'] as string[] | undefined,
+    grep: args.grep as string | undefined,
     resume: args.resume as boolean | undefined,
     quiet: args.quiet as boolean | undefined,
   };
@@ -94,9 +111,10 @@ const COMMANDS: CommandRow[] = [
     usage: 'run [paths..]',
     describe: 'replay scenarios through builds, score every run, write the results folder',
     options: (y) =>
-      settingOptions(y)
+      selectionOptions(settingOptions(y))
         .positional('paths', { type: 'string', array: true, describe: `scenario files or folders (default: the suite's, else ${DEFAULT_SCENARIO_PATHS.join(' ')})` })
-        .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic)' })
+        .option('shard', { type: 'string', describe: 'run shard K/N of the pairs (deterministic); auto: K and N from CI_NODE_INDEX/CI_NODE_TOTAL, SLURM_ARRAY_TASK_ID/SLURM_ARRAY_TASK_COUNT or JOB_COMPLETION_INDEX (docs/scale-out.md)' })
+        .option('shard-count', { type: 'number', describe: 'N for --shard auto when the scheduler gives only the index (Kubernetes Indexed Jobs; or FOOTING_SHARD_COUNT)' })
         .option('resume', { type: 'boolean', describe: 'skip pairs already complete in --out', default: false })
         .option('quiet', { alias: 'q', type: 'boolean', describe: 'print only the outcome', default: false })
         .option('exit-zero', { type: 'boolean', describe: 'exit 0 even when runs fail (still 2 on bad input)', default: false })
@@ -138,9 +156,9 @@ const COMMANDS: CommandRow[] = [
   {
     usage: 'check [paths..]',
     describe: 'validate scenario files (exit 0 all valid, 2 otherwise)',
-    options: (y) => y.positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS }),
+    options: (y) => selectionOptions(y.positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS })),
     printing: 'stdout',
-    call: async (args) => (await import('../commands/check.js')).checkPaths(args.paths as string[]),
+    call: async (args) => (await import('../commands/check.js')).checkPaths(args.paths as string[], {}, selection(args)),
   },
   {
     usage: 'gate',
@@ -177,7 +195,9 @@ const COMMANDS: CommandRow[] = [
     describe: 'measure governor update rate, controller tick time and closed-loop real-time factor per build',
     options: (y) =>
       y
-        .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, default: [], describe: 'build spec (repeatable; default: the reference builds and the Python example)' })
+        .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, default: [], describe: 'build spec (repeatable; default: the --suite\'s or config\'s builds, else the reference builds and the Python example)' })
+        .option('config', { type: 'string', describe: 'project config file whose builds to bench' })
+        .option('suite', { alias: 's', type: 'string', describe: 'bench the builds of this suite of the config file' })
         .option('scenario', { type: 'string', describe: 'scenario the observations are recorded from (default: scenarios/dry-baseline-walk.yaml)' })
         .option('json', { type: 'string', describe: 'write the figures as JSON (schema: harness/bench/bench.schema.json)' })
         .option('time-ms', { type: 'number', describe: 'time per measured task, milliseconds' })
@@ -194,6 +214,8 @@ const COMMANDS: CommandRow[] = [
           })()
         : (await import('../commands/bench.js')).runBenchCommand({
         builds: args.build as string[],
+        config: args.config as string | undefined,
+        suite: args.suite as string | undefined,
         scenario: args.scenario as string | undefined,
         json: args.json as string | undefined,
         time_ms: args['time-ms'] as number | undefined,
@@ -223,9 +245,11 @@ const COMMANDS: CommandRow[] = [
     usage: 'margin [paths..]',
     describe: 'find, per scenario and build, the lowest friction scale and the largest push scale it survives',
     options: (y) =>
-      y
-        .positional('paths', { type: 'string', array: true, default: DEFAULT_SCENARIO_PATHS, describe: 'scenario files or folders' })
-        .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, default: DEFAULT_BUILDS, describe: 'build spec (repeatable)' })
+      selectionOptions(y)
+        .positional('paths', { type: 'string', array: true, describe: `scenario files or folders (default: the suite's, else ${DEFAULT_SCENARIO_PATHS.join(' ')})` })
+        .option('build', { alias: 'b', type: 'string', array: true, nargs: 1, describe: `build spec (repeatable; default: the suite's or config's builds, else ${DEFAULT_BUILDS.join(' ')})` })
+        .option('config', { type: 'string', describe: 'project config file (read only with --config or --suite)' })
+        .option('suite', { alias: 's', type: 'string', describe: 'the scenarios, builds and tags of a named suite of the config file' })
         .option('out', { alias: 'o', type: 'string', default: MARGIN_COMMAND_DEFAULTS.out, describe: 'results folder' })
         .option('tolerance', { type: 'number', default: MARGIN_COMMAND_DEFAULTS.tolerance, describe: 'bisection tolerance on the scale' })
         .option('jobs', { alias: 'j', type: 'number', describe: 'parallel searches (default: core count)' })
@@ -233,8 +257,11 @@ const COMMANDS: CommandRow[] = [
     printing: 'logged',
     call: async (args, log) =>
       (await import('../commands/margin.js')).runMarginCommand({
-        paths: args.paths as string[],
-        build: args.build as string[],
+        paths: args.paths as string[] | undefined,
+        build: (args.build as string[] | undefined) ?? (args.config === undefined && args.suite === undefined ? [...DEFAULT_BUILDS] : []),
+        config: args.config as string | undefined,
+        suite: args.suite as string | undefined,
+        selection: selection(args),
         out: args.out as string,
         tolerance: args.tolerance as number,
         jobs: args.jobs as number | undefined,

@@ -13,11 +13,15 @@ import { DEFAULT_BENCH_TIME_ms, runBench } from '../bench/run.js';
 import { renderBenchTable } from '../bench/table.js';
 import type { BenchReport } from '../bench/types.js';
 import { benchSuite, renderSuiteBench } from './benchSuite.js';
+import { configuredSuite } from './configured.js';
 import { EXIT } from './exit.js';
 import type { CommandOutcome } from './skeleton.js';
 
 export interface BenchCommandArgs {
   builds: string[];
+  /** --config/--suite: the builds of footing.config.yaml (the suite's) as `run` reads them. */
+  config?: string;
+  suite?: string;
   scenario?: string;
   json?: string;
   time_ms?: number;
@@ -44,7 +48,9 @@ export async function runBenchCommand(args: BenchCommandArgs): Promise<BenchComm
   if (args.time_ms !== undefined && !(Number.isFinite(args.time_ms) && args.time_ms > 0)) {
     return { exitCode: EXIT.badInput, lines: [`footing bench: --time-ms ${args.time_ms}: expected a positive number of milliseconds per task`] };
   }
-  const parsed = args.builds.length > 0 ? prepareBuilds('bench', args.builds, cwd) : { ok: true as const, value: defaultBenchBuilds() };
+  const configured = configuredSuite('bench', { build: args.builds, config: args.config, suite: args.suite, cwd });
+  if ('exitCode' in configured) return configured;
+  const parsed = configured.builds.length > 0 ? prepareBuilds('bench', configured.builds, cwd) : { ok: true as const, value: defaultBenchBuilds() };
   if (!parsed.ok) return { exitCode: EXIT.badInput, lines: parsed.lines };
   const builds = parsed.value;
 

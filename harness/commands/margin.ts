@@ -18,12 +18,15 @@ import { buildManifests } from '../run/prepare.js';
 import { TOOL_VERSION } from '../version.js';
 import { EXIT, exitCodeOfRuns } from './exit.js';
 import { OUTPUT_FILES, writeOutputs } from './outputs.js';
+import type { BuildSpec } from '../builds/spec.js';
+import type { ScenarioSelection } from '../scenario/select.js';
+import { configuredSuite } from './configured.js';
 import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
 
 export { MARGIN_COMMAND_DEFAULTS } from './marginDefaults.js';
 
 export interface MarginRunOptions extends SuiteCommandOptions {
-  builds: string[];
+  builds: (string | BuildSpec)[];
   tolerance?: number;
   frictionRange?: readonly [number, number];
   pushRange?: readonly [number, number];
@@ -52,7 +55,7 @@ export async function runMargins(options: MarginRunOptions): Promise<MarginRunOu
   const specs = prepareBuildSpecs(out, 'margin', options.builds, cwd);
   if (isOutcome(specs)) return specs;
   // The order footing run uses: scenarios by file then id (run/prepare.ts), builds as given.
-  const scenarios = await prepareScenarioList(out, 'margin', options.paths, cwd);
+  const scenarios = await prepareScenarioList(out, 'margin', options.paths, cwd, options.selection);
   if (isOutcome(scenarios)) return scenarios;
 
   const outDir = path.resolve(cwd, options.outDir);
@@ -73,6 +76,10 @@ export interface MarginCommandArgs {
   paths?: string[];
   build: string[];
   out: string;
+  /** --config/--suite: scenarios, builds and selection from footing.config.yaml as `run` reads them. */
+  config?: string;
+  suite?: string;
+  selection?: ScenarioSelection;
   tolerance?: number;
   jobs?: number;
   /** Only one of the searches (default both). */
@@ -84,14 +91,17 @@ export interface MarginCommandArgs {
 
 export async function runMarginCommand(args: MarginCommandArgs): Promise<CommandOutcome> {
   try {
+    const configured = configuredSuite('margin', args);
+    if ('exitCode' in configured) return configured;
     const outcome = await runMargins({
-      paths: args.paths,
-      builds: args.build,
+      paths: configured.paths,
+      builds: configured.builds,
+      selection: configured.selection,
       outDir: args.out,
       tolerance: args.tolerance,
       jobs: args.jobs,
       quantities: args.only ? [args.only] : undefined,
-      cwd: args.cwd,
+      cwd: configured.cwd,
       log: args.log,
     });
     return { exitCode: outcome.exitCode, lines: outcome.lines };

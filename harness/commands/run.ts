@@ -24,7 +24,7 @@ import type { ResultsFile, RunResult, ShardRecord } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import type { RunTimeout } from '../run/pool.js';
 import { buildManifests, type PreparedBuild } from '../run/prepare.js';
-import { parseShard, ShardSpecError, type ShardSpec } from '../run/shard.js';
+import { resolveShard, ShardSpecError, type ShardSpec } from '../run/shard.js';
 import { SIGNAL_EXIT } from '../run/interrupt.js';
 import { lockOutputFolder, OutputFolderError } from '../run/outputLock.js';
 import { countStatuses, runPairs, SuiteInterruptedError } from '../run/suite.js';
@@ -47,7 +47,12 @@ export interface SuiteRunOptions extends SuiteCommandOptions {
   loopBudget_us?: number;
   trace?: boolean;
   traceEveryNth?: number;
+  /** K/N, or `auto`: from the CI matrix or job array's environment (run/shard.ts). */
   shard?: string;
+  /** The count for `--shard auto` where the scheduler gives only the index (Kubernetes). */
+  shardCount?: number;
+  /** The environment `--shard auto` reads (default process.env). */
+  env?: Readonly<Record<string, string | undefined>>;
   baseline?: string;
   policyFile?: string;
   /** A policy already loaded (e.g. inline in footing.config.yaml); policyFile wins when both are given. */
@@ -94,7 +99,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
     }
   }
 
-  const scenarios = await prepareScenarioList(out, 'run', options.paths, cwd);
+  const scenarios = await prepareScenarioList(out, 'run', options.paths, cwd, options.selection);
   if (isOutcome(scenarios)) return scenarios;
   if (options.loopBudget_us !== undefined) {
     for (const scenario of scenarios) scenario.control.loopBudget_us = options.loopBudget_us;
@@ -102,7 +107,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   let shard: ShardSpec | undefined;
   if (options.shard) {
     try {
-      shard = parseShard(options.shard);
+      shard = resolveShard(options.shard, { env: options.env ?? process.env, count: options.shardCount });
     } catch (error) {
       if (error instanceof ShardSpecError) return out.badInput(error.message);
       throw error;
@@ -311,11 +316,13 @@ export async function runConfiguredSuite(flags: RunFlags, options: ConfiguredRun
 
   const outcome = await runSuite({
     paths: settings.paths.value,
+    selection: settings.selection,
     builds: prepared,
     outDir: settings.out.value,
     trace: settings.trace.value,
     jobs: settings.jobs.value,
     shard: flags.shard,
+    shardCount: flags.shardCount,
     baseline: settings.baseline.value,
     policyFile: settings.policy.value.file,
     policy: settings.policy.value.inline,

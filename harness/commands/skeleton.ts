@@ -5,6 +5,8 @@
 import type { BuildSpec } from '../builds/spec.js';
 import type { RunTimeout } from '../run/pool.js';
 import { prepareBuilds, prepareScenarios } from '../run/prepare.js';
+import { nothingSelected, selectScenarios, SelectionError, type ScenarioSelection } from '../scenario/select.js';
+export type { ScenarioSelection } from '../scenario/select.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { EXIT, type ExitCode } from './exit.js';
 
@@ -18,6 +20,8 @@ export interface CommandOutcome {
 export interface SuiteCommandOptions {
   /** Scenario files or folders (default scenario/paths.ts DEFAULT_SCENARIO_PATHS). */
   paths?: string[];
+  /** Which of those scenarios: --tag, --exclude-tag, --grep (scenario/select.ts). */
+  selection?: ScenarioSelection;
   /** Results folder, relative to cwd. */
   outDir: string;
   jobs?: number;
@@ -67,9 +71,23 @@ export function prepareBuildSpecs(out: CommandLog, command: string, builds: (str
 }
 
 /** The scenarios in the canonical order; their warnings logged, their errors bad input. */
-export async function prepareScenarioList(out: CommandLog, command: string, paths: string[] | undefined, cwd: string): Promise<ResolvedScenario[] | CommandOutcome> {
+export async function prepareScenarioList(
+  out: CommandLog,
+  command: string,
+  paths: string[] | undefined,
+  cwd: string,
+  selection?: ScenarioSelection,
+): Promise<ResolvedScenario[] | CommandOutcome> {
   const loaded = await prepareScenarios(command, paths, cwd);
   if (!loaded.ok) return out.badInput(...loaded.lines);
   for (const line of loaded.warnings) out.log(line);
-  return loaded.value;
+  let kept: ResolvedScenario[];
+  try {
+    kept = selectScenarios(loaded.value, selection);
+  } catch (error) {
+    if (error instanceof SelectionError) return out.badInput(`footing ${command}: ${error.message}`);
+    throw error;
+  }
+  if (kept.length === 0 && selection) return out.badInput(`footing ${command}: ${nothingSelected(selection, loaded.value)}; nothing was run`);
+  return kept;
 }

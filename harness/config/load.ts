@@ -153,7 +153,7 @@ export function recipeOf(data: ConfigData, build: Partial<GitBuildData>): GitBui
     repo: build.repo ?? base.repo,
     build: build.build ?? base.build,
     entry,
-    kind: build.kind ?? base.kind ?? (entry !== undefined && /\.(m?js|m?ts)$/.test(entry) ? 'module' : 'process'),
+    kind: build.kind ?? base.kind ?? (entry !== undefined && /\.([mc]?js|[mc]?ts)$/.test(entry) ? 'module' : 'process'),
     args: build.args ?? base.args,
     options: { ...(base.options ?? {}), ...(build.options ?? {}) },
   };

@@ -17,6 +17,7 @@ import { expandGlob, isGlob } from './glob.js';
 import { ConfigError, findConfigFile, gitRefOfSpec, loadConfig, recipeOf, type LoadedConfig } from './load.js';
 import { didYouMean } from '../files/suggest.js';
 import type { FileIssue } from '../files/issue.js';
+import type { ScenarioSelection } from '../scenario/select.js';
 import type { GitBuildData, Origin, Sourced, SuiteData } from './types.js';
 
 /** The flags of `footing run` (and `config --print`, `cache --clear`) as plain data. */
@@ -38,6 +39,11 @@ export interface RunFlags {
   /** Cache folder for git builds (no CLI flag needed; tests and callers may set it). */
   cache?: string;
   shard?: string;
+  shardCount?: number;
+  /** --tag (every one must match), --exclude-tag, --grep on scenario ids; added to the suite's tags. */
+  tags?: string[];
+  excludeTags?: string[];
+  grep?: string;
   resume?: boolean;
   quiet?: boolean;
   cwd?: string;
@@ -53,6 +59,8 @@ export interface ResolvedSettings {
   suite: Sourced<string> | null;
   /** Absolute scenario files and folders (globs expanded). */
   paths: Sourced<string[]> & { written: string[] };
+  /** Which scenarios of those paths: the suite's tags and the flags together. */
+  selection: ScenarioSelection;
   builds: ResolvedBuild[];
   buildsOrigin: Origin;
   baseline: Sourced<string | undefined>;
@@ -254,11 +262,17 @@ export function resolveSettings(flags: RunFlags): ResolvedSettings {
   const outDir = path.resolve(out.origin.from === 'file' ? projectDir : cwd, out.value);
 
   if (problems.length > 0) throw new SettingsError(problems);
+  const suiteMapping = suiteData !== undefined && !Array.isArray(suiteData) ? suiteData : undefined;
   return {
     cwd,
     config,
     suite,
     paths,
+    selection: {
+      tags: [...(suiteMapping?.tags ?? []), ...(flags.tags ?? [])],
+      excludeTags: [...(suiteMapping?.excludeTags ?? []), ...(flags.excludeTags ?? [])],
+      grep: flags.grep,
+    },
     builds,
     buildsOrigin,
     baseline,

@@ -18,7 +18,7 @@ export interface GitBuildData extends GitRecipeData {
   ref: string;
 }
 
-export type SuiteData = string[] | { scenarios: string[]; builds?: string[]; baseline?: string };
+export type SuiteData = string[] | { scenarios: string[]; builds?: string[]; baseline?: string; tags?: string[]; excludeTags?: string[] };
 
 export interface ConfigData {
   version?: 1;

@@ -15,6 +15,7 @@ import {
   type RunError,
   type RunResult,
   type ScenarioRef,
+  type TelemetryRange,
 } from './types.js';
 
 export function scenarioRef(scenario: ResolvedScenario): ScenarioRef {
@@ -30,15 +31,22 @@ export function scenarioRef(scenario: ResolvedScenario): ScenarioRef {
   return ref;
 }
 
+/** What a run adds besides its score: its trace path and its telemetry extremes. */
+export interface RunResultOptions {
+  trace?: string;
+  telemetry?: TelemetryRange[];
+}
+
 export function createRunResult(
   scenario: ResolvedScenario,
   build: string,
   scored: RunMetrics,
-  options: { trace?: string } = {},
+  options: RunResultOptions = {},
 ): RunResult {
   const { status, reasons } = evaluateAcceptance(scenario.acceptance, scored.metrics);
   const result: RunResult = { scenario: scenarioRef(scenario), build, status, reasons, sim: scored.sim, metrics: scored.metrics };
   if (options.trace !== undefined) result.trace = options.trace;
+  if (options.telemetry !== undefined) result.telemetry = options.telemetry;
   return result;
 }
 
@@ -47,7 +55,7 @@ export function createErrorRunResult(
   build: string,
   error: RunError,
   scored: RunMetrics | null = null,
-  options: { trace?: string } = {},
+  options: RunResultOptions = {},
 ): RunResult {
   const at = error.time_s === undefined ? '' : ` at ${error.time_s.toFixed(3)} s`;
   const result: RunResult = {
@@ -60,6 +68,7 @@ export function createErrorRunResult(
     metrics: scored?.metrics ?? null,
   };
   if (options.trace !== undefined) result.trace = options.trace;
+  if (options.telemetry !== undefined) result.telemetry = options.telemetry;
   return result;
 }
 

@@ -46,7 +46,8 @@ export function tracePath(scenarioId: string, build: string): string {
 
 export interface TraceWriter {
   readonly path: string;
-  writeRow(sample: TickSample): void;
+  /** `telemetry`: the action's telemetry values, written when the writer was given names. */
+  writeRow(sample: TickSample, telemetry?: ArrayLike<number>): void;
   close(): void;
   abort(): void;
 }
@@ -54,6 +55,13 @@ export interface TraceWriter {
 export interface TraceOptions {
   /** Write every n-th tick only (decimation; default 1 = every tick). */
   everyNth?: number;
+  /** The build's telemetry names: one column each, after every other column, `telemetry.<name>`. */
+  telemetryNames?: readonly string[];
+}
+
+/** A CSV header cell: quoted (RFC 4180) when the name holds a comma, quote or line break. */
+function csvCell(text: string): string {
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
 /**
@@ -69,13 +77,15 @@ export function createTraceWriter(
   const everyNth = options.everyNth ?? 1;
   if (!Number.isInteger(everyNth) || everyNth < 1) throw new RangeError(`trace: everyNth ${everyNth} must be a positive integer`);
   const stream: AtomicStream = createAtomicStream(file);
-  stream.write(`${traceColumns(footCount).join(',')}\n`);
+  const telemetryNames = options.telemetryNames ?? [];
+  const telemetryHeader = telemetryNames.map((name) => `,${csvCell(`telemetry.${name}`)}`).join('');
+  stream.write(`${traceColumns(footCount).join(',')}${telemetryHeader}\n`);
   const d = TRACE_DECIMALS;
   let tick = 0;
 
   return {
     path: file,
-    writeRow(s: TickSample): void {
+    writeRow(s: TickSample, telemetry?: ArrayLike<number>): void {
       if (tick++ % everyNth !== 0) return;
       const p = s.trunkPosition_m;
       const v = s.trunkVelocity_mps;
@@ -101,6 +111,8 @@ export function createTraceWriter(
           (ff[j + 2] > loadedThreshold_N ? ',1' : ',0') +
           ',' + wanted[j].toFixed(d.force) + ',' + wanted[j + 1].toFixed(d.force) + ',' + wanted[j + 2].toFixed(d.force);
       }
+      // Telemetry in the build's own units: the shortest text that reads back to the same double.
+      for (let k = 0; k < telemetryNames.length; k++) row += ',' + (telemetry === undefined ? '' : String(telemetry[k]));
       stream.write(row + '\n');
     },
     close: () => stream.close(),

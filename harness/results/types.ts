@@ -67,8 +67,19 @@ export interface RunResult {
   trace?: string;
   /** footing replay only: the comparison with the scenario's recorded trajectory. */
   fidelity?: FidelityBlock;
+  /**
+   * The run's extremes of every telemetry scalar the build names (Controller.telemetryNames), in
+   * that order; null when no tick recorded it. Absent for runs that never opened their build.
+   */
+  telemetry?: TelemetryRange[];
   /** Critical friction and push scales, written by `footing margin` (docs/margin.md). */
   margin?: RunMargin;
+}
+
+export interface TelemetryRange {
+  name: string;
+  min: number | null;
+  max: number | null;
 }
 
 /** Kept loose on purpose: the build layer owns the fields beyond `name`. */

@@ -70,14 +70,16 @@ export async function runOne(task: RunTask, extraObservers: TickObserver[] = [])
         traceRelative = tracePath(scenario.id, spec.name);
         trace = createTraceWriter(path.join(task.outDir, traceRelative), scenario.plant.robot.hips_m.length, scorer.loadedThreshold_N, {
           everyNth: task.traceEveryNth ?? 1,
+          telemetryNames: build.telemetryNames,
         });
         const writer = trace;
-        observers.push({ onTick: (sample) => writer.writeRow(sample) });
+        observers.push({ onTick: (sample, action) => writer.writeRow(sample, action.telemetry) });
       },
     });
     trace?.close();
-    saveSeries(task.outDir, recorder.finish());
-    const options = traceRelative ? { trace: traceRelative } : {};
+    const series = recorder.finish();
+    saveSeries(task.outDir, series);
+    const options = { ...(traceRelative ? { trace: traceRelative } : {}), telemetry: recorder.telemetryRanges() };
     const result = outcome.error
       ? createErrorRunResult(scenario, spec.name, outcome.error, outcome.scored, options)
       : createRunResult(scenario, spec.name, outcome.scored, options);

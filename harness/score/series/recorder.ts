@@ -14,11 +14,14 @@ import {
   MAX_FOOTHOLDS,
   MAX_SERIES_BUCKETS,
   MAX_SLIP_SEGMENTS,
+  MAX_TELEMETRY_SERIES,
+  TELEMETRY_PLOT_LIMIT,
   SERIES_FORMAT,
   SERIES_FORMAT_VERSION,
   type Foothold,
   type RunSeries,
   type SlipSegment,
+  type TelemetrySeries,
 } from './types.js';
 
 /** Loop-time bins: 20 per decade from 0.1 µs to 10 s (log spacing suits a long-tailed time). */
@@ -30,6 +33,8 @@ const DIGITS = 5;
 
 export interface SeriesRecorder extends TickObserver {
   finish(): RunSeries;
+  /** The exact extremes of every telemetry scalar (all names, not only the plotted ones). */
+  telemetryRanges(): { name: string; min: number | null; max: number | null }[];
 }
 
 export interface SeriesRecorderOptions {
@@ -65,6 +70,12 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
   const slips: SlipSegment[] = [];
   const dropped = { footholds: 0, slips: 0 };
   let governorPairs: { axis: string; target: number; applied: number; targetBuckets: MinMaxBuckets; appliedBuckets: MinMaxBuckets }[] = [];
+  // Every telemetry scalar: per-bucket extremes for the plots, exact run extremes for results.json.
+  let telemetryNames: readonly string[] = [];
+  let telemetryBuckets: MinMaxBuckets[] = [];
+  let telemetryMin = new Float64Array(0);
+  let telemetryMax = new Float64Array(0);
+  let allTelemetryNames: readonly string[] = [];
   let tick = 0;
   let loopTicks = 0;
   let lastTime_s = 0;
@@ -87,12 +98,23 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
     });
   };
 
+  const range = (k: number) => ({
+    min: Number.isFinite(telemetryMin[k]) ? telemetryMin[k] : null,
+    max: Number.isFinite(telemetryMax[k]) ? telemetryMax[k] : null,
+  });
+
   return {
+    telemetryRanges: () => allTelemetryNames.map((name, k) => ({ name, ...range(k) })),
     onStart(info: EpisodeStart): void {
       threshold_N = info.loadedThreshold_N;
       slip = new SlipTracker(n, threshold_N, slipSpeed_mps);
       governorPairs = [];
       const names = info.telemetryNames;
+      allTelemetryNames = names;
+      telemetryNames = names.slice(0, MAX_TELEMETRY_SERIES);
+      telemetryBuckets = telemetryNames.map(() => new MinMaxBuckets(bucketCount));
+      telemetryMin = new Float64Array(names.length).fill(Number.POSITIVE_INFINITY);
+      telemetryMax = new Float64Array(names.length).fill(Number.NEGATIVE_INFINITY);
       names.forEach((name, index) => {
         if (!name.startsWith('governor.target.')) return;
         const axis = name.slice('governor.target.'.length);
@@ -152,6 +174,13 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
         g.targetBuckets.add(b, action.telemetry[g.target]);
         g.appliedBuckets.add(b, action.telemetry[g.applied]);
       }
+      const telemetry = action.telemetry;
+      for (let k = 0; k < telemetryBuckets.length; k++) telemetryBuckets[k].add(b, telemetry[k]);
+      for (let k = 0; k < allTelemetryNames.length; k++) {
+        const value = telemetry[k];
+        if (value < telemetryMin[k]) telemetryMin[k] = value;
+        if (value > telemetryMax[k]) telemetryMax[k] = value;
+      }
       const loop_us = s.loopTime_us;
       if (Number.isFinite(loop_us) && loop_us >= 0) {
         const k = loop_us <= LOOP_BIN_START_us ? 0 : Math.floor(Math.log(loop_us / LOOP_BIN_START_us) / Math.log(LOOP_BIN_RATIO));
@@ -189,11 +218,19 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
         trunk: { x_m: pick(trunk, 4, 0, DIGITS), y_m: pick(trunk, 4, 1, DIGITS), referenceX_m: pick(trunk, 4, 2, DIGITS), referenceY_m: pick(trunk, 4, 3, DIGITS) },
         footholds,
         slips,
-        dropped,
+        dropped: { ...dropped, telemetry: allTelemetryNames.length - telemetryNames.length },
+        telemetry: telemetryNames.map((name, k): TelemetrySeries => ({ name, values: telemetrySeries(telemetryBuckets[k], used), ...range(k) })),
         governor: governorPairs.map((g) => ({ axis: g.axis, target: g.targetBuckets.toSeries(used, 4), applied: g.appliedBuckets.toSeries(used, 4) })),
         loopTime: { start_us: LOOP_BIN_START_us, ratio: LOOP_BIN_RATIO, bins, ticks: loopTicks, budget_us: scenario.control.loopBudget_us },
         friction: compactFrictionMap(scenario.plant.ground.friction),
       };
     },
   };
+}
+
+/** A telemetry scalar's buckets for the plots: 6 significant digits, clipped to the series bound. */
+function telemetrySeries(buckets: MinMaxBuckets, used: number): { min: (number | null)[]; max: (number | null)[] } {
+  const raw = buckets.toSeries(used, 6);
+  const clip = (v: number | null) => (v === null ? null : Math.max(-TELEMETRY_PLOT_LIMIT, Math.min(TELEMETRY_PLOT_LIMIT, v)));
+  return { min: raw.min.map(clip), max: raw.max.map(clip) };
 }

@@ -58,6 +58,21 @@ export interface GovernorAxisSeries {
   applied: MinMaxSeries;
 }
 
+/** One named telemetry scalar of the build (Controller.telemetryNames), per bucket. */
+export interface TelemetrySeries {
+  name: string;
+  /** Per-bucket min and max, 6 significant digits, clipped to ±TELEMETRY_PLOT_LIMIT. */
+  values: MinMaxSeries;
+  /** The run's exact extremes (unclipped, unrounded), null when no tick was recorded. */
+  min: number | null;
+  max: number | null;
+}
+
+/** Telemetry scalars plotted per run; names past this many are counted in dropped.telemetry. */
+export const MAX_TELEMETRY_SERIES = 64;
+/** The series bound of any plotted value (validate.ts); telemetry beyond it is clipped in plots. */
+export const TELEMETRY_PLOT_LIMIT = 1e9;
+
 export interface LoopTimeDistribution {
   /** Bin k covers [start_us·ratio^k, start_us·ratio^(k+1)). */
   start_us: number;
@@ -87,8 +102,10 @@ export interface RunSeries {
   footholds: Foothold[];
   slips: SlipSegment[];
   /** Footholds and slip segments not stored because of the caps above. */
-  dropped: { footholds: number; slips: number };
+  dropped: { footholds: number; slips: number; telemetry?: number };
   governor: GovernorAxisSeries[];
+  /** Every named telemetry scalar, in telemetryNames order (absent in files written before it). */
+  telemetry?: TelemetrySeries[];
   loopTime: LoopTimeDistribution;
   /** The scenario's friction map (raster block-reduced to MAX_RASTER_CELLS_PER_SIDE). */
   friction: FrictionMap;

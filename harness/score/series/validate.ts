@@ -4,7 +4,7 @@
 // unusable: …"), never the report.
 
 import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
-import { MAX_RASTER_CELLS_PER_SIDE, MAX_SERIES_POINTS, SERIES_FORMAT, SERIES_FORMAT_VERSION, type RunSeries } from './types.js';
+import { MAX_RASTER_CELLS_PER_SIDE, MAX_SERIES_POINTS, MAX_TELEMETRY_SERIES, SERIES_FORMAT, SERIES_FORMAT_VERSION, type RunSeries } from './types.js';
 
 // Magnitudes are bounded as well as types: the plots size axes, grids and histograms from these
 // numbers, and a crafted 1e308 would ask for a grid line per metre to the end of the universe.
@@ -67,7 +67,17 @@ const SERIES_SCHEMA = {
         properties: { foot: { type: 'integer', minimum: 0 }, start_s: time, end_s: time, from_m: xy, to_m: xy, distance_m: { type: 'number', minimum: 0, maximum: 1e5 } },
       },
     },
-    dropped: { type: 'object', required: ['footholds', 'slips'], properties: { footholds: { type: 'integer', minimum: 0 }, slips: { type: 'integer', minimum: 0 } } },
+    dropped: { type: 'object', required: ['footholds', 'slips'], properties: { footholds: { type: 'integer', minimum: 0 }, slips: { type: 'integer', minimum: 0 }, telemetry: { type: 'integer', minimum: 0 } } },
+    telemetry: {
+      type: 'array',
+      maxItems: MAX_TELEMETRY_SERIES,
+      items: {
+        type: 'object',
+        required: ['name', 'values', 'min', 'max'],
+        // min/max are the exact extremes, shown as text, never used to size a plot.
+        properties: { name: { type: 'string', minLength: 1, maxLength: 120 }, values: minMax, min: { type: ['number', 'null'] }, max: { type: ['number', 'null'] } },
+      },
+    },
     governor: {
       type: 'array',
       maxItems: 64,

@@ -94,7 +94,7 @@ describe('parseBuildSpec', () => {
   });
 
   it('rejects a module without a module extension, pointing to exec:', () => {
-    expect(problemOf('cpp=build/controller')).toMatch(/must end in \.js, \.mjs, \.ts, \.mts; for a program in another language write cpp=exec:/);
+    expect(problemOf('cpp=build/controller')).toMatch(/must end in \.js, \.mjs, \.cjs, \.ts, \.mts, \.cts; for a program in another language write cpp=exec:/);
   });
 
   it('rejects broken options and quoting', () => {

@@ -1,0 +1,326 @@
+// footing_stdio.hpp — a single-header client of the Footing process protocol, version 1
+// (docs/protocol.md): the JSON-line handshake (hello in, ready out) and the binary f64 tick
+// frames (FOOTOBS1 in, FOOTACT1 out, FOOTBYE1 or end of file to stop). C++17, the standard
+// library only. A controller fills Action from Observation; run() does the wire:
+//
+//   struct MyController { explicit MyController(const footing::Hello&); void tick(const footing::Observation&, footing::Action&); };
+//   int main() { return footing::run<MyController>({"my.telemetry"}, "my-controller 1.0"); }
+//
+// The tick path allocates nothing: the frames and views are sized once from the hello.
+
+#pragma once
+
+#include <chrono>
+#include <cmath>
+#include <cstdint>
+#include <cstdio>
+#include <cstdlib>
+#include <cstring>
+#include <iostream>
+#include <map>
+#include <memory>
+#include <stdexcept>
+#include <string>
+#include <vector>
+
+namespace footing {
+
+constexpr int PROTOCOL_VERSION = 1;
+
+// ---- JSON: just enough to read the hello (objects, arrays, strings, numbers, true/false/null).
+
+struct Json {
+  enum class Kind { Null, Bool, Number, String, Array, Object } kind = Kind::Null;
+  bool boolean = false;
+  double number = 0.0;
+  std::string text;
+  std::vector<Json> items;
+  std::map<std::string, Json> fields;
+
+  const Json& operator[](const std::string& key) const {
+    auto it = fields.find(key);
+    if (kind != Kind::Object || it == fields.end()) throw std::runtime_error("hello: missing field " + key);
+    return it->second;
+  }
+  const Json& operator[](std::size_t i) const {
+    if (kind != Kind::Array || i >= items.size()) throw std::runtime_error("hello: index out of range");
+    return items[i];
+  }
+  bool has(const std::string& key) const { return kind == Kind::Object && fields.count(key) > 0; }
+  double num() const {
+    if (kind != Kind::Number) throw std::runtime_error("hello: expected a number");
+    return number;
+  }
+};
+
+class JsonReader {
+ public:
+  explicit JsonReader(const std::string& s) : s_(s) {}
+  Json parse() {
+    Json value = read();
+    skip();
+    if (pos_ != s_.size()) fail("trailing characters");
+    return value;
+  }
+
+ private:
+  const std::string& s_;
+  std::size_t pos_ = 0;
+
+  [[noreturn]] void fail(const char* what) const {
+    throw std::runtime_error(std::string("hello: ") + what + " at character " + std::to_string(pos_));
+  }
+  void skip() {
+    while (pos_ < s_.size() && (s_[pos_] == ' ' || s_[pos_] == '\t' || s_[pos_] == '\n' || s_[pos_] == '\r')) ++pos_;
+  }
+  bool literal(const char* word) {
+    std::size_t n = std::strlen(word);
+    if (s_.compare(pos_, n, word) != 0) return false;
+    pos_ += n;
+    return true;
+  }
+  std::string string() {
+    if (s_[pos_] != '"') fail("expected a string");
+    ++pos_;
+    std::string out;
+    while (pos_ < s_.size() && s_[pos_] != '"') {
+      char c = s_[pos_++];
+      if (c != '\\') { out += c; continue; }
+      if (pos_ >= s_.size()) fail("unterminated escape");
+      char e = s_[pos_++];
+      switch (e) {
+        case 'n': out += '\n'; break;
+        case 't': out += '\t'; break;
+        case 'r': out += '\r'; break;
+        case 'b': out += '\b'; break;
+        case 'f': out += '\f'; break;
+        case 'u': {
+          // Names in the hello are ASCII; other code points are kept as UTF-8.
+          unsigned code = static_cast<unsigned>(std::strtoul(s_.substr(pos_, 4).c_str(), nullptr, 16));
+          pos_ += 4;
+          if (code < 0x80) out += static_cast<char>(code);
+          else if (code < 0x800) { out += static_cast<char>(0xC0 | (code >> 6)); out += static_cast<char>(0x80 | (code & 0x3F)); }
+          else { out += static_cast<char>(0xE0 | (code >> 12)); out += static_cast<char>(0x80 | ((code >> 6) & 0x3F)); out += static_cast<char>(0x80 | (code & 0x3F)); }
+          break;
+        }
+        default: out += e;  // \" \\ \/
+      }
+    }
+    if (pos_ >= s_.size()) fail("unterminated string");
+    ++pos_;
+    return out;
+  }
+  Json read() {
+    skip();
+    if (pos_ >= s_.size()) fail("unexpected end");
+    Json v;
+    char c = s_[pos_];
+    if (c == '{') {
+      v.kind = Json::Kind::Object;
+      ++pos_;
+      skip();
+      if (s_[pos_] == '}') { ++pos_; return v; }
+      for (;;) {
+        skip();
+        std::string key = string();
+        skip();
+        if (s_[pos_++] != ':') fail("expected ':'");
+        v.fields[key] = read();
+        skip();
+        if (s_[pos_] == ',') { ++pos_; continue; }
+        if (s_[pos_] == '}') { ++pos_; return v; }
+        fail("expected ',' or '}'");
+      }
+    }
+    if (c == '[') {
+      v.kind = Json::Kind::Array;
+      ++pos_;
+      skip();
+      if (s_[pos_] == ']') { ++pos_; return v; }
+      for (;;) {
+        v.items.push_back(read());
+        skip();
+        if (s_[pos_] == ',') { ++pos_; continue; }
+        if (s_[pos_] == ']') { ++pos_; return v; }
+        fail("expected ',' or ']'");
+      }
+    }
+    if (c == '"') { v.kind = Json::Kind::String; v.text = string(); return v; }
+    if (literal("true")) { v.kind = Json::Kind::Bool; v.boolean = true; return v; }
+    if (literal("false")) { v.kind = Json::Kind::Bool; return v; }
+    if (literal("null")) return v;
+    // strtod rounds correctly (glibc, and C++17 from_chars where present): the harness writes the
+    // shortest round-trip text, so the double read is the double sent.
+    const char* start = s_.c_str() + pos_;
+    char* end = nullptr;
+    v.kind = Json::Kind::Number;
+    v.number = std::strtod(start, &end);
+    if (end == start) fail("expected a value");
+    pos_ += static_cast<std::size_t>(end - start);
+    return v;
+  }
+};
+
+// ---- The setup and the per-tick views (docs/protocol.md "f64 frames").
+
+/** The hello, parsed: the fields a controller usually needs, and the whole message as Json. */
+struct Hello {
+  Json message;
+  int footCount = 0;
+  double controlRate_Hz = 0.0;
+  double physicsStep_s = 0.0;
+  double gravity_mps2[3] = {0.0, 0.0, 0.0};
+  const Json& robot() const { return message["robot"]; }
+  /** A numeric option of the build spec (?key=value), or the fallback when absent. */
+  double option(const std::string& key, double fallback) const {
+    if (!message.has("options") || !message["options"].has(key)) return fallback;
+    const Json& value = message["options"][key];
+    if (value.kind != Json::Kind::Number || !std::isfinite(value.number)) throw std::runtime_error("option " + key + ": expected a finite number");
+    return value.number;
+  }
+  bool offers(const std::string& encoding) const {
+    if (!message.has("encodings")) return encoding == "json";
+    for (const Json& e : message["encodings"].items) if (e.text == encoding) return true;
+    return false;
+  }
+};
+
+/** Pointers into the obs frame: vectors flat, foot i at [3i, 3i+3). */
+struct Observation {
+  double tick = 0.0;
+  double time_s = 0.0;
+  const double* trunkPosition_m = nullptr;
+  const double* trunkQuaternion = nullptr;  // w, x, y, z; trunk → world
+  const double* trunkVelocity_mps = nullptr;
+  const double* trunkAngularVelocity_radps = nullptr;  // trunk frame
+  const double* footPosition_m = nullptr;
+  const double* footVelocity_mps = nullptr;
+  const double* footForce_N = nullptr;
+  const double* footContact = nullptr;
+  const double* frictionEstimate = nullptr;
+  double gait = 0.0;  // 0 stand, 1 trot
+  const double* commandVelocity_mps = nullptr;
+  double commandYawRate_radps = 0.0;
+};
+
+/** Pointers into the act frame: write every field each tick. */
+struct Action {
+  double* mode = nullptr;  // exactly 0 (swing) or 1 (stance)
+  double* groundForce_N = nullptr;
+  double* footTarget_m = nullptr;
+  double* footTargetVelocity_mps = nullptr;
+  double* stiffness_N_per_m = nullptr;
+  double* damping_Ns_per_m = nullptr;
+  double* telemetry = nullptr;
+};
+
+inline std::size_t obsDoubles(int n) { return 20 + 11 * static_cast<std::size_t>(n); }
+inline std::size_t actDoubles(int n, int t) { return 2 + 12 * static_cast<std::size_t>(n) + static_cast<std::size_t>(t); }
+
+/** The frames are little-endian doubles; this client runs on little-endian machines (x86, ARM). */
+inline void requireLittleEndian() {
+  const std::uint16_t probe = 1;
+  if (*reinterpret_cast<const unsigned char*>(&probe) != 1) throw std::runtime_error("footing_stdio.hpp: big-endian machines need a byte swap");
+}
+
+inline Hello readHello(std::FILE* in) {
+  std::string line;
+  for (int c = std::fgetc(in); c != EOF && c != '\n'; c = std::fgetc(in)) line += static_cast<char>(c);
+  if (!line.empty() && line.back() == '\r') line.pop_back();
+  Hello hello;
+  hello.message = JsonReader(line).parse();
+  const Json& m = hello.message;
+  if (!m.has("type") || m["type"].text != "hello") throw std::runtime_error("expected a hello message first");
+  if (m["protocol"].num() != PROTOCOL_VERSION) throw std::runtime_error("hello: protocol " + std::to_string(m["protocol"].num()) + ", this client speaks 1");
+  hello.footCount = static_cast<int>(m["footCount"].num());
+  hello.controlRate_Hz = m["controlRate_Hz"].num();
+  hello.physicsStep_s = m["physicsStep_s"].num();
+  for (int k = 0; k < 3; ++k) hello.gravity_mps2[k] = m["gravity_mps2"][static_cast<std::size_t>(k)].num();
+  return hello;
+}
+
+inline std::string jsonString(const std::string& s) {
+  std::string out = "\"";
+  for (char c : s) {
+    if (c == '"' || c == '\\') { out += '\\'; out += c; }
+    else if (static_cast<unsigned char>(c) < 0x20) { char buf[8]; std::snprintf(buf, sizeof buf, "\\u%04x", c); out += buf; }
+    else out += c;
+  }
+  return out + "\"";
+}
+
+/**
+ * Serves one run: hello → Controller(hello) → ready (f64) → one act frame per obs frame until
+ * bye or end of file. Returns the process exit code (0 on bye/EOF, 2 on a protocol problem,
+ * with the reason on stderr).
+ */
+template <class Controller>
+int run(const std::vector<std::string>& telemetryNames, const std::string& about, std::FILE* in = stdin, std::FILE* out = stdout) {
+  try {
+    requireLittleEndian();
+    Hello hello = readHello(in);
+    if (!hello.offers("f64")) throw std::runtime_error("the hello does not offer the f64 encoding");
+    Controller controller(hello);
+    const int n = hello.footCount;
+    const int t = static_cast<int>(telemetryNames.size());
+
+    std::string ready = "{\"type\":\"ready\",\"protocol\":1,\"telemetryNames\":[";
+    for (std::size_t i = 0; i < telemetryNames.size(); ++i) ready += (i ? "," : "") + jsonString(telemetryNames[i]);
+    ready += "],\"encoding\":\"f64\",\"about\":" + jsonString(about) + "}\n";
+    std::fwrite(ready.data(), 1, ready.size(), out);
+    std::fflush(out);
+
+    const std::size_t obsBytes = 8 + 8 * obsDoubles(n);
+    const std::size_t actBytes = 8 + 8 * actDoubles(n, t);
+    std::vector<unsigned char> obsFrame(obsBytes);
+    std::vector<unsigned char> actFrame(actBytes);
+    std::vector<double> o(obsDoubles(n));
+    std::vector<double> a(actDoubles(n, t), 0.0);
+    std::memcpy(actFrame.data(), "FOOTACT1", 8);
+
+    Observation obs;
+    const std::size_t un = static_cast<std::size_t>(n);
+    obs.trunkPosition_m = &o[2];
+    obs.trunkQuaternion = &o[5];
+    obs.trunkVelocity_mps = &o[9];
+    obs.trunkAngularVelocity_radps = &o[12];
+    obs.footPosition_m = &o[15];
+    obs.footVelocity_mps = &o[15 + 3 * un];
+    obs.footForce_N = &o[15 + 6 * un];
+    obs.footContact = &o[15 + 9 * un];
+    obs.frictionEstimate = &o[15 + 10 * un];
+    obs.commandVelocity_mps = &o[16 + 11 * un];
+    Action act;
+    act.mode = &a[2];
+    act.groundForce_N = &a[2 + un];
+    act.footTarget_m = &a[2 + 4 * un];
+    act.footTargetVelocity_mps = &a[2 + 7 * un];
+    act.stiffness_N_per_m = &a[2 + 10 * un];
+    act.damping_Ns_per_m = &a[2 + 11 * un];
+    act.telemetry = t > 0 ? &a[2 + 12 * un] : nullptr;
+
+    for (;;) {
+      if (std::fread(obsFrame.data(), 1, obsBytes, in) != obsBytes) return 0;  // stdin closed
+      if (std::memcmp(obsFrame.data(), "FOOTBYE1", 8) == 0) return 0;
+      if (std::memcmp(obsFrame.data(), "FOOTOBS1", 8) != 0) throw std::runtime_error("bad frame tag");
+      std::memcpy(o.data(), obsFrame.data() + 8, 8 * o.size());
+      obs.tick = o[0];
+      obs.time_s = o[1];
+      obs.gait = o[15 + 11 * un];
+      obs.commandYawRate_radps = o[19 + 11 * un];
+      const auto start = std::chrono::steady_clock::now();
+      controller.tick(obs, act);
+      const auto took = std::chrono::steady_clock::now() - start;
+      a[0] = obs.tick;
+      a[1] = std::chrono::duration<double, std::micro>(took).count();
+      std::memcpy(actFrame.data() + 8, a.data(), 8 * a.size());
+      if (std::fwrite(actFrame.data(), 1, actBytes, out) != actBytes) return 0;  // harness gone
+      std::fflush(out);
+    }
+  } catch (const std::exception& error) {
+    std::fprintf(stderr, "%s: %s\n", about.c_str(), error.what());
+    return 2;
+  }
+}
+
+}  // namespace footing
