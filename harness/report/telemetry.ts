@@ -1,7 +1,7 @@
 // A build's named telemetry scalars as the report plots them, grouped by name prefix (the part
-// before the first dot: `governor`, `estimator`, …). Read defensively: the series file's optional
-// `telemetry` field may be an array of { name, min, max } or { name, values: { min, max } }, or an
-// object keyed by name; anything else is ignored. The governor's target/applied pairs are plotted
+// before the first dot: `governor`, `estimator`, …), from the series file's `telemetry` field
+// (score/series/types.ts TelemetrySeries: per-bucket `values`). Read defensively: a series of the
+// wrong length or shape is ignored. The governor's target/applied pairs are plotted
 // together from `series.governor` and are left out here.
 
 import type { MinMaxSeries, RunSeries } from '../score/series/types.js';

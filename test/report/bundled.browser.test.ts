@@ -287,6 +287,9 @@ describe.skipIf(!existsSync(CHROMIUM))('the bundled run in headless chromium', (
   });
 
   it('grows the report by no more than 25 % per run for the same data', () => {
-    expect(Buffer.byteLength(html) / results.runs.length).toBeLessThanOrEqual(1.25 * BYTES_PER_RUN_BEFORE);
+    // Same data: the telemetry plots draw data the runs did not record when the figure above was
+    // taken (build telemetry is recorded since), so they are left out of the comparison.
+    const sameData = html.replace(/<svg class="plot telemetry"[\s\S]*?<\/svg>/g, '');
+    expect(Buffer.byteLength(sameData) / results.runs.length).toBeLessThanOrEqual(1.25 * BYTES_PER_RUN_BEFORE);
   });
 });

@@ -119,11 +119,13 @@ describe('fields other parts of the harness may add', () => {
       const file = seriesPath(run.scenario.id, run.build);
       const series = JSON.parse(readFileSync(path.join(dir, file), 'utf8')) as RunSeries;
       const ramp = series.t_s.map((t) => t);
+      // The series file's telemetry as the recorder writes it (score/series/types.ts TelemetrySeries).
+      const entry = (name: string, values: number[]) => ({ name, values: { min: values, max: values }, min: 0, max: 1 });
       const telemetry = [
-        { name: 'estimator.frictionEstimate', min: ramp, max: ramp },
-        { name: 'estimator.contactForce_N', values: { min: ramp, max: ramp } },
-        { name: '<img src=x onerror=alert(7)>.x', min: ramp, max: ramp },
-        { name: 'short.series', min: [1], max: [1] }, // wrong length: ignored
+        entry('estimator.frictionEstimate', ramp),
+        entry('estimator.contactForce_N', ramp),
+        entry('<img src=x onerror=alert(7)>.x', ramp),
+        entry('short.series', [1]), // wrong length: ignored
       ];
       writeFileSync(path.join(copy, file), JSON.stringify({ ...series, telemetry }));
     }
