@@ -2,9 +2,9 @@
 // Entry point: the compiled build (dist/, made by `npm ci` / `npm run build`) when it is there and
 // no source file under harness/ is newer than it (an edited checkout never runs stale code);
 // otherwise the TypeScript sources through the tsx loader. FOOTING_SOURCE=1 forces the sources.
-import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
-import { join } from 'node:path';
+import { existsSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
+import { newest } from './sourcesMtime.js';
 
 // `footing … | head` closes the pipe early: that is the reader's choice, not an error to report.
 for (const stream of [process.stdout, process.stderr]) {
@@ -16,15 +16,6 @@ for (const stream of [process.stdout, process.stderr]) {
 const compiled = new URL('../dist/cli/main.js', import.meta.url);
 const stamp = new URL('../dist/.sources-mtime', import.meta.url);
 
-/** The newest modification time under a folder, ms (a few ms for harness/). */
-function newest(folder) {
-  let latest = 0;
-  for (const entry of readdirSync(folder, { withFileTypes: true })) {
-    const path = join(folder, entry.name);
-    latest = Math.max(latest, entry.isDirectory() ? newest(path) : statSync(path).mtimeMs);
-  }
-  return latest;
-}
 
 function compiledIsCurrent() {
   if (process.env.FOOTING_SOURCE === '1' || !existsSync(compiled) || !existsSync(stamp)) return false;

@@ -5,26 +5,18 @@
 // the same repository file from either. Run by `npm ci` (prepare) and `npm test`; bin/footing.js
 // uses dist/ when it is there and falls back to the TypeScript sources when it is not.
 import { spawnSync } from 'node:child_process';
-import { copyFileSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { copyFileSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join, relative } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { newest } from '../bin/sourcesMtime.js';
 
 const root = fileURLToPath(new URL('../', import.meta.url));
 const source = join(root, 'harness');
 const out = join(root, 'dist');
 
 rmSync(out, { recursive: true, force: true });
-// The newest source time, taken before compiling: bin/footing.js runs dist/ only while no file
-// under harness/ is newer (an edit made during the build makes it stale, as it should).
-function newest(folder) {
-  let latest = 0;
-  for (const entry of readdirSync(folder, { withFileTypes: true })) {
-    const path = join(folder, entry.name);
-    latest = Math.max(latest, entry.isDirectory() ? newest(path) : statSync(path).mtimeMs);
-  }
-  return latest;
-}
+// The newest source time, taken before compiling: an edit made during the build leaves dist/ stale.
 const sourcesMtime = newest(source);
 const tsc = createRequire(import.meta.url).resolve('typescript/bin/tsc');
 // --noCheck: emit only; the type-check is `npm run typecheck` (and the first step of `npm test`).
