@@ -8,7 +8,7 @@ import { matrixFromQuaternion, quaternionFromRollPitchYaw } from '../plant/rotat
 import type { SlotLayout } from './layout.js';
 import type { LoadedLogMap } from './map.js';
 import type { RawLog } from './rawLog.js';
-import type { Trajectory } from '../scenario/trajectory.js';
+import { createTrajectory, type Trajectory } from '../scenario/trajectory.js';
 import { UNIT_FACTORS, type Dimension } from './units.js';
 
 export type ConvertResult = { ok: true; trajectory: Trajectory } | { ok: false; errors: string[] };
@@ -31,22 +31,7 @@ export function convertLog(raw: RawLog, loaded: LoadedLogMap, layout: SlotLayout
 
   const t0 = raw.time_s[0];
   const offset_s = map.time.offset_s ?? 0;
-  const tr: Trajectory = {
-    footCount: n,
-    count,
-    t_s: new Float64Array(count),
-    trunkPosition_m: new Float64Array(3 * count),
-    trunkQuaternion: new Float64Array(4 * count),
-    trunkVelocity_mps: new Float64Array(3 * count),
-    footPosition_m: new Float64Array(3 * n * count),
-    footVelocity_mps: new Float64Array(3 * n * count),
-    footForce_N: new Float64Array(3 * n * count),
-    contact: new Int8Array(n * count).fill(-1),
-    commandVelocity_mps: new Float64Array(2 * count),
-    commandYawRate_radps: new Float64Array(count),
-    commandGait: new Int8Array(count).fill(-1),
-    externalForce_N: layout.externalForce !== null ? new Float64Array(3 * count) : null,
-  };
+  const tr = createTrajectory(n, count, layout.externalForce !== null, -1);
   // Scenario time of a sample: its log time from the first sample, plus the map's offset (the
   // scenario time of the first sample, e.g. a recorder that starts a few ms after the run).
   for (let k = 0; k < count; k++) tr.t_s[k] = raw.time_s[k] - t0 + offset_s;

@@ -31,6 +31,30 @@ export interface Trajectory {
   externalForce_N: Float64Array | null; // 3·count
 }
 
+/**
+ * A zeroed trajectory of `count` samples for `footCount` feet. `unknown` fills the contact flags
+ * and gait codes: −1 (not logged) while a log is converted, 0 when a file gives every value.
+ */
+export function createTrajectory(footCount: number, count: number, withExternal: boolean, unknown: 0 | -1 = 0): Trajectory {
+  const n = footCount;
+  return {
+    footCount: n,
+    count,
+    t_s: new Float64Array(count),
+    trunkPosition_m: new Float64Array(3 * count),
+    trunkQuaternion: new Float64Array(4 * count),
+    trunkVelocity_mps: new Float64Array(3 * count),
+    footPosition_m: new Float64Array(3 * n * count),
+    footVelocity_mps: new Float64Array(3 * n * count),
+    footForce_N: new Float64Array(3 * n * count),
+    contact: new Int8Array(n * count).fill(unknown),
+    commandVelocity_mps: new Float64Array(2 * count),
+    commandYawRate_radps: new Float64Array(count),
+    commandGait: new Int8Array(count).fill(unknown),
+    externalForce_N: withExternal ? new Float64Array(3 * count) : null,
+  };
+}
+
 /** Decimals per column family: time 1 µs, position 1 µm, quaternion 1e-7, velocity 10 µm/s, force 1 mN. */
 const DECIMALS = { time: 6, position: 6, quaternion: 7, velocity: 5, force: 3, rate: 5 } as const;
 
@@ -178,22 +202,7 @@ export function parseTrajectory(text: string, file: string): Trajectory {
   const rows = lines.slice(at + 1).filter((l) => l.length > 0);
   const count = rows.length;
   const n = footCount;
-  const tr: Trajectory = {
-    footCount: n,
-    count,
-    t_s: new Float64Array(count),
-    trunkPosition_m: new Float64Array(3 * count),
-    trunkQuaternion: new Float64Array(4 * count),
-    trunkVelocity_mps: new Float64Array(3 * count),
-    footPosition_m: new Float64Array(3 * n * count),
-    footVelocity_mps: new Float64Array(3 * n * count),
-    footForce_N: new Float64Array(3 * n * count),
-    contact: new Int8Array(n * count),
-    commandVelocity_mps: new Float64Array(2 * count),
-    commandYawRate_radps: new Float64Array(count),
-    commandGait: new Int8Array(count),
-    externalForce_N: withExternal ? new Float64Array(3 * count) : null,
-  };
+  const tr = createTrajectory(n, count, withExternal);
   for (let k = 0; k < count; k++) {
     const cells = rows[k].split(',');
     if (cells.length !== expected.length) throw new Error(`${file}:${at + 2 + k}: ${cells.length} cells, expected ${expected.length}`);
