@@ -3,8 +3,9 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
   test: {
     include: ['test/**/*.test.ts'],
-    // Repeated-trial checks run in `npm run soak` (vitest.soak.config.ts).
-    exclude: ['test/soak/**', '**/node_modules/**'],
+    // Repeated-trial checks and the slow end-to-end files (`*.soak.test.ts`: whole CI scripts,
+    // nightly git histories, the 200-file fuzz) run in `npm run soak` (vitest.soak.config.ts).
+    exclude: ['test/soak/**', '**/*.soak.test.ts', '**/node_modules/**'],
     // Physics tests integrate seconds of simulated time; allow them room on a 2-core machine.
     testTimeout: 60_000,
     hookTimeout: 60_000,
