@@ -85,8 +85,14 @@ interface Running {
   stop(error: Error): void;
 }
 
-export function createRunPool(jobs: number): RunPool {
+export interface RunPoolOptions {
+  /** The thread's entry (runThread); a test swaps in a thread that crashes on purpose. */
+  threadUrl?: URL;
+}
+
+export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPool {
   const slots = Math.max(1, jobs);
+  const threadUrl = options.threadUrl ?? THREAD_URL;
   const queue: Queued[] = [];
   const running = new Set<Running>();
   /** Every process group a running thread announced and did not yet report gone. */
@@ -128,7 +134,7 @@ export function createRunPool(jobs: number): RunPool {
     let settled = false;
     let allowance: NodeJS.Timeout | undefined;
     let startLimit: NodeJS.Timeout | undefined;
-    const worker = new Worker(THREAD_URL, { workerData: { task: item.task } });
+    const worker = new Worker(threadUrl, { workerData: { task: item.task } });
     const entry: Running = { stop: (error) => finish(error) };
     running.add(entry);
     const awaitStart = () => {

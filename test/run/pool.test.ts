@@ -1,12 +1,15 @@
 // The run pool's promises (harness/run/pool.ts): allowances start with the run, a stopped run
 // leaves no process behind, --resume retries runs its allowance stopped, and a run's thread is
-// its own (a build's leftovers reach no other pair).
+// its own (a build's leftovers reach no other pair), and a crashed thread's build processes die
+// with it.
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import type { ResultsFile, RunResult } from '../../harness/results/types.js';
 import { runSuite } from '../../harness/commands/run.js';
+import { createRunPool, RunThreadError } from '../../harness/run/pool.js';
+import type { RunTask } from '../../harness/run/runOne.js';
 import { survivorsAfter, uniqueMarker } from '../support/processes.js';
 
 const BRIEF = 'test/run/fixtures/brief';
@@ -93,5 +96,21 @@ describe('a run\'s thread is its own', () => {
     expect(plain.metrics!.fell).toBe(true);
     const scored = (r: RunResult) => ({ status: r.status, reasons: r.reasons, fell: r.metrics?.fell, slip_m: r.metrics?.slipDistance_m, margin: r.metrics?.frictionMargin });
     expect(scored(cheat)).toEqual(scored(plain));
+  });
+});
+
+describe('a crashed run thread', () => {
+  it.each(['throw', 'exit', 'rejection'] as const)('(%s) fails its own run and leaves no process of its build behind', async (crash) => {
+    const marker = uniqueMarker(`crash-${crash}`);
+    const pool = createRunPool(1, { threadUrl: new URL('./fixtures/crashing_thread.mjs', import.meta.url) });
+    try {
+      // The fixture thread reads only `crash` and `marker`; the pool passes the task through untouched.
+      const task = { crash, marker, build: { kind: 'process' } } as unknown as RunTask;
+      await expect(pool.run(task, 60)).rejects.toThrow(RunThreadError);
+      // The child and its grandchild: the thread announced the group and never closed it.
+      expect(await survivorsAfter(marker)).toEqual([]);
+    } finally {
+      await pool.close();
+    }
   });
 });
