@@ -1,9 +1,9 @@
 // The report in a real browser: Debian's chromium driven by playwright-core, the page opened from
 // file:// as an engineer would open it on an air-gapped lab machine.
-import { existsSync, mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { pathToFileURL } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderReportHtml } from '../../harness/report/index.js';
@@ -103,6 +103,46 @@ describe.skipIf(!available)('report in headless chromium', () => {
     const floorBoxes = await page.locator('svg.plot.floor use').evaluateAll((uses) => uses.map((u) => (u as SVGGraphicsElement).getBBox().width));
     expect(floorBoxes.length).toBeGreaterThan(0);
     expect(floorBoxes.some((w) => w > 0)).toBe(true);
+  });
+
+  it('plots every telemetry scalar each build recorded, under its name prefix, and hides them with their build', async () => {
+    // results.json is the record: each run names its telemetry scalars with their extremes
+    // (null when no tick recorded one). The page must show exactly those, per scenario and build.
+    await page.locator('button[data-action="expand"]').click();
+    const results = JSON.parse(readFileSync(path.join(path.dirname(fileURLToPath(url)), 'results.json'), 'utf8')) as ResultsFile;
+    const builds = [...new Set(results.runs.map((r) => r.build))];
+    let checked = 0;
+    for (const run of results.runs) {
+      const recorded = (run.telemetry ?? []).filter((t) => t.min !== null).map((t) => t.name);
+      const section = page.locator('details.scenario').filter({ has: page.locator(`summary .id:text-matches("^${run.scenario.id} ")`) });
+      const block = section.locator(`div.telemetry[data-build="${builds.indexOf(run.build)}"]`);
+      if (recorded.length === 0) {
+        expect(await block.count(), `${run.scenario.id} × ${run.build}`).toBe(0);
+        continue;
+      }
+      // Target/applied pairs of the governor are drawn together in the governor panels (one per
+      // axis, or a line saying they stayed constant); every other scalar gets a figure of its own,
+      // grouped by prefix in the order the build names them.
+      const paired = recorded.filter((name) => /^governor\.(target|applied)\./.test(name));
+      const own = recorded.filter((name) => !paired.includes(name));
+      const prefixes = [...new Set(own.map((name) => name.split('.')[0]))];
+      const grouped = prefixes.flatMap((prefix) => own.filter((name) => name.split('.')[0] === prefix));
+      // A caption is the name, then the page's own SVG/CSV download buttons.
+      expect((await block.locator('figure figcaption').allInnerTexts()).map((text) => text.split('\n')[0])).toEqual(grouped);
+      expect(await block.locator('h5').allInnerTexts()).toEqual(prefixes.map((prefix) => expect.stringContaining(`${run.build} · ${prefix}`)));
+      const drawn = await block.locator('svg.plot').evaluateAll((svgs) => svgs.map((svg) => [...svg.querySelectorAll('path')].some((p) => (p as SVGPathElement).getTotalLength() > 0)));
+      expect(drawn).toEqual(grouped.map(() => true));
+      const governorText = (await section.locator(`[data-build="${builds.indexOf(run.build)}"]:is(.panel-group, p.hint)`).allInnerTexts()).join('\n');
+      for (const axis of new Set(paired.map((name) => name.split('.').slice(2).join('.')))) expect(governorText, `${run.scenario.id} × ${run.build}`).toContain(axis);
+      checked++;
+    }
+    // The governed reference build names governor.* and core scalars on every scenario it ran.
+    expect(checked).toBeGreaterThanOrEqual(results.runs.filter((r) => r.build === 'governed').length);
+    const governed = page.locator(`div.telemetry[data-build="${builds.indexOf('governed')}"]`).first();
+    expect(await governed.isVisible()).toBe(true);
+    await page.locator(`input[data-filter="${builds.indexOf('governed')}"]`).uncheck();
+    expect(await governed.isVisible()).toBe(false);
+    await page.locator(`input[data-filter="${builds.indexOf('governed')}"]`).check();
   });
 
   it('collapses and opens a scenario section by its summary', async () => {
