@@ -48,7 +48,7 @@ export async function runBenchCommand(args: BenchCommandArgs): Promise<BenchComm
   if (args.time_ms !== undefined && !(Number.isFinite(args.time_ms) && args.time_ms > 0)) {
     return { exitCode: EXIT.badInput, lines: [`footing bench: --time-ms ${args.time_ms}: expected a positive number of milliseconds per task`] };
   }
-  const configured = configuredSuite('bench', { build: args.builds, config: args.config, suite: args.suite, cwd });
+  const configured = await configuredSuite('bench', { build: args.builds, config: args.config, suite: args.suite, cwd });
   if ('exitCode' in configured) return configured;
   const parsed = configured.builds.length > 0 ? prepareBuilds('bench', configured.builds, cwd) : { ok: true as const, value: defaultBenchBuilds() };
   if (!parsed.ok) return { exitCode: EXIT.badInput, lines: parsed.lines };
@@ -58,7 +58,7 @@ export async function runBenchCommand(args: BenchCommandArgs): Promise<BenchComm
   const loaded = await loadScenarioFile(scenarioFile, { cwd });
   if (!loaded.ok) return { exitCode: EXIT.badInput, lines: [`footing bench: --scenario ${scenarioFile}:`, ...loaded.errors.map(formatIssue)] };
   if (loaded.scenarios.length === 0) return { exitCode: EXIT.badInput, lines: [`footing bench: --scenario ${scenarioFile}: the file yields no scenario`] };
-  const lines: string[] = [];
+  const lines: string[] = [...configured.lines];
   if (loaded.scenarios.length > 1) {
     lines.push(`footing bench: ${scenarioFile} expands to ${loaded.scenarios.length} scenarios; benching the first, ${loaded.scenarios[0].id}`);
   }

@@ -91,7 +91,7 @@ export interface MarginCommandArgs {
 
 export async function runMarginCommand(args: MarginCommandArgs): Promise<CommandOutcome> {
   try {
-    const configured = configuredSuite('margin', args);
+    const configured = await configuredSuite('margin', args, args.log);
     if ('exitCode' in configured) return configured;
     const outcome = await runMargins({
       paths: configured.paths,
@@ -104,7 +104,7 @@ export async function runMarginCommand(args: MarginCommandArgs): Promise<Command
       cwd: configured.cwd,
       log: args.log,
     });
-    return { exitCode: outcome.exitCode, lines: outcome.lines };
+    return { exitCode: outcome.exitCode, lines: [...configured.lines, ...outcome.lines] };
   } catch (error) {
     return { exitCode: EXIT.internal, lines: [`footing margin: internal error: ${(error as Error).stack ?? String(error)}`] };
   }

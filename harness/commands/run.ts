@@ -8,7 +8,6 @@ import { attachBench } from '../bench/attach.js';
 import { measurePairedLoopTime, recordStreams } from '../bench/pairedLoopTime.js';
 import { DEFAULT_BENCH_SCENARIO } from '../bench/defaults.js';
 import { runBench } from '../bench/run.js';
-import { GitRefError, prepareGitBuild, resolveRef } from '../builds/git.js';
 import type { BuildSpec } from '../builds/spec.js';
 import { describeOrigin, itemLabel, type RunFlags } from '../config/resolve.js';
 import { writeFileAtomicSync } from '../files/atomic.js';
@@ -31,6 +30,7 @@ import { countStatuses, runPairs, SuiteInterruptedError } from '../run/suite.js'
 import { loadScenarioFile } from '../scenario/load.js';
 import { TOOL_VERSION } from '../version.js';
 import { resolveForCommand } from './config.js';
+import { prepareConfiguredBuilds } from './gitBuilds.js';
 import { EXIT, exitCodeOfRuns, type ExitCode } from './exit.js';
 import { OUTPUT_FILES, writeOutputs } from './outputs.js';
 import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
@@ -274,44 +274,9 @@ export async function runConfiguredSuite(flags: RunFlags, options: ConfiguredRun
   if (!resolved.ok) return out.badInput(...resolved.lines, 'footing run: nothing was run; fix the configuration above (footing config --print shows what was resolved)');
   const settings = resolved.settings;
 
-  // Every ref is resolved before anything is built: a typo in the last ref should not cost a build.
-  const refProblems: string[] = [];
-  for (const build of settings.builds) {
-    if (build.kind !== 'git') continue;
-    try {
-      await resolveRef(build.recipe.repo, build.recipe.ref);
-    } catch (error) {
-      if (!(error instanceof GitRefError)) throw error;
-      refProblems.push(`${itemLabel(build.origin)}: ${error.message}`);
-    }
-  }
-  if (refProblems.length > 0) {
-    return out.badInput(...refProblems, 'footing run: nothing was run; fix the refs above');
-  }
-
-  const prepared: PreparedBuild[] = [];
-  for (const build of settings.builds) {
-    if (build.kind === 'spec') {
-      prepared.push({ spec: build.spec });
-      continue;
-    }
-    const started = performance.now();
-    const outcome = await prepareGitBuild(build.recipe);
-    const took = ((performance.now() - started) / 1000).toFixed(1);
-    if (outcome.ok) {
-      log(`build ${build.name}: git ${build.recipe.ref} → ${outcome.origin.commit.slice(0, 12)} ${outcome.origin.cached ? '(cached)' : `(built in ${took} s)`}`);
-      prepared.push({ spec: outcome.spec, manifest: outcome.manifest });
-    } else {
-      const message = `${itemLabel(build.origin)}: ${outcome.message}`;
-      log(`build ${build.name} FAILED: ${message}`);
-      if (outcome.outputTail !== '') for (const line of outcome.outputTail.split('\n')) log(`  | ${line}`);
-      prepared.push({
-        spec: { name: build.name, kind: build.recipe.kind, entry: build.recipe.entry, args: [], options: {}, cwd: build.recipe.repo, text: `${build.name}=${build.text}` },
-        manifest: { name: build.name, kind: build.recipe.kind, entry: build.recipe.entry, commit: outcome.origin.commit ?? null, dirty: null, origin: { repo: build.recipe.repo, ref: build.recipe.ref, commit: outcome.origin.commit ?? null, build: build.recipe.build ?? null, failed: true } },
-        failure: { message, outputTail: outcome.outputTail },
-      });
-    }
-  }
+  const git = await prepareConfiguredBuilds(settings.builds, log);
+  if (!git.ok) return out.badInput(...git.lines, 'footing run: nothing was run; fix the refs above');
+  const prepared = git.prepared;
   if (settings.bench.value) log(`bench: on (${describeOrigin(settings.bench.origin)}); figures attached to results.json`);
 
   const outcome = await runSuite({

@@ -1,5 +1,5 @@
 // `footing bench --config/--suite` benches the builds footing.config.yaml names (the suite's), as
-// `footing run` resolves them; a git-ref build there is refused with its name (built by run only).
+// `footing run` resolves them; git-ref builds are built as run builds them (test/commands/configuredGit.test.ts).
 
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -24,10 +24,10 @@ describe('footing bench with the config file', () => {
     expect(outcome.report?.builds.map((b) => b.name)).toEqual(['nominal']);
   });
 
-  it('refuses a git-ref build of the suite, naming it (exit 2)', async () => {
+  it('a git-ref build outside a git repository is bad input, named with its config item (exit 2)', async () => {
     const dir = project(`suites:\n  merge: [${JSON.stringify(path.dirname(SCENARIO))}]\ngit: { entry: build/ctl }\nbuilds:\n  main: git:main\n`);
     const outcome = await runBenchCommand({ builds: [], suite: 'merge', scenario: SCENARIO, time_ms: 20, cwd: dir });
     expect(outcome.exitCode).toBe(EXIT.badInput);
-    expect(outcome.lines.join('\n')).toMatch(/build main \(git:main\) is built by footing run only/);
+    expect(outcome.lines.join('\n')).toMatch(/footing\.config\.yaml:5:9: builds\.main: .*\n.*nothing was run; fix the refs above/);
   });
 });
