@@ -317,8 +317,9 @@ export function loopTimePlot(series: RunSeries): SvgMarkup {
   const last = lt.bins.length > 0 ? edge(lt.bins[lt.bins.length - 1][0] + 1) : lt.budget_us;
   const d0 = Math.log10(Math.min(first, lt.budget_us / 10));
   const d1 = Math.log10(Math.max(last, lt.budget_us * 2));
-  const lo = Math.floor(d0);
-  const hi = Math.ceil(d1);
+  // Clamped to 1 ns … 1000 s (the series validator's range), so no input can ask for endless decades.
+  const lo = Math.max(-3, Math.min(8, Math.floor(d0)));
+  const hi = Math.max(lo + 1, Math.min(9, Math.ceil(d1)));
   const x = linearScale(lo, hi, LEFT, PLOT_WIDTH - RIGHT);
   const maxCount = Math.max(1, ...lt.bins.map(([, c]) => c));
   const y = linearScale(0, maxCount, bottom, top);

@@ -96,7 +96,8 @@ const SERIES_SCHEMA = {
           items: { type: 'array', minItems: 2, maxItems: 2, prefixItems: [{ type: 'integer', minimum: 0, maximum: 10_000 }, { type: 'integer', minimum: 0, maximum: 1e12 }] },
         },
         ticks: { type: 'integer', minimum: 0, maximum: 1e12 },
-        budget_us: { type: 'number', minimum: 0, maximum: 1e9 },
+        // A budget is positive (scenario schema: exclusiveMinimum 0): the plot's log axis needs it.
+        budget_us: { type: 'number', minimum: 1e-3, maximum: 1e9 },
       },
     },
     friction: {
@@ -135,6 +136,9 @@ const SERIES_SCHEMA = {
   },
 } as const;
 
+/** The longest loop time a series may bin, µs (1000 s: far beyond any control period). */
+export const MAX_LOOP_TIME_us = 1e9;
+
 let compiled: ValidateFunction | undefined;
 
 function validator(): ValidateFunction {
@@ -169,6 +173,10 @@ export function validateSeries(value: unknown): { ok: true; series: RunSeries } 
   for (const [pointer, list] of lengths) {
     if (list.length !== buckets) return { ok: false, problem: `${pointer} has ${list.length} values, t_s has ${buckets} buckets` };
   }
+  // Bin edges must stay on the plot's log axis (1 ns to 1000 s): start_us·ratio^k for the last bin.
+  const lt = series.loopTime;
+  const bad = lt.bins.findIndex(([k]) => !(lt.start_us * lt.ratio ** (k + 1) <= MAX_LOOP_TIME_us));
+  if (bad >= 0) return { ok: false, problem: `/loopTime/bins/${bad} bin ${lt.bins[bad][0]} ends beyond ${MAX_LOOP_TIME_us} µs (start_us ${lt.start_us}, ratio ${lt.ratio})` };
   for (const [key, list] of [['footholds', series.footholds], ['slips', series.slips]] as const) {
     const bad = list.findIndex((item) => item.foot >= series.footCount);
     if (bad >= 0) return { ok: false, problem: `/${key}/${bad}/foot names foot ${list[bad].foot} of ${series.footCount}` };
