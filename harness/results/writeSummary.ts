@@ -69,6 +69,10 @@ export function renderAheadMarkdown(results: ResultsFile, options: SummaryOption
   if (table.unpaired.length > 0) {
     lines.push('', `Not compared (run by one of the two builds only): ${table.unpaired.map(markdownCode).join(', ')}`);
   }
+  const unknown = results.runs.filter((r) => (r.build === table.leaderBuild || r.build === table.otherBuild) && r.scenario.lowestStaticFriction === undefined);
+  if (unknown.length > 0) {
+    lines.push('', `Not judged: ${unknown.length} run${unknown.length === 1 ? '' : 's'} without \`lowestStaticFriction\` (written before it was recorded).`);
+  }
   return lines;
 }
 

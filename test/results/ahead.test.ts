@@ -7,6 +7,7 @@ import { DEFAULT_GATE_RULES } from '../../harness/gate/defaults.js';
 import { aheadBuilds, aheadTable, DEFAULT_AHEAD_ALLOWANCES, judgeAhead, stanceMarginMin, verdictOf } from '../../harness/results/ahead.js';
 import { createResultsFile, createErrorRunResult } from '../../harness/results/runResult.js';
 import { isSlippery, lowestStaticFriction, SLIPPERY_STATIC_FRICTION } from '../../harness/results/slippery.js';
+import { validateResults } from '../../harness/results/validate.js';
 import { renderAheadMarkdown } from '../../harness/results/writeSummary.js';
 import type { BuildManifest } from '../../harness/results/types.js';
 import { makeScenario } from '../score/fixtures.js';
@@ -147,4 +148,20 @@ describe('ahead table on a small run', () => {
     expect(summary).not.toMatch(/\| hall-friction-0p9 \| 0\.90/);
     expect(summary).toContain('governed ahead of nominal on 1 of 1 slippery scenarios');
   }, 120_000);
+});
+
+describe('ahead: results written before lowestStaticFriction', () => {
+  it('still validate, and their summary has no slippery scenario to count', () => {
+    const old = createResultsFile({
+      toolVersion: '0.1.0',
+      machine: MACHINE,
+      builds: [{ name: 'gov', kind: 'reference', entry: 'governed', options: {} }, { name: 'nom', kind: 'reference', entry: 'nominal', options: {} }],
+      runs: [scoredRun(scenario, 'gov'), scoredRun(scenario, 'nom', { fx_N: 14 })],
+    });
+    for (const run of old.runs) delete run.scenario.lowestStaticFriction;
+    expect(validateResults(JSON.parse(JSON.stringify(old))).ok).toBe(true);
+    const text = renderAheadMarkdown(old, { baseline: 'gov' }).join('\n');
+    expect(text).toContain('gov ahead of nom on 0 of 0 slippery scenarios');
+    expect(text).toContain('Not judged: 2 runs without `lowestStaticFriction` (written before it was recorded).');
+  });
 });
