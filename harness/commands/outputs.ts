@@ -10,7 +10,7 @@ import type { GateOutcome } from '../gate/types.js';
 import type { AheadAllowances } from '../results/ahead.js';
 import { junitRunKey, writeJunitXml, type JunitRunChanges } from '../results/writeJunit.js';
 import { writeResultsJson } from '../results/writeJson.js';
-import { writeSummaryMarkdown } from '../results/writeSummary.js';
+import { aheadSummaryLine, writeSummaryMarkdown } from '../results/writeSummary.js';
 import { RESULTS_FILE_NAME, type ResultsFile } from '../results/types.js';
 
 export const OUTPUT_FILES = {
@@ -40,6 +40,11 @@ function aheadAllowances(policy: GatePolicy | undefined): AheadAllowances {
     slipDistanceGrowth_m: rules?.slipDistanceGrowth_m ?? (DEFAULT_GATE_RULES.slipDistanceGrowth_m as number),
     slipDistanceGrowthFraction: rules?.slipDistanceGrowthFraction ?? (DEFAULT_GATE_RULES.slipDistanceGrowthFraction as number),
   };
+}
+
+/** summary.md's ahead count for the terminal, judged as summary.md judges it; null without a table. */
+export function aheadLine(results: ResultsFile, baseline: string | undefined, policy: GatePolicy | undefined): string | null {
+  return aheadSummaryLine(results, { baseline, allowances: aheadAllowances(policy) });
 }
 
 export function writeOutputs(outDir: string, results: ResultsFile, report: OutputOptions = {}): string[] {

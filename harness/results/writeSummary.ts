@@ -3,7 +3,7 @@
 
 import { writeFileAtomicSync } from '../files/atomic.js';
 import { markdownCode, markdownInline } from '../files/markdown.js';
-import { aheadBuilds, aheadTable, stanceMarginMin, verdictOf, type AheadAllowances } from './ahead.js';
+import { aheadBuilds, aheadTable, stanceMarginMin, verdictOf, type AheadAllowances, type AheadTable } from './ahead.js';
 import { runsByBuild } from './buildOrder.js';
 import { SLIPPERY_STATIC_FRICTION } from './slippery.js';
 import type { ResultsFile, RunResult } from './types.js';
@@ -37,6 +37,18 @@ function worst(runs: RunResult[], pick: (r: RunResult) => number | null | undefi
 
 const STATUS_MARK = { pass: '✅ pass', fail: '❌ fail', error: '⚠️ error' } as const;
 
+function aheadCountLine(table: AheadTable, name: (build: string) => string): string {
+  const ahead = table.rows.filter((row) => row.judgement.ahead).length;
+  return `${name(table.leaderBuild)} ahead of ${name(table.otherBuild)} on ${ahead} of ${table.rows.length} slippery scenarios`;
+}
+
+/** The count line alone, for the terminal (plain text); null when there is no table to count. */
+export function aheadSummaryLine(results: ResultsFile, options: SummaryOptions = {}): string | null {
+  const builds = aheadBuilds(results, options.baseline);
+  if ('missing' in builds) return null;
+  return aheadCountLine(aheadTable(results, builds.leader, builds.other, options.allowances), (build) => build);
+}
+
 /**
  * The ahead table (docs/scoring.md, Ahead): per slippery scenario the two builds' verdicts, stance
  * margins and slips, the judgement, and the count. Computed from the runs, never written by hand.
@@ -64,8 +76,7 @@ export function renderAheadMarkdown(results: ResultsFile, options: SummaryOption
     }
     lines.push('');
   }
-  const ahead = table.rows.filter((row) => row.judgement.ahead).length;
-  lines.push(`${a} ahead of ${b} on ${ahead} of ${table.rows.length} slippery scenarios`);
+  lines.push(aheadCountLine(table, markdownCell));
   if (table.unpaired.length > 0) {
     lines.push('', `Not compared (run by one of the two builds only): ${table.unpaired.map(markdownCode).join(', ')}`);
   }
