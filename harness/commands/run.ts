@@ -32,7 +32,7 @@ import { TOOL_VERSION } from '../version.js';
 import { resolveForCommand } from './config.js';
 import { prepareConfiguredBuilds } from './gitBuilds.js';
 import { EXIT, exitCodeOfRuns, type ExitCode } from './exit.js';
-import { OUTPUT_FILES, writeOutputs } from './outputs.js';
+import { aheadLine, OUTPUT_FILES, writeOutputs } from './outputs.js';
 import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
 
 export type { PreparedBuild } from '../run/prepare.js';
@@ -158,6 +158,8 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   const counts = countStatuses(runs);
   log(`${runs.length} runs: ${counts.pass} pass, ${counts.fail} fail, ${counts.error} error — ${path.relative(cwd, outDir) || '.'}/${OUTPUT_FILES.report}`);
   for (const line of failingSummary(runs)) log(line);
+  const ahead = aheadLine(resultsFile, options.baseline, policy);
+  if (ahead !== null) log(`${ahead} (${OUTPUT_FILES.summary}, docs/scoring.md)`);
   if (gateOutcome) {
     // First divergence of the traces (results/divergence.ts), when the runs kept traces.
     const resultsRef = { file: path.join(outDir, OUTPUT_FILES.results), results: resultsFile };

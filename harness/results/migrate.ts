@@ -1,6 +1,9 @@
 // Older results files, read in memory as the current format. Version 1 → 2 only added optional
 // fields (run `margin`, scenario `family`, top-level `families`), so a v1 file is a v2 file with
-// a different version number. Anything else is left alone for the schema to report.
+// a different version number. Optional fields added within version 2 (scenario `start`,
+// scenario `lowestStaticFriction`) need no step: a file without them is read as it is, and the
+// summary's ahead table simply finds no slippery scenario in it. Anything else is left alone for
+// the schema to report.
 
 import { RESULTS_FORMAT, RESULTS_FORMAT_VERSION } from './types.js';
 

@@ -4,6 +4,7 @@
 import { availableParallelism, cpus } from 'node:os';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { summarizeFamilies } from './familySummary.js';
+import { lowestStaticFriction } from './slippery.js';
 import { evaluateAcceptance } from '../score/acceptance.js';
 import type { RunMetrics } from '../score/types.js';
 import {
@@ -26,6 +27,7 @@ export function scenarioRef(scenario: ResolvedScenario): ScenarioRef {
     file: scenario.file,
     title: scenario.title,
     start: scenario.plant.initial.start,
+    lowestStaticFriction: lowestStaticFriction(scenario.plant.ground.friction),
   };
   if (scenario.family) ref.family = scenario.family;
   return ref;

@@ -35,6 +35,11 @@ export interface ScenarioRef {
   family?: FamilyMembership;
   /** How the run began (the resolved scenario's plant.initial.start). */
   start?: StartMode;
+  /**
+   * The lowest static friction coefficient over the floor, its patches and raster cells
+   * (results/slippery.ts). Optional: results written before it existed lack it.
+   */
+  lowestStaticFriction?: number;
 }
 
 export type RunStatus = 'pass' | 'fail' | 'error';

@@ -3,8 +3,17 @@
 
 import { writeFileAtomicSync } from '../files/atomic.js';
 import { markdownCode, markdownInline } from '../files/markdown.js';
+import { aheadBuilds, aheadTable, stanceMarginMin, verdictOf, type AheadAllowances, type AheadTable } from './ahead.js';
 import { runsByBuild } from './buildOrder.js';
+import { SLIPPERY_STATIC_FRICTION } from './slippery.js';
 import type { ResultsFile, RunResult } from './types.js';
+
+export interface SummaryOptions {
+  /** The gate's baseline build of the run (`footing run --baseline`): the leader of the ahead table. */
+  baseline?: string;
+  /** What counts as a difference in the ahead table (the run's gate policy; default the gate's). */
+  allowances?: AheadAllowances;
+}
 
 /** Failures listed in full before "… and N more" (keeps the comment short). */
 export const SUMMARY_FAILURE_LIMIT = 20;
@@ -28,7 +37,57 @@ function worst(runs: RunResult[], pick: (r: RunResult) => number | null | undefi
 
 const STATUS_MARK = { pass: '✅ pass', fail: '❌ fail', error: '⚠️ error' } as const;
 
-export function renderSummaryMarkdown(results: ResultsFile): string {
+function aheadCountLine(table: AheadTable, name: (build: string) => string): string {
+  const ahead = table.rows.filter((row) => row.judgement.ahead).length;
+  return `${name(table.leaderBuild)} ahead of ${name(table.otherBuild)} on ${ahead} of ${table.rows.length} slippery scenarios`;
+}
+
+/** The count line alone, for the terminal (plain text); null when there is no table to count. */
+export function aheadSummaryLine(results: ResultsFile, options: SummaryOptions = {}): string | null {
+  const builds = aheadBuilds(results, options.baseline);
+  if ('missing' in builds) return null;
+  return aheadCountLine(aheadTable(results, builds.leader, builds.other, options.allowances), (build) => build);
+}
+
+/**
+ * The ahead table (docs/scoring.md, Ahead): per slippery scenario the two builds' verdicts, stance
+ * margins and slips, the judgement, and the count. Computed from the runs, never written by hand.
+ */
+export function renderAheadMarkdown(results: ResultsFile, options: SummaryOptions = {}): string[] {
+  const title = `**Ahead on slippery scenarios** (lowest μs ≤ ${SLIPPERY_STATIC_FRICTION}, docs/scoring.md)`;
+  const builds = aheadBuilds(results, options.baseline);
+  if ('missing' in builds) return [title, '', `No ahead table: ${markdownInline(builds.missing)}.`];
+  const table = aheadTable(results, builds.leader, builds.other, options.allowances);
+  const a = markdownCell(table.leaderBuild);
+  const b = markdownCell(table.otherBuild);
+  const lines = [title, ''];
+  if (table.rows.length > 0) {
+    lines.push(
+      `| scenario | lowest μs | ${a} | ${b} | ${a} margin min | ${b} margin min | ${a} slip (m) | ${b} slip (m) | ${a} vs ${b} |`,
+      '|---|---:|---|---|---:|---:|---:|---:|---|',
+    );
+    for (const row of table.rows) {
+      lines.push(
+        `| ${markdownCell(row.scenario)} | ${fixed(row.lowestStaticFriction, 2)} | ${verdictOf(row.leader)} | ${verdictOf(row.other)} | ` +
+          `${fixed(stanceMarginMin(row.leader), 3)} | ${fixed(stanceMarginMin(row.other), 3)} | ` +
+          `${fixed(row.leader.metrics?.slipDistance_m, 4)} | ${fixed(row.other.metrics?.slipDistance_m, 4)} | ` +
+          `${row.judgement.ahead ? 'ahead' : 'not ahead'} (${row.judgement.reason}) |`,
+      );
+    }
+    lines.push('');
+  }
+  lines.push(aheadCountLine(table, markdownCell));
+  if (table.unpaired.length > 0) {
+    lines.push('', `Not compared (run by one of the two builds only): ${table.unpaired.map(markdownCode).join(', ')}`);
+  }
+  const unknown = results.runs.filter((r) => (r.build === table.leaderBuild || r.build === table.otherBuild) && r.scenario.lowestStaticFriction === undefined);
+  if (unknown.length > 0) {
+    lines.push('', `Not judged: ${unknown.length} run${unknown.length === 1 ? '' : 's'} without \`lowestStaticFriction\` (written before it was recorded).`);
+  }
+  return lines;
+}
+
+export function renderSummaryMarkdown(results: ResultsFile, options: SummaryOptions = {}): string {
   const runs = results.runs;
   const count = (status: string, list = runs) => list.filter((r) => r.status === status).length;
   const lines: string[] = [];
@@ -46,6 +105,7 @@ export function renderSummaryMarkdown(results: ResultsFile): string {
         `${list.filter((r) => r.metrics?.fell).length} |`,
     );
   }
+  lines.push('', ...renderAheadMarkdown(results, options));
   const failing = runs.filter((r) => r.status !== 'pass');
   if (failing.length > 0) {
     lines.push('', '**Not passing**', '');
@@ -74,6 +134,6 @@ export function renderSummaryMarkdown(results: ResultsFile): string {
   return lines.join('\n');
 }
 
-export function writeSummaryMarkdown(file: string, results: ResultsFile): void {
-  writeFileAtomicSync(file, renderSummaryMarkdown(results));
+export function writeSummaryMarkdown(file: string, results: ResultsFile, options: SummaryOptions = {}): void {
+  writeFileAtomicSync(file, renderSummaryMarkdown(results, options));
 }
