@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { createAction, createObservation, STANCE, type Controller, type Observation } from '../../../harness/builds/interface.js';
 import { referenceBuilds } from '../../../harness/builds/reference/index.js';
 import { STANDARD_GRAVITY_mps2 } from '../../../harness/plant/defaults.js';
+import { standingObservation } from '../../support/observations.js';
 import { testRobot } from '../../support/robots.js';
 
 const robot = testRobot();
@@ -14,20 +15,6 @@ function setup(options: Record<string, unknown> = {}) {
   return { robot, controlRate_Hz: 1000, physicsStep_s: 0.0005, gravity_mps2: [0, 0, -STANDARD_GRAVITY_mps2] as [number, number, number], options };
 }
 
-function standingObservation(): Observation {
-  const obs = createObservation(4);
-  obs.trunkPosition_m.set([0, 0, robot.standingHeight_m]);
-  for (let i = 0; i < 4; i++) {
-    obs.footPosition_m.set([robot.hips_m[i][0], robot.hips_m[i][1], 0], 3 * i);
-    obs.footContact[i] = 1;
-    obs.footForce_N[3 * i + 2] = 50;
-  }
-  obs.frictionEstimate.fill(0.5);
-  obs.command.gait = 'trot';
-  obs.command.velocity_mps[0] = 0.4;
-  obs.command.yawRate_radps = 0.2;
-  return obs;
-}
 
 async function make(id: string, options: Record<string, unknown> = {}): Promise<Controller> {
   return await referenceBuilds[id](setup(options));
@@ -41,7 +28,7 @@ describe('reference builds', () => {
   for (const id of Object.keys(referenceBuilds)) {
     it(`${id}: writes finite actions for a standing start into a trot, over several gait periods`, async () => {
       const c = await make(id);
-      const obs = standingObservation();
+      const obs = standingObservation(robot, 50);
       const action = createAction(4, c.telemetryNames.length);
       let swings = 0;
       let nonFinite = 0;
@@ -72,7 +59,7 @@ describe('reference builds', () => {
 
   it('governed: the applied reference starts at rest and moves toward the target', async () => {
     const c = await make('governed');
-    const obs = standingObservation();
+    const obs = standingObservation(robot, 50);
     const action = createAction(4, c.telemetryNames.length);
     const index = (name: string) => c.telemetryNames.indexOf(name);
     c.tick(obs, action);
