@@ -3,7 +3,7 @@
 // report the governor's target and applied reference as telemetry. (Allocation: allocation.test.ts.)
 
 import { describe, expect, it } from 'vitest';
-import { createAction, createObservation, STANCE, type Controller, type Observation } from '../../../harness/builds/interface.js';
+import { createAction, STANCE, type Controller } from '../../../harness/builds/interface.js';
 import { referenceBuilds } from '../../../harness/builds/reference/index.js';
 import { STANDARD_GRAVITY_mps2 } from '../../../harness/plant/defaults.js';
 import { standingObservation } from '../../support/observations.js';
