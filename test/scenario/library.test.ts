@@ -59,6 +59,21 @@ describe('the bundled library', () => {
     expect(needed).toBeGreaterThan(g.friction.default.staticFriction / Math.SQRT2);
   });
 
+  it('asks the near-limit ramp for a walk across its contour after a settled stand, then a stop and a hold', async () => {
+    const r = await loadScenarioFile(path.join(LIBRARY, 'ramp-stand-near-limit.yaml'), { cwd: REPO });
+    if (!r.ok) throw new Error(r.errors.map((e) => e.message).join('\n'));
+    const s = r.scenarios[0];
+    expect(s.plant.initial.start).toBe('settled');
+    expect(s.plant.ground.incline_deg.roll).toBe(0); // downhill is −x, so the contour is ±y
+    const [stand, walk, stop] = s.commands;
+    expect(s.commands).toHaveLength(3);
+    expect([stand.gait, walk.gait, stop.gait]).toEqual(['stand', 'trot', 'stand']);
+    expect(walk.at_s).toBeGreaterThanOrEqual(1); // a settled stand held before the walk
+    expect(walk.velocity_mps[0]).toBe(0); // across, not up or down the slope
+    expect(Math.abs(walk.velocity_mps[1])).toBeGreaterThan(0);
+    expect(s.duration_s - stop.at_s).toBeGreaterThanOrEqual(2); // the hold after the stop
+  });
+
   it('loads in a deterministic order with stable hashes', async () => {
     const a = await loadSuite([LIBRARY], { cwd: REPO });
     const b = await loadSuite([path.join(LIBRARY, 'wet-start-stop.yaml'), LIBRARY], { cwd: REPO });
