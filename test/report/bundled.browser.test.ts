@@ -26,6 +26,13 @@ const BASELINE = 'governed';
  * at most 25 % more for the same data.
  */
 const BYTES_PER_RUN_BEFORE = 3_279_625 / 88;
+/**
+ * Data the bundled runs gained since that figure, in this layout (telemetry plots left out as
+ * below): revision 4 of ramp-stand-near-limit walks where revision 3 stood, and its section of
+ * the report grew from 104,777 B to 162,157 B (measured on 2026-12-02 with `npm start` on both
+ * revisions). New data is not layout growth, so it is taken off before the 25 % rule.
+ */
+const BYTES_OF_DATA_ADDED_SINCE = 162_157 - 104_777;
 
 describe.skipIf(!existsSync(CHROMIUM))('the bundled run in headless chromium', () => {
   let browser: Browser;
@@ -290,6 +297,6 @@ describe.skipIf(!existsSync(CHROMIUM))('the bundled run in headless chromium', (
     // Same data: the telemetry plots draw data the runs did not record when the figure above was
     // taken (build telemetry is recorded since), so they are left out of the comparison.
     const sameData = html.replace(/<svg class="plot telemetry"[\s\S]*?<\/svg>/g, '');
-    expect(Buffer.byteLength(sameData) / results.runs.length).toBeLessThanOrEqual(1.25 * BYTES_PER_RUN_BEFORE);
+    expect((Buffer.byteLength(sameData) - BYTES_OF_DATA_ADDED_SINCE) / results.runs.length).toBeLessThanOrEqual(1.25 * BYTES_PER_RUN_BEFORE);
   });
 });
