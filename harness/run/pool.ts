@@ -19,6 +19,7 @@ import { createErrorRunResult } from '../results/runResult.js';
 import type { RunResult } from '../results/types.js';
 import type { RunTask } from './runOne.js';
 import { runInProcess } from './inProcess.js';
+import { postedTask } from './sharedRaster.js';
 import type { RunThreadMessage } from './runThread.js';
 
 /** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
@@ -134,7 +135,7 @@ export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPo
     let settled = false;
     let allowance: NodeJS.Timeout | undefined;
     let startLimit: NodeJS.Timeout | undefined;
-    const worker = new Worker(threadUrl, { workerData: { task: item.task } });
+    const worker = new Worker(threadUrl, { workerData: { task: postedTask(item.task) } });
     const entry: Running = { stop: (error) => finish(error) };
     running.add(entry);
     const awaitStart = () => {
@@ -155,7 +156,7 @@ export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPo
         item = queue.splice(next, 1)[0];
         settled = false;
         awaitStart();
-        worker.postMessage({ task: item.task });
+        worker.postMessage({ task: postedTask(item.task) });
       } else {
         running.delete(entry);
         void worker.terminate();

@@ -13,6 +13,7 @@ import { parentPort, workerData } from 'node:worker_threads';
 import { setImmediate as nextTurn } from 'node:timers/promises';
 import { watchProcessGroups } from '../builds/process/groups.js';
 import { runOne, type RunTask } from './runOne.js';
+import { receivedTask, type PostedTask } from './sharedRaster.js';
 
 export type RunThreadMessage =
   | { kind: 'started' }
@@ -40,8 +41,9 @@ if (parentPort !== null && workerData?.task !== undefined) {
   const port = parentPort;
   const post = (message: RunThreadMessage) => port.postMessage(message);
   // Runs are served strictly one after another: the pool posts the next only after a result.
-  let chain = serveOneRun(workerData.task as RunTask, post);
-  port.on('message', (message: { task: RunTask }) => {
-    chain = chain.then(() => serveOneRun(message.task, post));
+  // A raster's grids arrive in shared memory (sharedRaster.ts), posted once per raster.
+  let chain = serveOneRun(receivedTask(workerData.task as PostedTask), post);
+  port.on('message', (message: { task: PostedTask }) => {
+    chain = chain.then(() => serveOneRun(receivedTask(message.task), post));
   });
 }
