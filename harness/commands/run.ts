@@ -126,7 +126,9 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   const runLocked = async (): Promise<SuiteRunOutcome> => {
   const manifests = await buildManifests(specs, prepared);
   const startedAt = new Date();
+  const writtenSeries = new Set<string>();
   const runs = await runPairs({
+    writtenSeries,
     scenarios,
     builds: specs,
     prepared,
@@ -151,7 +153,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   }
   // The gate runs first so that the report shows the gate's own regression list.
   const gateOutcome = options.baseline !== undefined ? gateWithinResults(resultsFile, options.baseline, policy, undefined, resultsFile.loopTime) : undefined;
-  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy, scenarios });
+  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy, scenarios, writtenSeries });
 
   // With a baseline the gate decides: a run failing on both sides is inherited, not a block.
   const exitCode: ExitCode = gateOutcome ? (gateOutcome.verdict === 'block' ? EXIT.fail : EXIT.pass) : exitCodeOfRuns(runs);

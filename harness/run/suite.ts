@@ -12,6 +12,7 @@ import { removeStaleTemps, writeFileAtomicSync } from '../files/atomic.js';
 import { createErrorRunResult } from '../results/runResult.js';
 import type { RunResult } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
+import { seriesPath } from '../score/series/file.js';
 import { keepOnResume, onInterrupt, type InterruptSignal } from './interrupt.js';
 import { realFolder } from './outputLock.js';
 import { createRunPool, defaultJobs, runOnPool, DEFAULT_RUN_TIMEOUT, RunInterruptedError, type RunTimeout } from './pool.js';
@@ -56,6 +57,8 @@ export interface PairRunOptions {
   /** The folder as the person named it, for the resume line. */
   outLabel?: string;
   log: (line: string) => void;
+  /** Filled with the absolute path of the series file of every pair run now (not resumed, not an error run). */
+  writtenSeries?: Set<string>;
 }
 
 interface Pair {
@@ -140,6 +143,8 @@ export async function runPairs(options: PairRunOptions): Promise<RunResult[]> {
         const record: SavedRun = { buildIdentity: identities.get(pair.build.name), result };
         writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(record)}\n`);
         results.set(pair.key, result);
+        // An error run may have stopped before its series was written: its file (if any) is checked.
+        if (result.status !== 'error') options.writtenSeries?.add(path.join(outDir, seriesPath(pair.scenario.id, pair.build.name)));
         // The run's own wall time (measured in its worker); queueing time is not the run's.
         progress.done(result, result.sim?.wall_s ?? (performance.now() - started) / 1000);
       }),
