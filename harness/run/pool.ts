@@ -20,6 +20,7 @@ import type { RunResult } from '../results/types.js';
 import type { RunTask } from './runOne.js';
 import { runInProcess } from './inProcess.js';
 import { postedTask } from './sharedRaster.js';
+import { attachObservations } from './observed.js';
 import type { RunThreadMessage } from './runThread.js';
 
 /** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
@@ -181,6 +182,8 @@ export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPo
         set(mine);
         set(groups);
       } else {
+        // The observations cross beside the result; the pool's caller finds them by the result.
+        if (message.observations) attachObservations(message.result, message.observations);
         finish(message.result);
       }
     });

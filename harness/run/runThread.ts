@@ -14,11 +14,13 @@ import { setImmediate as nextTurn } from 'node:timers/promises';
 import { watchProcessGroups } from '../builds/process/groups.js';
 import { runOne, type RunTask } from './runOne.js';
 import { receivedTask, type PostedTask } from './sharedRaster.js';
+import { observationsOf } from './observed.js';
+import type { Observation } from '../contract/tick.js';
 
 export type RunThreadMessage =
   | { kind: 'started' }
   | { kind: 'group'; pgid: number; alive: boolean }
-  | { kind: 'result'; result: Awaited<ReturnType<typeof runOne>> };
+  | { kind: 'result'; result: Awaited<ReturnType<typeof runOne>>; observations?: Observation[] };
 
 export async function serveOneRun(task: RunTask, post: (message: RunThreadMessage) => void): Promise<void> {
   const stop = watchProcessGroups({
@@ -31,7 +33,8 @@ export async function serveOneRun(task: RunTask, post: (message: RunThreadMessag
     // One more turn of the event loop: a rejection the build left unhandled surfaces now and
     // fails this run (the thread dies before the result is posted), not some later pair.
     await nextTurn();
-    post({ kind: 'result', result });
+    const observations = observationsOf(result);
+    post(observations ? { kind: 'result', result, observations } : { kind: 'result', result });
   } finally {
     stop();
   }
