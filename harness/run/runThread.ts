@@ -1,5 +1,5 @@
 // The worker-thread side of the run pool (pool.ts): a thread runs (scenario × build) pairs of ONE
-// build, one at a time: the first from workerData, each further one posted by the pool while the
+// build (or of the reference builds, which share threads: our own trusted code), one at a time: the first from workerData, each further one posted by the pool while the
 // thread stays healthy. So nothing a build leaves behind — a patched prototype, a global, a timer,
 // a pending rejection — reaches another build's run. Messages to the parent:
 //   { kind: 'started' }                 a task arrived; the run's wall-clock allowance starts now
