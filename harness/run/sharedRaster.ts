@@ -41,9 +41,10 @@ function pack(raster: Raster): SharedRasterGrids {
 
 /** The task to post: unchanged without a raster; else its grids moved to shared memory (once per raster). */
 export function postedTask(task: RunTask): PostedTask {
-  const friction = task.scenario.plant.ground.friction;
-  const raster = friction.raster;
-  if (!raster) return task;
+  // Optional chaining: test doubles of the pool post tasks without a scenario.
+  const friction = task.scenario?.plant?.ground?.friction;
+  const raster = friction?.raster;
+  if (!friction || !raster) return task;
   const sharedRaster = pack(raster);
   const lean: Raster = { ...raster, staticFriction: [], kineticFriction: [] };
   const plant = task.scenario.plant;
