@@ -109,8 +109,14 @@ export function scanRasterCsv(bytes: Uint8Array, file: string, pointer: string):
   if (bytes.includes(QUOTE)) return parseRasterCsv(utf8.decode(bytes), file, pointer);
   const errors: Finding[] = [];
   const at = (line: number, message: string, hint?: string): Finding => ({ path: pointer, file, line, column: 1, message, hint });
+  // As the CSV reader orders them: every row-shape and number problem, then the cell problems.
+  const rowErrors: Finding[] = [];
+  const cellErrors: Finding[] = [];
+  const rowProblem = (finding: Finding) => {
+    if (rowErrors.length < MAX_RASTER_ERRORS) rowErrors.push(finding);
+  };
   const push = (finding: Finding) => {
-    if (errors.length < MAX_RASTER_ERRORS) errors.push(finding);
+    if (cellErrors.length < MAX_RASTER_ERRORS) cellErrors.push(finding);
   };
   const side = MAX_RASTER_CELLS_PER_AXIS;
   // Indexed i·side + j until the grid's extent is known; line 0 = cell not given.
@@ -178,7 +184,7 @@ export function scanRasterCsv(bytes: Uint8Array, file: string, pointer: string):
 
     rowsSeen++;
     if (fields.length !== header.length) {
-      push(at(line, `row has ${fields.length} cells, the header has ${header.length}`));
+      rowProblem(at(line, `row has ${fields.length} cells, the header has ${header.length}`));
       continue;
     }
     let good = true;
@@ -186,7 +192,7 @@ export function scanRasterCsv(bytes: Uint8Array, file: string, pointer: string):
       const f = fields[columnOf[k]];
       const value = scanDecimal(bytes, f.start, f.end);
       if (!Number.isFinite(value)) {
-        push(at(line, `${RASTER_COLUMNS[k]} ${JSON.stringify(utf8.decode(bytes.subarray(f.start, f.end)))} is not a finite number`));
+        rowProblem(at(line, `${RASTER_COLUMNS[k]} ${JSON.stringify(utf8.decode(bytes.subarray(f.start, f.end)))} is not a finite number`));
         good = false;
       }
       values[k] = value;
@@ -211,6 +217,7 @@ export function scanRasterCsv(bytes: Uint8Array, file: string, pointer: string):
   if (header === undefined) {
     return { ok: false, errors: [at(1, `the CSV file is empty (expected a header ${RASTER_COLUMNS.join(',')} and data rows)`)] };
   }
+  errors.push(...rowErrors, ...cellErrors.slice(0, MAX_RASTER_ERRORS - rowErrors.length));
   if (errors.length) return { ok: false, errors };
   if (rowsSeen === 0 || cells === 0) return { ok: false, errors: [at(headerLine, 'the raster file has no cells')] };
   const missing: string[] = [];

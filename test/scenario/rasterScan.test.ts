@@ -1,6 +1,7 @@
 import { mkdtempSync, readFileSync, rmSync, truncateSync, writeFileSync, mkdirSync, copyFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
 import { FILE_LIMITS } from '../../harness/files/bounded.js';
 import { loadScenarioFile } from '../../harness/scenario/index.js';
@@ -59,6 +60,26 @@ describe('raster scanner: same values as the CSV reader', () => {
     const { scanned, parsed } = both(text);
     expect(scanned).toEqual(parsed);
     expect(scanned.ok).toBe(true);
+  });
+});
+
+describe('raster scanner: random texts', () => {
+  // Cells that exercise numbers, blanks, spaces, comments and stray commas; lines that are blank,
+  // comments or a repeated header; LF or CRLF. Values, messages, their order and lines must agree.
+  const cell = fc.oneof(
+    fc.constantFrom('0', '1', '2', '0.9', '0.3', '.5', '5.', '1e0', '-0', '+1', 'x', '', ' 1', '1 ', '\t0.2', '1e400', '0.30000000000000004', '#c', '1,2'),
+    fc.double({ min: 0, max: 3, noNaN: true }).map(String),
+  );
+  const line = fc.oneof(fc.array(cell, { minLength: 1, maxLength: 5 }).map((c) => c.join(',')), fc.constantFrom('', '   ', '# note', 'i,j,staticFriction,kineticFriction'));
+  it('agree with the CSV reader', () => {
+    fc.assert(
+      fc.property(fc.array(line, { maxLength: 12 }), fc.constantFrom('\n', '\r\n'), fc.boolean(), (lines, eol, header) => {
+        const text = (header ? ['i,j,staticFriction,kineticFriction', ...lines] : lines).join(eol);
+        const { scanned, parsed } = both(text);
+        expect(scanned).toEqual(parsed);
+      }),
+      { numRuns: 500, seed: 20261202 },
+    );
   });
 });
 
