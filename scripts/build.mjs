@@ -1,6 +1,7 @@
 #!/usr/bin/env node
 // The compiled build: harness/**/*.ts → dist/**/*.js (tsc, tsconfig.build.json), the schema files
-// copied beside their modules, and the ahead-of-time validators (dist/files/validators.generated.cjs).
+// copied beside their modules, the ahead-of-time validators (dist/files/validators.generated.cjs)
+// and the report's precompiled templates (dist/report/templates.generated.cjs).
 // dist/ mirrors harness/ at the same depth, so every `new URL('../../…', import.meta.url)` names
 // the same repository file from either. Run by `npm ci` (prepare) and `npm test`; bin/footing.js
 // uses dist/ when it is there and falls back to the TypeScript sources when it is not.
@@ -47,5 +48,10 @@ const { generateValidatorModule } = await import(pathToFileURL(join(out, 'files'
 const target = join(out, 'files', 'validators.generated.cjs');
 writeFileSync(`${target}.tmp`, await generateValidatorModule(schemas.sort()));
 renameSync(`${target}.tmp`, target);
+// The report's handlebars templates, precompiled (harness/report/render.ts checks their digest).
+const { precompiledTemplatesModule } = await import(pathToFileURL(join(out, 'report', 'render.js')).href);
+const templates = join(out, 'report', 'templates.generated.cjs');
+writeFileSync(`${templates}.tmp`, precompiledTemplatesModule());
+renameSync(`${templates}.tmp`, templates);
 writeFileSync(join(out, '.sources-mtime'), String(sourcesMtime));
-console.error(`footing build: dist/ (${schemas.length} schemas compiled ahead of time)`);
+console.error(`footing build: dist/ (${schemas.length} schemas and the report templates compiled ahead of time)`);

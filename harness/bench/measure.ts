@@ -3,6 +3,7 @@
 // scenario; the closed loop (plant + build + sensing + scorer, i.e. what `footing run` does per
 // tick, without trace or plot recording); and for process builds the protocol overhead.
 
+import type { ObservationRequest } from '../run/observed.js';
 import { createAction, STANCE, type Action } from '../contract/tick.js';
 import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/loader.js';
 import type { BuildSpec } from '../builds/spec.js';
@@ -65,11 +66,16 @@ export async function benchPlant(scenario: ResolvedScenario, budget: TaskBudget)
 }
 
 /** Runs the scenario once with the build, recording its observations. */
-export async function recordObservations(scenario: ResolvedScenario, spec: BuildSpec, openOptions: OpenBuildOptions): Promise<ObservationRing> {
+/** Which ticks a recording of `scenario` keeps (the same plan for a suite run asked to observe). */
+export function recordingPlan(scenario: ResolvedScenario): ObservationRequest {
   const { tickCount } = ticksOf(scenario);
-  const footCount = scenario.plant.robot.hips_m.length;
   const capacity = Math.max(1, Math.min(tickCount, MAX_RECORDED_OBSERVATIONS));
-  const everyNth = Math.max(1, Math.ceil(tickCount / capacity));
+  return { tickCount, capacity, everyNth: Math.max(1, Math.ceil(tickCount / capacity)) };
+}
+
+export async function recordObservations(scenario: ResolvedScenario, spec: BuildSpec, openOptions: OpenBuildOptions): Promise<ObservationRing> {
+  const { capacity, everyNth } = recordingPlan(scenario);
+  const footCount = scenario.plant.robot.hips_m.length;
   const ring = new ObservationRing(capacity, footCount);
   const build = await openBuild(spec, controllerSetup(scenario), openOptions);
   try {

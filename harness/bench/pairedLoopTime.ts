@@ -7,7 +7,8 @@ import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/lo
 import type { BuildSpec } from '../builds/spec.js';
 import { controllerSetup } from '../run/runOne.js';
 import type { ResolvedScenario } from '../scenario/types.js';
-import { recordObservations } from './measure.js';
+import { recordingPlan, recordObservations } from './measure.js';
+import type { ObservationRequest } from '../run/observed.js';
 import { DEFAULT_PAIRED_TIMING, timePaired, type PairedStream, type PairedTiming, type PairedTimingOptions } from './pairedTiming.js';
 
 /**
@@ -35,14 +36,44 @@ export interface RecordedStream {
   observations: Observation[];
 }
 
-/** Records the baseline build's observations once; every candidate is then timed on them. */
-export async function recordStreams(scenarios: readonly ResolvedScenario[], baseline: BuildSpec, openOptions: OpenBuildOptions = {}): Promise<RecordedStream[]> {
-  const chosen = evenly(scenarios.filter((s) => !s.family), MAX_TIMED_SCENARIOS);
+/** The scenarios the loop time is timed on. */
+export function timedScenarios(scenarios: readonly ResolvedScenario[]): ResolvedScenario[] {
+  return evenly(scenarios.filter((s) => !s.family), MAX_TIMED_SCENARIOS);
+}
+
+function recorded(scenario: ResolvedScenario): ResolvedScenario {
+  return { ...scenario, duration_s: Math.min(scenario.duration_s, RECORDED_DURATION_s) };
+}
+
+/**
+ * What a suite run of `scenario` keeps for the timing: the ticks a recording run of its first
+ * RECORDED_DURATION_s would (the episode is the same from the same start until then).
+ */
+export function observationRequest(scenario: ResolvedScenario): ObservationRequest {
+  return recordingPlan(recorded(scenario));
+}
+
+/**
+ * Records the baseline build's observations once; every candidate is then timed on them.
+ * `observed`: what the suite's own baseline runs kept (observationRequest), by scenario id; a
+ * scenario without it (resumed, or its run failed) is recorded here.
+ */
+export async function recordStreams(
+  scenarios: readonly ResolvedScenario[],
+  baseline: BuildSpec,
+  openOptions: OpenBuildOptions = {},
+  observed: ReadonlyMap<string, Observation[]> = new Map(),
+): Promise<RecordedStream[]> {
+  const chosen = timedScenarios(scenarios);
   if (chosen.length === 0) throw new RangeError('paired loop time: no scenario to record observations from');
   const streams: RecordedStream[] = [];
   for (const scenario of chosen) {
-    const short = { ...scenario, duration_s: Math.min(scenario.duration_s, RECORDED_DURATION_s) };
-    const ring = await recordObservations(short, baseline, openOptions);
+    const kept = observed.get(scenario.id);
+    if (kept && kept.length > 0) {
+      streams.push({ scenario, observations: kept });
+      continue;
+    }
+    const ring = await recordObservations(recorded(scenario), baseline, openOptions);
     streams.push({ scenario, observations: ring.entries.slice(0, ring.size) });
   }
   return streams;

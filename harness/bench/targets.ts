@@ -15,6 +15,7 @@ import type { Patch } from '../plant/types.js';
 import { runEpisode } from '../run/episode.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { measureTask, type TaskBudget } from './batch.js';
+import { writeBigRasterSuite } from './bigRaster.js';
 import { benchPlant, ticksOf } from './measure.js';
 import type { BenchReport } from './types.js';
 
@@ -39,6 +40,20 @@ export function processWall_s(args: readonly string[], repeats: number): { media
   }
   times.sort((a, b) => a - b);
   return { median: times[Math.floor(times.length / 2)], min: times[0], max: times[times.length - 1] };
+}
+
+/** Prints the process's peak resident set (kB) to stderr at exit: worker threads count too. */
+const PEAK_PROBE = 'data:text/javascript,import{writeSync}from"node:fs";process.on("exit",()=>writeSync(2,"\\nfooting-peak-rss-kB "+process.resourceUsage().maxRSS+"\\n"))';
+
+/** Wall seconds and peak resident memory (MB) of one `node bin/footing.js args` in `cwd`. */
+export function processWallAndPeak(args: readonly string[], cwd: string): { wall_s: number; peak_MB: number } {
+  const start = performance.now();
+  const child = spawnSync(process.execPath, ['--import', PEAK_PROBE, CLI, ...args], { cwd, stdio: ['ignore', 'ignore', 'pipe'], encoding: 'utf8' });
+  const wall_s = (performance.now() - start) / 1000;
+  if (child.status !== 0) throw new Error(`footing ${args.join(' ')} exited ${child.status}: ${child.stderr.slice(-400)}`);
+  const peak = /footing-peak-rss-kB (\d+)/.exec(child.stderr);
+  if (!peak) throw new Error(`footing ${args.join(' ')} reported no peak memory`);
+  return { wall_s, peak_MB: Number(peak[1]) / 1024 };
 }
 
 /**
@@ -106,6 +121,8 @@ export async function measureTargets(scenario: ResolvedScenario, report: BenchRe
     rows.push({ figure: 'one run of the dry walk, wall', measured: range(one), target: '≤ 1.0 s', met: one.median <= 1.0 });
     const suite = processWall_s(['run', '--baseline', 'governed', '--exit-zero', '--out', out, '--quiet'], 1);
     rows.push({ figure: '`npm start` (bundled suite × 4 builds)', measured: `${suite.median.toFixed(1)} s`, target: '≤ 6 s', met: suite.median <= 6 });
+    log('bench targets: 1000² raster (check, one run)');
+    rows.push(...bigRasterTargets(out));
   } finally {
     rmSync(out, { recursive: true, force: true });
   }
@@ -136,6 +153,20 @@ export async function measureTargets(scenario: ResolvedScenario, report: BenchRe
     rows.push({ figure: `protocol overhead p50 (${python.name})`, measured: `${p50.toFixed(1)} µs`, target: '≤ 30 µs', met: p50 <= 30 });
   }
   return rows;
+}
+
+/** The lean-raster figures on an invented 1000 × 1000-cell map (bigRaster.ts), in `dir`. */
+export function bigRasterTargets(dir: string): TargetFigure[] {
+  const scenario = writeBigRasterSuite(path.join(dir, 'raster'));
+  const cwd = path.dirname(path.dirname(scenario));
+  const relative = path.relative(cwd, scenario);
+  // Three checks (the first pays the file cache), one run: the median and range as above.
+  const checks = [0, 1, 2].map(() => processWallAndPeak(['check', relative], cwd).wall_s).sort((a, b) => a - b);
+  const run = processWallAndPeak(['run', relative, '--build', 'ref:governed', '--out', path.join(dir, 'raster-out'), '--quiet', '--exit-zero'], cwd);
+  return [
+    { figure: '`footing check` of a 1000² raster', measured: `${checks[1].toFixed(2)} s (${checks[0].toFixed(2)}–${checks[2].toFixed(2)})`, target: '< 2 s', met: checks[1] < 2 },
+    { figure: 'one run on a 1000² raster, peak memory', measured: `${run.peak_MB.toFixed(0)} MB (${run.wall_s.toFixed(2)} s)`, target: '< 300 MB', met: run.peak_MB < 300 },
+  ];
 }
 
 export function renderTargets(rows: readonly TargetFigure[]): string[] {

@@ -5,7 +5,8 @@
 import { createHash } from 'node:crypto';
 import path from 'node:path';
 import { attachBench } from '../bench/attach.js';
-import { measurePairedLoopTime, recordStreams } from '../bench/pairedLoopTime.js';
+import { measurePairedLoopTime, observationRequest, recordStreams, timedScenarios } from '../bench/pairedLoopTime.js';
+import type { Observation } from '../contract/tick.js';
 import { DEFAULT_BENCH_SCENARIO } from '../bench/defaults.js';
 import { runBench } from '../bench/run.js';
 import type { BuildSpec } from '../builds/spec.js';
@@ -126,7 +127,16 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   const runLocked = async (): Promise<SuiteRunOutcome> => {
   const manifests = await buildManifests(specs, prepared);
   const startedAt = new Date();
+  const writtenSeries = new Set<string>();
+  // The gate's loop-time timing reuses what the baseline observed in its own suite runs.
+  const timesLoop = options.baseline !== undefined && loopTimeJudged(policy);
+  const observed = new Map<string, Observation[]>();
+  const observe = timesLoop
+    ? { build: options.baseline!, requests: new Map(timedScenarios(scenarios).map((s) => [s.id, observationRequest(s)])), onObserved: (id: string, o: Observation[]) => observed.set(id, o) }
+    : undefined;
   const runs = await runPairs({
+    writtenSeries,
+    observe,
     scenarios,
     builds: specs,
     prepared,
@@ -145,13 +155,13 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   let resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs });
   if (shard) resultsFile = { ...resultsFile, shard: shardRecord(shard, scenarios, specs) };
   if (options.bench) resultsFile = await benchSuiteBuilds(resultsFile, specs.filter((spec) => !prepared.get(spec.name)?.failure), log);
-  if (options.baseline !== undefined && loopTimeJudged(policy)) {
-    const loopTime = await pairedLoopTimes(scenarios, specs, prepared, options.baseline, log);
+  if (options.baseline !== undefined && timesLoop) {
+    const loopTime = await pairedLoopTimes(scenarios, specs, prepared, options.baseline, log, observed);
     if (loopTime.length > 0) resultsFile = { ...resultsFile, loopTime };
   }
   // The gate runs first so that the report shows the gate's own regression list.
   const gateOutcome = options.baseline !== undefined ? gateWithinResults(resultsFile, options.baseline, policy, undefined, resultsFile.loopTime) : undefined;
-  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy, scenarios });
+  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy, scenarios, writtenSeries });
 
   // With a baseline the gate decides: a run failing on both sides is inherited, not a block.
   const exitCode: ExitCode = gateOutcome ? (gateOutcome.verdict === 'block' ? EXIT.fail : EXIT.pass) : exitCodeOfRuns(runs);
@@ -222,6 +232,7 @@ async function pairedLoopTimes(
   prepared: Map<string, PreparedBuild>,
   baselineName: string,
   log: (line: string) => void,
+  observed: ReadonlyMap<string, Observation[]> = new Map(),
 ): Promise<PairedLoopTimeRecord[]> {
   const usable = specs.filter((spec) => !prepared.get(spec.name)?.failure);
   const baseline = usable.find((spec) => spec.name === baselineName);
@@ -229,7 +240,7 @@ async function pairedLoopTimes(
   if (baseline === undefined || candidates.length === 0) return [];
   const records: PairedLoopTimeRecord[] = [];
   try {
-    const recordings = await recordStreams(scenarios, baseline);
+    const recordings = await recordStreams(scenarios, baseline, {}, observed);
     log(`loop time: ${candidates.length} build${candidates.length === 1 ? '' : 's'} timed against ${baselineName} in interleaved rounds on ${recordings.length} recorded scenario${recordings.length === 1 ? '' : 's'}`);
     for (const candidate of candidates) {
       try {

@@ -10,6 +10,12 @@ import { open, stat } from 'node:fs/promises';
 export const FILE_LIMITS = {
   /** Scenario, robot and CSV files: the bundled ones are a few kB; 2 MiB leaves room for big friction rasters. */
   inputFile_bytes: 2 * 1024 * 1024,
+  /**
+   * Friction raster CSV files, read as bytes by the raster scanner: a 1000 × 1000 raster (the
+   * largest grid allowed) with 6-digit friction values is about 24 MB; 64 MiB leaves room for
+   * longer numbers, comments and CRLF line ends.
+   */
+  rasterFile_bytes: 64 * 1024 * 1024,
   /** results.json and series files: a 22-scenario, 6-build suite writes well under 1 MB (common practice: 100× headroom). */
   resultFile_bytes: 64 * 1024 * 1024,
 } as const;
@@ -46,11 +52,17 @@ export function formatBytes(bytes: number): string {
  * open is non-blocking in case the path was swapped in between.
  */
 export async function readBoundedText(file: string, limit_bytes: number = FILE_LIMITS.inputFile_bytes): Promise<string> {
+  return (await readBoundedBytes(file, limit_bytes)).toString('utf8');
+}
+
+/** The file's bytes, on the same terms as readBoundedText (the size is checked before reading). */
+export async function readBoundedBytes(file: string, limit_bytes: number): Promise<Buffer> {
   checkKindAndSize(await stat(file), limit_bytes);
   const handle = await open(file, constants.O_RDONLY | constants.O_NONBLOCK);
   try {
-    checkKindAndSize(await handle.stat(), limit_bytes);
-    return await collect(limit_bytes, async (buffer) => (await handle.read(buffer, 0, buffer.length, null)).bytesRead);
+    const info = await handle.stat();
+    checkKindAndSize(info, limit_bytes);
+    return await collect(limit_bytes, info.size, async (buffer, offset) => (await handle.read(buffer, offset, buffer.length - offset, null)).bytesRead);
   } finally {
     await handle.close();
   }
@@ -86,16 +98,27 @@ function checkKindAndSize(info: Stats, limit_bytes: number): void {
   if (info.size > limit_bytes) throw tooBig(info.size, limit_bytes);
 }
 
-async function collect(limit_bytes: number, read: (buffer: Buffer) => Promise<number>): Promise<string> {
-  const chunks: Buffer[] = [];
-  let total = 0;
+/**
+ * Reads into one buffer of the stated size (one copy, no chunk list for a large raster), then
+ * chunks only if the file grew while it was read; a file that grows is held to the same limit.
+ */
+async function collect(limit_bytes: number, size_bytes: number, read: (buffer: Buffer, offset: number) => Promise<number>): Promise<Buffer> {
+  const whole = Buffer.allocUnsafe(size_bytes);
+  let filled = 0;
+  while (filled < size_bytes) {
+    const bytesRead = await read(whole, filled);
+    if (bytesRead === 0) return whole.subarray(0, filled);
+    filled += bytesRead;
+  }
+  const chunks: Buffer[] = [whole];
+  let total = filled;
   for (;;) {
     const chunk = Buffer.alloc(CHUNK_bytes);
-    const bytesRead = await read(chunk);
+    const bytesRead = await read(chunk, 0);
     if (bytesRead === 0) break;
     total += bytesRead;
     if (total > limit_bytes) throw tooBig(total, limit_bytes);
     chunks.push(chunk.subarray(0, bytesRead));
   }
-  return Buffer.concat(chunks, total).toString('utf8');
+  return chunks.length === 1 ? whole : Buffer.concat(chunks, total);
 }

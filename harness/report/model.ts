@@ -41,6 +41,8 @@ export interface ReportOptions {
   bench?: unknown;
   /** Results folders holding series/ and traces/ (default: [outDir]); merged shards name theirs. */
   sourceDirs?: string[];
+  /** Series files (absolute paths) written by this process's runs: read without re-checking their content. */
+  writtenSeries?: ReadonlySet<string>;
   /** For reproducible output in tests. */
   generatedAt?: Date;
   /**
@@ -226,7 +228,7 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
     if (!anchors.has(ref.id)) anchors.set(ref.id, anchor);
     anchorByKey.set(`${ref.id}\u0000${ref.hash}`, anchor);
     const resolved = options.scenarios?.find((s) => s.id === ref.id && s.hash === ref.hash) ?? null;
-    scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, outDir: options.outDir, traces, resolved }));
+    scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, writtenSeries: options.writtenSeries, outDir: options.outDir, traces, resolved }));
     index++;
   }
 
@@ -305,6 +307,7 @@ interface ScenarioContext {
   baselineName: string | null;
   gate: GateOutcome | null;
   sourceDirs: string[];
+  writtenSeries: ReadonlySet<string> | undefined;
   outDir: string;
   traces: { href: string; name: string }[];
   resolved: ResolvedScenario | null;
@@ -344,7 +347,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
   const legNames = ctx.resolved?.plant.robot.legNames;
   const fixed = ctx.resolved ? scenarioEvents(ctx.resolved) : [];
   const loaded = runs.map((run) => {
-    const lookup = readSeriesFor(ctx.sourceDirs, ref.id, ref.hash, run.build);
+    const lookup = readSeriesFor(ctx.sourceDirs, ref.id, ref.hash, run.build, ctx.writtenSeries);
     // The robot's leg names travel with the series the plots read (footLabel in plot/timeSeries.ts).
     if (lookup.series && legNames && legNames.length === lookup.series.footCount) lookup.series = { ...lookup.series, legNames } as RunSeries;
     return { run, lookup };

@@ -1,7 +1,8 @@
 // The pool that runs pairs in parallel on worker threads. Three promises it keeps:
 // - a thread serves one build only (runThread.ts): after a healthy run (a result that is not an
-//   `error`, no process group left behind) it takes the next queued run of the SAME build spec,
-//   otherwise it is terminated; one that saw an uncaught error or an unhandled rejection dies
+//   `error`, no process group left behind) it takes the next queued run of the SAME build spec
+//   (reference builds, the harness's own code, share: a reference build's thread takes any
+//   reference build's run when its own has none queued), otherwise it is terminated; one that saw an uncaught error or an unhandled rejection dies
 //   with its own run only and is never reused;
 // - a run's wall-clock allowance starts when its thread says it started, never while it waits
 //   for a free slot (at most `jobs` threads exist, the rest wait here, not in a thread's queue);
@@ -19,6 +20,8 @@ import { createErrorRunResult } from '../results/runResult.js';
 import type { RunResult } from '../results/types.js';
 import type { RunTask } from './runOne.js';
 import { runInProcess } from './inProcess.js';
+import { postedTask } from './sharedRaster.js';
+import { attachObservations } from './observed.js';
 import type { RunThreadMessage } from './runThread.js';
 
 /** Wall-clock allowance of one run: base + factor × simulated duration (seconds). */
@@ -134,7 +137,7 @@ export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPo
     let settled = false;
     let allowance: NodeJS.Timeout | undefined;
     let startLimit: NodeJS.Timeout | undefined;
-    const worker = new Worker(threadUrl, { workerData: { task: item.task } });
+    const worker = new Worker(threadUrl, { workerData: { task: postedTask(item.task) } });
     const entry: Running = { stop: (error) => finish(error) };
     running.add(entry);
     const awaitStart = () => {
@@ -150,12 +153,12 @@ export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPo
       const done = item;
       // Healthy and the same build queued: the thread takes it, keeping its slot.
       const healthy = !(outcome instanceof Error) && outcome.status !== 'error' && mine.size === 0 && aborted === null;
-      const next = healthy ? queue.findIndex((queued) => sameBuild(queued.task, done.task)) : -1;
+      const next = healthy ? nextForThread(queue, done.task) : -1;
       if (next >= 0) {
         item = queue.splice(next, 1)[0];
         settled = false;
         awaitStart();
-        worker.postMessage({ task: item.task });
+        worker.postMessage({ task: postedTask(item.task) });
       } else {
         running.delete(entry);
         void worker.terminate();
@@ -180,6 +183,8 @@ export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPo
         set(mine);
         set(groups);
       } else {
+        // The observations cross beside the result; the pool's caller finds them by the result.
+        if (message.observations) attachObservations(message.result, message.observations);
         finish(message.result);
       }
     });
@@ -212,6 +217,17 @@ export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPo
 }
 
 /** One build spec: the same code with the same arguments, options and folder. */
+/**
+ * The queued run a healthy thread takes next: one of the same build spec, else — when it ran a
+ * reference build — any reference build's (the bundled builds are the harness's own trusted code,
+ * docs/protocol.md "Trust model": sharing a thread saves its start-up, nothing to isolate).
+ */
+function nextForThread(queue: readonly Queued[], done: RunTask): number {
+  const same = queue.findIndex((queued) => sameBuild(queued.task, done));
+  if (same >= 0 || done.build.kind !== 'reference') return same;
+  return queue.findIndex((queued) => queued.task.build.kind === 'reference');
+}
+
 function sameBuild(a: RunTask, b: RunTask): boolean {
   const x = a.build;
   const y = b.build;

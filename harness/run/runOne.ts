@@ -15,6 +15,7 @@ import { createSteadyClock } from './steadyClock.js';
 import { createErrorRunResult, createRunResult } from '../results/runResult.js';
 import { createTraceWriter, tracePath, type TraceWriter } from '../results/trace.js';
 import type { RunResult } from '../results/types.js';
+import { attachObservations, observingBuild, type ObservationRequest } from './observed.js';
 
 export interface RunTask {
   scenario: ResolvedScenario;
@@ -25,6 +26,8 @@ export interface RunTask {
   /** Decimation of the trace (every n-th tick). */
   traceEveryNth?: number;
   buildOptions?: Pick<OpenBuildOptions, 'handshakeTimeout_ms' | 'tickTimeout_ms'>;
+  /** Keep what the build observes in the run's first ticks (the gate's loop-time timing, observed.ts). */
+  observe?: ObservationRequest;
 }
 
 function saveSeries(outDir: string, series: ReturnType<ReturnType<typeof createSeriesRecorder>['finish']>): void {
@@ -62,8 +65,9 @@ export async function runOne(task: RunTask, extraObservers: TickObserver[] = [])
   const recorder = createSeriesRecorder(scenario, spec.name);
   const steady = createSteadyClock(scenario.duration_s);
   const observers: TickObserver[] = [...extraObservers, recorder, steady];
+  const observing = task.observe ? observingBuild(build, task.observe, scenario.plant.robot.hips_m.length) : undefined;
   try {
-    const outcome = await runEpisode(scenario, build, {
+    const outcome = await runEpisode(scenario, observing?.build ?? build, {
       observers,
       onScorer(scorer) {
         if (!task.trace) return;
@@ -85,6 +89,8 @@ export async function runOne(task: RunTask, extraObservers: TickObserver[] = [])
       : createRunResult(scenario, spec.name, outcome.scored, options);
     // Beside the scorer's whole-run (cold) figure, the later half's (steady) one.
     if (result.sim) result.sim = { ...result.sim, steadyRealTimeFactor: steady.realTimeFactor() };
+    // Only from a run without an error: the gate records again when a run failed (as it did before).
+    if (observing && !outcome.error) attachObservations(result, observing.observations());
     return result;
   } catch (caught) {
     trace?.abort();

@@ -1,5 +1,5 @@
 // The worker-thread side of the run pool (pool.ts): a thread runs (scenario × build) pairs of ONE
-// build, one at a time: the first from workerData, each further one posted by the pool while the
+// build (or of the reference builds, which share threads: our own trusted code), one at a time: the first from workerData, each further one posted by the pool while the
 // thread stays healthy. So nothing a build leaves behind — a patched prototype, a global, a timer,
 // a pending rejection — reaches another build's run. Messages to the parent:
 //   { kind: 'started' }                 a task arrived; the run's wall-clock allowance starts now
@@ -13,11 +13,14 @@ import { parentPort, workerData } from 'node:worker_threads';
 import { setImmediate as nextTurn } from 'node:timers/promises';
 import { watchProcessGroups } from '../builds/process/groups.js';
 import { runOne, type RunTask } from './runOne.js';
+import { receivedTask, type PostedTask } from './sharedRaster.js';
+import { observationsOf } from './observed.js';
+import type { Observation } from '../contract/tick.js';
 
 export type RunThreadMessage =
   | { kind: 'started' }
   | { kind: 'group'; pgid: number; alive: boolean }
-  | { kind: 'result'; result: Awaited<ReturnType<typeof runOne>> };
+  | { kind: 'result'; result: Awaited<ReturnType<typeof runOne>>; observations?: Observation[] };
 
 export async function serveOneRun(task: RunTask, post: (message: RunThreadMessage) => void): Promise<void> {
   const stop = watchProcessGroups({
@@ -30,7 +33,8 @@ export async function serveOneRun(task: RunTask, post: (message: RunThreadMessag
     // One more turn of the event loop: a rejection the build left unhandled surfaces now and
     // fails this run (the thread dies before the result is posted), not some later pair.
     await nextTurn();
-    post({ kind: 'result', result });
+    const observations = observationsOf(result);
+    post(observations ? { kind: 'result', result, observations } : { kind: 'result', result });
   } finally {
     stop();
   }
@@ -40,8 +44,9 @@ if (parentPort !== null && workerData?.task !== undefined) {
   const port = parentPort;
   const post = (message: RunThreadMessage) => port.postMessage(message);
   // Runs are served strictly one after another: the pool posts the next only after a result.
-  let chain = serveOneRun(workerData.task as RunTask, post);
-  port.on('message', (message: { task: RunTask }) => {
-    chain = chain.then(() => serveOneRun(message.task, post));
+  // A raster's grids arrive in shared memory (sharedRaster.ts), posted once per raster.
+  let chain = serveOneRun(receivedTask(workerData.task as PostedTask), post);
+  port.on('message', (message: { task: PostedTask }) => {
+    chain = chain.then(() => serveOneRun(receivedTask(message.task), post));
   });
 }

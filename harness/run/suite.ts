@@ -12,6 +12,9 @@ import { removeStaleTemps, writeFileAtomicSync } from '../files/atomic.js';
 import { createErrorRunResult } from '../results/runResult.js';
 import type { RunResult } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
+import { seriesPath } from '../score/series/file.js';
+import type { Observation } from '../contract/tick.js';
+import { observationsOf, type ObservationRequest } from './observed.js';
 import { keepOnResume, onInterrupt, type InterruptSignal } from './interrupt.js';
 import { realFolder } from './outputLock.js';
 import { createRunPool, defaultJobs, runOnPool, DEFAULT_RUN_TIMEOUT, RunInterruptedError, type RunTimeout } from './pool.js';
@@ -56,6 +59,10 @@ export interface PairRunOptions {
   /** The folder as the person named it, for the resume line. */
   outLabel?: string;
   log: (line: string) => void;
+  /** Filled with the absolute path of the series file of every pair run now (not resumed, not an error run). */
+  writtenSeries?: Set<string>;
+  /** Runs of `build` on the scenarios named in `requests` keep what the build observed (observed.ts). */
+  observe?: { build: string; requests: ReadonlyMap<string, ObservationRequest>; onObserved(scenarioId: string, observations: Observation[]): void };
 }
 
 interface Pair {
@@ -114,6 +121,7 @@ export async function runPairs(options: PairRunOptions): Promise<RunResult[]> {
     for (const [what, why] of stale) log(`  rerunning the saved runs of ${what}: ${why}`);
   }
 
+  const observeRequest = (pair: Pair) => (options.observe && pair.build.name === options.observe.build ? options.observe.requests.get(pair.scenario.id) : undefined);
   const jobs = Math.max(1, Math.min(options.jobs ?? defaultJobs(), pending.length || 1));
   const progress = createProgress(chooseProgressMode({ quiet: options.quiet }), pending.length, log);
   const timeout = options.runTimeout ?? DEFAULT_RUN_TIMEOUT;
@@ -132,7 +140,7 @@ export async function runPairs(options: PairRunOptions): Promise<RunResult[]> {
         try {
           result = failure
             ? createErrorRunResult(pair.scenario, pair.build.name, { message: failure.message, reason: 'build-failed', stderrTail: failure.outputTail })
-            : await runOnPool(pool, { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth }, timeout);
+            : await runOnPool(pool, { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth, observe: observeRequest(pair) }, timeout);
         } catch (error) {
           if (error instanceof RunInterruptedError) return; // not saved: --resume runs it
           throw error;
@@ -140,6 +148,10 @@ export async function runPairs(options: PairRunOptions): Promise<RunResult[]> {
         const record: SavedRun = { buildIdentity: identities.get(pair.build.name), result };
         writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(record)}\n`);
         results.set(pair.key, result);
+        const observations = observationsOf(result);
+        if (observations) options.observe?.onObserved(pair.scenario.id, observations);
+        // An error run may have stopped before its series was written: its file (if any) is checked.
+        if (result.status !== 'error') options.writtenSeries?.add(path.join(outDir, seriesPath(pair.scenario.id, pair.build.name)));
         // The run's own wall time (measured in its worker); queueing time is not the run's.
         progress.done(result, result.sim?.wall_s ?? (performance.now() - started) / 1000);
       }),

@@ -16,7 +16,12 @@ export function canonicalJson(value: unknown): string {
     case 'boolean':
       return value ? 'true' : 'false';
     case 'object': {
-      if (Array.isArray(value)) return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
+      if (Array.isArray(value)) {
+        // A row of finite numbers (a raster row: a million cells in all) prints in one call, the
+        // same text as element by element (JSON.stringify prints numbers as ECMAScript does).
+        if (isFiniteNumberRow(value)) return JSON.stringify(value);
+        return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
+      }
       const record = value as Record<string, unknown>;
       const keys = Object.keys(record)
         .filter((k) => record[k] !== undefined)
@@ -26,6 +31,14 @@ export function canonicalJson(value: unknown): string {
     default:
       throw new TypeError(`canonicalJson: a ${typeof value} has no JSON form`);
   }
+}
+
+function isFiniteNumberRow(values: unknown[]): boolean {
+  for (let k = 0; k < values.length; k++) {
+    const v = values[k];
+    if (typeof v !== 'number' || !Number.isFinite(v)) return false;
+  }
+  return true;
 }
 
 /** sha256 (hex) of the canonical JSON of a resolved scenario without its `hash` and `file`. */

@@ -5,7 +5,7 @@
 import { createHash } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import { realpath } from 'node:fs/promises';
-import { readBoundedText } from '../files/bounded.js';
+import { FILE_LIMITS, readBoundedBytes, readBoundedText } from '../files/bounded.js';
 import path from 'node:path';
 import type { RobotParams } from '../plant/types.js';
 import { scenarioHash } from './canonical.js';
@@ -21,7 +21,8 @@ import { CURRENT_ROBOT_VERSION, CURRENT_SCENARIO_VERSION, migrateScenario, type 
 import { displayPath, isInside, resolveReference, suiteRelative } from './paths.js';
 import { checkRobot } from './robot.js';
 import { validateAgainst } from './schema.js';
-import { parseRasterCsv, parseSeriesCsv } from './series.js';
+import { scanRasterCsv } from './rasterScan.js';
+import { parseSeriesCsv } from './series.js';
 import { isRecord, parseSource, scanData, type ParsedSource } from '../files/source.js';
 import type { ResolvedScenario } from './types.js';
 
@@ -60,6 +61,8 @@ interface Context {
   suiteRoot: string;
   cwd: string;
   readFile: (absolutePath: string) => Promise<string>;
+  /** Reads a raster CSV as bytes (its own, larger size limit; the in-memory map's text as UTF-8 in tests). */
+  readBytes: (absolutePath: string) => Promise<Uint8Array>;
   /** Follow symlinks when checking that references stay inside (only with the real file system). */
   realFiles: boolean;
   cache: LoadCache;
@@ -84,6 +87,7 @@ function makeContext(fileName: string, opts: LoadOptions): Context {
     suiteRoot: opts.suiteRoot !== undefined ? path.resolve(cwd, opts.suiteRoot) : defaultSuiteRoot(absolute),
     cwd,
     readFile: opts.readFile ?? ((p) => readBoundedText(p)),
+    readBytes: opts.readFile ? async (p) => Buffer.from(await opts.readFile!(p), 'utf8') : (p) => readBoundedBytes(p, FILE_LIMITS.rasterFile_bytes),
     realFiles: opts.readFile === undefined,
     cache: opts.cache ?? createLoadCache(),
   };
@@ -292,9 +296,9 @@ async function loadInstance(data: Record<string, unknown>, ctx: Context, locate:
   const raster = rec(rec(data.ground)?.raster);
   if (raster && typeof raster.file === 'string' && raster.file.length > 0 && !('staticFriction' in raster) && !('kineticFriction' in raster)) {
     const pointer = '/ground/raster/file';
-    const text = await readReference(raster.file, ctx, pointer, 'raster file', errors, locate);
-    if (text !== undefined) {
-      const parsed = parseRasterCsv(text.content, text.display, pointer);
+    const bytes = await readReference(raster.file, ctx, pointer, 'raster file', errors, locate, ctx.readBytes);
+    if (bytes !== undefined) {
+      const parsed = scanRasterCsv(bytes.content, bytes.display, pointer);
       if (parsed.ok) refs.rasterGrids = parsed;
       else errors.push(...parsed.errors.map(locate));
     }
@@ -351,21 +355,22 @@ async function checkRecorded(recorded: Record<string, unknown> | undefined, ctx:
   }
 }
 
-async function readReference(
+async function readReference<T = string>(
   reference: string,
   ctx: Context,
   pointer: string,
   what: string,
   errors: FileIssue[],
   locate: (f: Finding) => FileIssue,
-): Promise<{ content: string; display: string } | undefined> {
+  read: (absolutePath: string) => Promise<T> = ctx.readFile as unknown as (absolutePath: string) => Promise<T>,
+): Promise<{ content: T; display: string } | undefined> {
   const resolved = await resolveInside(reference, ctx);
   if (!resolved.ok) {
     errors.push(locate({ path: pointer, message: `${what} ${resolved.message}` }));
     return undefined;
   }
   try {
-    return { content: await ctx.readFile(resolved.absolute), display: displayPath(resolved.absolute, ctx.cwd) };
+    return { content: await read(resolved.absolute), display: displayPath(resolved.absolute, ctx.cwd) };
   } catch (e) {
     errors.push(locate({ path: pointer, message: `${what} "${reference}" cannot be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}; resolved to ${displayPath(resolved.absolute, ctx.cwd)})` }));
     return undefined;

@@ -1,0 +1,72 @@
+// What a build observed in the start of a suite run, kept for the gate's loop-time timing: the
+// baseline's own runs record the same observations a separate recording run of the scenario's
+// first seconds would (the same episode from the same start, RECORDED_DURATION_s in
+// bench/pairedLoopTime.ts), so the timing needs no runs of its own. The observations travel
+// beside the run's result (never inside it: results.json does not hold them).
+
+import type { OpenedBuild } from '../builds/opened.js';
+import { copyObservation, createObservation, type Action, type Observation } from '../contract/tick.js';
+import type { RunResult } from '../results/types.js';
+
+/** Which ticks to keep: every `everyNth` of the first `tickCount`, at most `capacity`. */
+export interface ObservationRequest {
+  tickCount: number;
+  everyNth: number;
+  capacity: number;
+}
+
+const observedBy = new WeakMap<RunResult, Observation[]>();
+
+export function attachObservations(result: RunResult, observations: Observation[]): void {
+  observedBy.set(result, observations);
+}
+
+/** The observations recorded in the run of `result`, if it was asked to record. */
+export function observationsOf(result: RunResult): Observation[] | undefined {
+  return observedBy.get(result);
+}
+
+/**
+ * The build, seen by the episode, with its observations copied as requested (outside the build's
+ * own tick timing, so its loop time is unchanged). The copies are allocated before the episode
+ * (the tick loop allocates nothing); `observations` holds the filled ones once the episode ends.
+ */
+export function observingBuild(build: OpenedBuild, request: ObservationRequest, footCount: number): { build: OpenedBuild; observations: () => Observation[] } {
+  const slots = Math.max(0, Math.min(request.capacity, Math.ceil(request.tickCount / request.everyNth)));
+  const copies = Array.from({ length: slots }, () => createObservation(footCount));
+  let filled = 0;
+  let tick = 0;
+  const wrapped: OpenedBuild = {
+    get name() {
+      return build.name;
+    },
+    get kind() {
+      return build.kind;
+    },
+    get telemetryNames() {
+      return build.telemetryNames;
+    },
+    get loopTime_us() {
+      return build.loopTime_us;
+    },
+    get reportedCompute_us() {
+      return build.reportedCompute_us;
+    },
+    get about() {
+      return build.about;
+    },
+    get pid() {
+      return build.pid;
+    },
+    get encoding() {
+      return build.encoding;
+    },
+    tick(obs: Observation, action: Action) {
+      if (tick < request.tickCount && tick % request.everyNth === 0 && filled < slots) copyObservation(copies[filled++], obs);
+      tick++;
+      return build.tick(obs, action);
+    },
+    close: () => build.close(),
+  };
+  return { build: wrapped, observations: () => copies.slice(0, filled) };
+}
