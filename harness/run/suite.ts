@@ -146,7 +146,7 @@ export async function runPairs(options: PairRunOptions): Promise<RunResult[]> {
           throw error;
         }
         const record: SavedRun = { buildIdentity: identities.get(pair.build.name), result };
-        writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(record)}\n`);
+        writeFileAtomicSync(path.join(runsDir, `${pair.key}.json`), `${JSON.stringify(record)}\n`, { durable: false });
         results.set(pair.key, result);
         const observations = observationsOf(result);
         if (observations) options.observe?.onObserved(pair.scenario.id, observations);

@@ -19,7 +19,7 @@ export function seriesPath(scenarioId: string, build: string): string {
 
 export function writeSeriesFile(resultsDir: string, series: RunSeries): string {
   const relative = seriesPath(series.scenario.id, series.build);
-  writeFileAtomicSync(path.join(resultsDir, relative), JSON.stringify(series));
+  writeFileAtomicSync(path.join(resultsDir, relative), JSON.stringify(series), { durable: false });
   return relative;
 }
 
