@@ -18,7 +18,7 @@
 //   Angular velocities in the state are mid-step like the linear ones.
 // - friction: the per-foot implicit stick/slide solve of contact.ts.
 
-import type { RobotState } from '../contract/state.js';
+import { copyBytes, copyFloats, type RobotState } from '../contract/state.js';
 import type { Action } from '../contract/tick.js';
 import { footFriction, huntCrossleyNormal_N } from './contact.js';
 import { PlantDivergedError } from './errors.js';
@@ -185,11 +185,11 @@ export class Plant {
 
   /** Holds the build's action until the next call. */
   applyAction(action: Action): void {
-    this.heldGroundForce.set(action.groundForce_N);
-    this.heldTarget.set(action.footTarget_m);
-    this.heldTargetVelocity.set(action.footTargetVelocity_mps);
-    this.heldStiffness.set(action.stiffness_N_per_m);
-    this.heldDamping.set(action.damping_Ns_per_m);
+    copyFloats(this.heldGroundForce, action.groundForce_N);
+    copyFloats(this.heldTarget, action.footTarget_m);
+    copyFloats(this.heldTargetVelocity, action.footTargetVelocity_mps);
+    copyFloats(this.heldStiffness, action.stiffness_N_per_m);
+    copyFloats(this.heldDamping, action.damping_Ns_per_m);
   }
 
   /** Advances by one physics step. Throws PlantDivergedError on a non-finite state. */
@@ -421,14 +421,14 @@ export class Plant {
   /** Copies the plant's truth into an observation (the run layer adds noise and estimates). */
   fillObservation(obs: RobotState): void {
     obs.time_s = this.time_s;
-    obs.trunkPosition_m.set(this.trunkPosition_m);
-    obs.trunkQuaternion.set(this.trunkQuaternion);
-    obs.trunkVelocity_mps.set(this.trunkVelocity_mps);
-    obs.trunkAngularVelocity_radps.set(this.trunkAngularVelocity_radps);
-    obs.footPosition_m.set(this.footPosition_m);
-    obs.footVelocity_mps.set(this.footVelocity_mps);
-    obs.footForce_N.set(this.footGroundForce_N);
-    obs.footContact.set(this.footInContact);
+    copyFloats(obs.trunkPosition_m, this.trunkPosition_m);
+    copyFloats(obs.trunkQuaternion, this.trunkQuaternion);
+    copyFloats(obs.trunkVelocity_mps, this.trunkVelocity_mps);
+    copyFloats(obs.trunkAngularVelocity_radps, this.trunkAngularVelocity_radps);
+    copyFloats(obs.footPosition_m, this.footPosition_m);
+    copyFloats(obs.footVelocity_mps, this.footVelocity_mps);
+    copyFloats(obs.footForce_N, this.footGroundForce_N);
+    copyBytes(obs.footContact, this.footInContact);
   }
 
   /**
