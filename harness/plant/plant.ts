@@ -89,6 +89,8 @@ export class Plant {
   private readonly friction2 = new Float64Array(2);
   private readonly pushWrench = new Float64Array(6);
   private readonly clock = new Float64Array(1);
+  /** (x, y) of each foot at its last material lookup; NaN (never equal) before the first. */
+  private readonly lookedUpAt_m: Float64Array;
   private firstStep = true;
   private stepCount = 0;
 
@@ -122,6 +124,7 @@ export class Plant {
     this.footInContact = new Uint8Array(n);
     this.footMaterial = new Int32Array(n);
     this.footStaticFriction = new Float64Array(n);
+    this.lookedUpAt_m = new Float64Array(2 * n).fill(Number.NaN);
     this.legForce_N = new Float64Array(3 * n);
     this.heldGroundForce = new Float64Array(3 * n);
     this.heldTarget = new Float64Array(3 * n);
@@ -524,11 +527,21 @@ export class Plant {
     }
   }
 
+  /**
+   * The material under each foot. A foot whose (x, y) is exactly where it was at its last lookup
+   * (a sticking foot, a foot held still) stands on the same material: the lookup is skipped.
+   */
   private updateFootMaterials(): void {
     if (this.uniformGround && this.stepCount > 0) return; // one material everywhere: nothing moves
     const mus = this.friction.materials.staticFriction;
+    const fp = this.footPosition_m;
+    const seen = this.lookedUpAt_m;
     for (let i = 0; i < this.footCount; i++) {
-      const m = this.friction.lookup(this.footPosition_m[3 * i], this.footPosition_m[3 * i + 1]);
+      const a = 3 * i;
+      if (fp[a] === seen[2 * i] && fp[a + 1] === seen[2 * i + 1]) continue;
+      seen[2 * i] = fp[a];
+      seen[2 * i + 1] = fp[a + 1];
+      const m = this.friction.lookupAt(fp, a);
       this.footMaterial[i] = m;
       this.footStaticFriction[i] = mus[m];
     }
