@@ -18,6 +18,7 @@ const PRODUCT_ERROR = 2 ** -52;
 const MINUS = 45;
 const DOT = 46;
 const ZERO = 48;
+const INT32_LIMIT = 2 ** 31;
 
 export class ByteRows {
   private readonly bytes: Uint8Array;
@@ -88,25 +89,55 @@ export class ByteRows {
     const out = this.bytes;
     let at = this.length;
     if (negative) out[at++] = MINUS;
-    let whole = Math.floor(n / power);
-    let part = n - whole * power;
-    let count = 0;
-    do {
-      const next = Math.floor(whole / 10);
-      this.digits[count++] = whole - next * 10;
-      whole = next;
-    } while (whole > 0);
-    while (count > 0) out[at++] = ZERO + this.digits[--count];
+    const whole = Math.floor(n / power);
+    const part = n - whole * power;
+    at = whole < INT32_LIMIT ? this.wholeDigits32(at, whole | 0) : this.wholeDigits(at, whole);
     if (decimals > 0) {
       out[at++] = DOT;
       // The fraction's digits, most significant first, zero-padded to `decimals`.
-      for (let k = decimals - 1; k >= 0; k--) {
-        const next = Math.floor(part / 10);
-        out[at + k] = ZERO + (part - next * 10);
-        part = next;
+      if (part < INT32_LIMIT) {
+        let rest = part | 0;
+        for (let k = decimals - 1; k >= 0; k--) {
+          const next = (rest / 10) | 0; // int32 division by a constant: a multiply and a shift
+          out[at + k] = ZERO + (rest - next * 10);
+          rest = next;
+        }
+      } else {
+        let rest = part;
+        for (let k = decimals - 1; k >= 0; k--) {
+          const next = Math.floor(rest / 10);
+          out[at + k] = ZERO + (rest - next * 10);
+          rest = next;
+        }
       }
       at += decimals;
     }
     this.length = at;
+  }
+
+  /** The digits of a whole number below 2^31 at out[at…]; returns the index after them. */
+  private wholeDigits32(at: number, whole: number): number {
+    let count = 0;
+    let rest = whole;
+    do {
+      const next = (rest / 10) | 0;
+      this.digits[count++] = rest - next * 10;
+      rest = next;
+    } while (rest > 0);
+    while (count > 0) this.bytes[at++] = ZERO + this.digits[--count];
+    return at;
+  }
+
+  /** wholeDigits32 for a whole number of up to 2^53 (exact in doubles). */
+  private wholeDigits(at: number, whole: number): number {
+    let count = 0;
+    let rest = whole;
+    do {
+      const next = Math.floor(rest / 10);
+      this.digits[count++] = rest - next * 10;
+      rest = next;
+    } while (rest > 0);
+    while (count > 0) this.bytes[at++] = ZERO + this.digits[--count];
+    return at;
   }
 }
