@@ -13,6 +13,32 @@ const NEWLINE = 10;
 const ZERO = 48;
 const ONE = 49;
 
+/**
+ * String(value) per column, remembered: a telemetry column often holds one value for many ticks
+ * (a gait phase, a gain), and the same double gives the same text, so its bytes are reused
+ * instead of building a string per tick.
+ */
+class RepeatedText {
+  private readonly last: Float64Array;
+  private readonly text: string[];
+
+  constructor(columns: number) {
+    this.last = new Float64Array(columns).fill(Number.NaN); // NaN equals nothing: first use builds
+    this.text = new Array<string>(columns).fill('');
+  }
+
+  /** String(values[column]) as bytes (an array and an index: no double crosses the call). */
+  write(rows: ByteRows, values: ArrayLike<number>, column: number): void {
+    const value = values[column];
+    // The same double prints the same text (0 and −0 both "0"); NaN equals nothing: rebuilt.
+    if (value !== this.last[column]) {
+      this.last[column] = value;
+      this.text[column] = String(value);
+    }
+    rows.writeText(this.text[column]);
+  }
+}
+
 /** `,` then values[index] in fixed point. */
 function field(rows: ByteRows, values: Float64Array, index: number, decimals: number): void {
   rows.writeByte(COMMA);
@@ -99,6 +125,7 @@ export function createTraceWriter(
   // Rows go out as bytes, each number in the fixed-point text toFixed gives (fixedDecimal.ts).
   const rows = new ByteRows(ROW_BUFFER_BYTES, (bytes, length) => stream.writeBytes(bytes, length));
   const time = new Float64Array(1);
+  const telemetryText = new RepeatedText(telemetryNames.length);
 
   return {
     path: file,
@@ -138,7 +165,7 @@ export function createTraceWriter(
       // Telemetry in the build's own units: the shortest text that reads back to the same double.
       for (let k = 0; k < telemetryNames.length; k++) {
         rows.writeByte(COMMA);
-        if (telemetry !== undefined) rows.writeText(String(telemetry[k]));
+        if (telemetry !== undefined) telemetryText.write(rows, telemetry, k);
       }
       rows.writeByte(NEWLINE);
     },
