@@ -142,9 +142,14 @@ export async function measureTargets(scenario: ResolvedScenario, report: BenchRe
   }
 
   log('bench targets: 1000 patches vs uniform floor');
+  // The uniform floor measured again beside the patches, not the table's first plant figure: by
+  // now the episodes above have run the step through walking paths (swing feet, end-stops) and
+  // the JIT's code for it is slower for both floors alike (0.205 → 0.255 µs measured), which a
+  // ratio against the first figure would charge to the lookup.
+  const uniform = await benchPlant(scenario, budget);
   const patched = await benchPlant(scatteredPatches(scenario, 1000), budget);
   // Medians: on a shared machine a mean carries other processes' bursts into the ratio.
-  const ratio = patched.steps.p50_us / report.plant.steps.p50_us;
+  const ratio = patched.steps.p50_us / uniform.steps.p50_us;
   rows.push({ figure: '1000 patches vs uniform floor (plant step p50)', measured: `${ratio.toFixed(2)}×`, target: '≤ 1.2×', met: ratio <= 1.2 });
 
   const python = report.builds.find((b) => b.protocolOverhead !== undefined);

@@ -97,6 +97,8 @@ export interface AtomicStream {
   readonly path: string;
   /** Appends text; buffered, flushed in chunks of about `chunkBytes`. */
   write(text: string): void;
+  /** Appends bytes[0 … length) at once (after any buffered text); the caller may reuse `bytes`. */
+  writeBytes(bytes: Uint8Array, length: number): void;
   /** Flushes, fsyncs and renames onto the target. */
   close(): void;
   /** Discards everything written; the target is left as it was. */
@@ -130,6 +132,12 @@ export function createAtomicStream(file: string, chunkBytes = 1 << 16): AtomicSt
       pending.push(text);
       pendingLength += text.length;
       if (pendingLength >= chunkBytes) flush();
+    },
+    writeBytes(bytes: Uint8Array, length: number): void {
+      if (fd === undefined) throw new Error(`atomic stream ${file}: write after close`);
+      flush();
+      let offset = 0;
+      while (offset < length) offset += writeSync(fd, bytes, offset, length - offset);
     },
     close(): void {
       if (fd === undefined) throw new Error(`atomic stream ${file}: already closed`);

@@ -58,6 +58,8 @@ export class FrictionField {
   /** Material index of cell (i, j) at [i·ny + j]. */
   private readonly rasterMaterial: Int32Array;
   private readonly grid: PatchGrid;
+  /** lookup()'s point, handed to lookupAt. */
+  private readonly point = new Float64Array(2);
 
   constructor(map: FrictionMap) {
     const materials: Material[] = [map.default];
@@ -158,6 +160,19 @@ export class FrictionField {
 
   /** Index into `materials` of the ground at (x, y) on the ground plane. Allocation-free. */
   lookup(x: number, y: number): number {
+    this.point[0] = x;
+    this.point[1] = y;
+    return this.lookupAt(this.point, 0);
+  }
+
+  /**
+   * lookup(xy[offset], xy[offset + 1]): the per-step form, reading a foot's position where it lies
+   * (plant.footPosition_m, offset 3i), so no double crosses a call the JIT may not inline (a boxed
+   * heap number per call).
+   */
+  lookupAt(xy: Float64Array, offset: number): number {
+    const x = xy[offset];
+    const y = xy[offset + 1];
     const grid = this.grid;
     if (x >= grid.minX && y >= grid.minY && x <= grid.maxX && y <= grid.maxY) {
       const i = Math.min(grid.nx - 1, Math.floor((x - grid.minX) * grid.invCell));

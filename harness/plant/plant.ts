@@ -18,7 +18,7 @@
 //   Angular velocities in the state are mid-step like the linear ones.
 // - friction: the per-foot implicit stick/slide solve of contact.ts.
 
-import type { RobotState } from '../contract/state.js';
+import { copyBytes, copyFloats, type RobotState } from '../contract/state.js';
 import type { Action } from '../contract/tick.js';
 import { footFriction, huntCrossleyNormal_N } from './contact.js';
 import { PlantDivergedError } from './errors.js';
@@ -89,6 +89,8 @@ export class Plant {
   private readonly friction2 = new Float64Array(2);
   private readonly pushWrench = new Float64Array(6);
   private readonly clock = new Float64Array(1);
+  /** (x, y) of each foot at its last material lookup; NaN (never equal) before the first. */
+  private readonly lookedUpAt_m: Float64Array;
   private firstStep = true;
   private stepCount = 0;
 
@@ -122,6 +124,7 @@ export class Plant {
     this.footInContact = new Uint8Array(n);
     this.footMaterial = new Int32Array(n);
     this.footStaticFriction = new Float64Array(n);
+    this.lookedUpAt_m = new Float64Array(2 * n).fill(Number.NaN);
     this.legForce_N = new Float64Array(3 * n);
     this.heldGroundForce = new Float64Array(3 * n);
     this.heldTarget = new Float64Array(3 * n);
@@ -185,11 +188,11 @@ export class Plant {
 
   /** Holds the build's action until the next call. */
   applyAction(action: Action): void {
-    this.heldGroundForce.set(action.groundForce_N);
-    this.heldTarget.set(action.footTarget_m);
-    this.heldTargetVelocity.set(action.footTargetVelocity_mps);
-    this.heldStiffness.set(action.stiffness_N_per_m);
-    this.heldDamping.set(action.damping_Ns_per_m);
+    copyFloats(this.heldGroundForce, action.groundForce_N);
+    copyFloats(this.heldTarget, action.footTarget_m);
+    copyFloats(this.heldTargetVelocity, action.footTargetVelocity_mps);
+    copyFloats(this.heldStiffness, action.stiffness_N_per_m);
+    copyFloats(this.heldDamping, action.damping_Ns_per_m);
   }
 
   /** Advances by one physics step. Throws PlantDivergedError on a non-finite state. */
@@ -421,14 +424,14 @@ export class Plant {
   /** Copies the plant's truth into an observation (the run layer adds noise and estimates). */
   fillObservation(obs: RobotState): void {
     obs.time_s = this.time_s;
-    obs.trunkPosition_m.set(this.trunkPosition_m);
-    obs.trunkQuaternion.set(this.trunkQuaternion);
-    obs.trunkVelocity_mps.set(this.trunkVelocity_mps);
-    obs.trunkAngularVelocity_radps.set(this.trunkAngularVelocity_radps);
-    obs.footPosition_m.set(this.footPosition_m);
-    obs.footVelocity_mps.set(this.footVelocity_mps);
-    obs.footForce_N.set(this.footGroundForce_N);
-    obs.footContact.set(this.footInContact);
+    copyFloats(obs.trunkPosition_m, this.trunkPosition_m);
+    copyFloats(obs.trunkQuaternion, this.trunkQuaternion);
+    copyFloats(obs.trunkVelocity_mps, this.trunkVelocity_mps);
+    copyFloats(obs.trunkAngularVelocity_radps, this.trunkAngularVelocity_radps);
+    copyFloats(obs.footPosition_m, this.footPosition_m);
+    copyFloats(obs.footVelocity_mps, this.footVelocity_mps);
+    copyFloats(obs.footForce_N, this.footGroundForce_N);
+    copyBytes(obs.footContact, this.footInContact);
   }
 
   /**
@@ -524,11 +527,21 @@ export class Plant {
     }
   }
 
+  /**
+   * The material under each foot. A foot whose (x, y) is exactly where it was at its last lookup
+   * (a sticking foot, a foot held still) stands on the same material: the lookup is skipped.
+   */
   private updateFootMaterials(): void {
     if (this.uniformGround && this.stepCount > 0) return; // one material everywhere: nothing moves
     const mus = this.friction.materials.staticFriction;
+    const fp = this.footPosition_m;
+    const seen = this.lookedUpAt_m;
     for (let i = 0; i < this.footCount; i++) {
-      const m = this.friction.lookup(this.footPosition_m[3 * i], this.footPosition_m[3 * i + 1]);
+      const a = 3 * i;
+      if (fp[a] === seen[2 * i] && fp[a + 1] === seen[2 * i + 1]) continue;
+      seen[2 * i] = fp[a];
+      seen[2 * i + 1] = fp[a + 1];
+      const m = this.friction.lookupAt(fp, a);
       this.footMaterial[i] = m;
       this.footStaticFriction[i] = mus[m];
     }

@@ -4,6 +4,46 @@
 
 import { createAtomicStream, type AtomicStream } from '../files/atomic.js';
 import type { TickSample } from '../score/sample.js';
+import { ByteRows } from './fixedDecimal.js';
+
+/** Bytes buffered before a write to the file (about 10 rows of a four-legged robot per kB). */
+const ROW_BUFFER_BYTES = 1 << 16;
+const COMMA = 44;
+const NEWLINE = 10;
+const ZERO = 48;
+const ONE = 49;
+
+/**
+ * String(value) per column, remembered: a telemetry column often holds one value for many ticks
+ * (a gait phase, a gain), and the same double gives the same text, so its bytes are reused
+ * instead of building a string per tick.
+ */
+class RepeatedText {
+  private readonly last: Float64Array;
+  private readonly text: string[];
+
+  constructor(columns: number) {
+    this.last = new Float64Array(columns).fill(Number.NaN); // NaN equals nothing: first use builds
+    this.text = new Array<string>(columns).fill('');
+  }
+
+  /** String(values[column]) as bytes (an array and an index: no double crosses the call). */
+  write(rows: ByteRows, values: ArrayLike<number>, column: number): void {
+    const value = values[column];
+    // The same double prints the same text (0 and −0 both "0"); NaN equals nothing: rebuilt.
+    if (value !== this.last[column]) {
+      this.last[column] = value;
+      this.text[column] = String(value);
+    }
+    rows.writeText(this.text[column]);
+  }
+}
+
+/** `,` then values[index] in fixed point. */
+function field(rows: ByteRows, values: Float64Array, index: number, decimals: number): void {
+  rows.writeByte(COMMA);
+  rows.writeFixed(values, index, decimals);
+}
 
 /**
  * Decimals per column family: time 1 µs, position 1 µm, velocity 10 µm/s, force 0.1 mN, quaternion
@@ -82,40 +122,57 @@ export function createTraceWriter(
   stream.write(`${traceColumns(footCount).join(',')}${telemetryHeader}\n`);
   const d = TRACE_DECIMALS;
   let tick = 0;
+  // Rows go out as bytes, each number in the fixed-point text toFixed gives (fixedDecimal.ts).
+  const rows = new ByteRows(ROW_BUFFER_BYTES, (bytes, length) => stream.writeBytes(bytes, length));
+  const time = new Float64Array(1);
+  const telemetryText = new RepeatedText(telemetryNames.length);
 
   return {
     path: file,
     writeRow(s: TickSample, telemetry?: ArrayLike<number>): void {
       if (tick++ % everyNth !== 0) return;
+      time[0] = s.time_s;
+      rows.writeFixed(time, 0, d.time);
       const p = s.trunkPosition_m;
+      for (let a = 0; a < 3; a++) field(rows, p, a, d.position);
       const v = s.trunkVelocity_mps;
+      for (let a = 0; a < 3; a++) field(rows, v, a, d.velocity);
       const q = s.trunkQuaternion;
+      for (let a = 0; a < 4; a++) field(rows, q, a, d.quaternion);
       const w = s.trunkAngularVelocity_radps;
-      const wanted = s.wantedForce_N;
-      let row =
-        s.time_s.toFixed(d.time) +
-        ',' + p[0].toFixed(d.position) + ',' + p[1].toFixed(d.position) + ',' + p[2].toFixed(d.position) +
-        ',' + v[0].toFixed(d.velocity) + ',' + v[1].toFixed(d.velocity) + ',' + v[2].toFixed(d.velocity) +
-        ',' + q[0].toFixed(d.quaternion) + ',' + q[1].toFixed(d.quaternion) + ',' + q[2].toFixed(d.quaternion) + ',' + q[3].toFixed(d.quaternion) +
-        ',' + w[0].toFixed(d.angularVelocity) + ',' + w[1].toFixed(d.angularVelocity) + ',' + w[2].toFixed(d.angularVelocity);
+      for (let a = 0; a < 3; a++) field(rows, w, a, d.angularVelocity);
       const fp = s.footPosition_m;
       const fv = s.footVelocity_mps;
       const ff = s.footForce_N;
+      const wanted = s.wantedForce_N;
       for (let i = 0; i < footCount; i++) {
         const j = 3 * i;
-        row +=
-          ',' + fp[j].toFixed(d.position) + ',' + fp[j + 1].toFixed(d.position) + ',' + fp[j + 2].toFixed(d.position) +
-          ',' + fv[j].toFixed(d.velocity) + ',' + fv[j + 1].toFixed(d.velocity) +
-          ',' + ff[j].toFixed(d.force) + ',' + ff[j + 1].toFixed(d.force) + ',' + ff[j + 2].toFixed(d.force) +
-          ',' + s.footStaticFriction[i].toFixed(d.friction) +
-          (ff[j + 2] > loadedThreshold_N ? ',1' : ',0') +
-          ',' + wanted[j].toFixed(d.force) + ',' + wanted[j + 1].toFixed(d.force) + ',' + wanted[j + 2].toFixed(d.force);
+        field(rows, fp, j, d.position);
+        field(rows, fp, j + 1, d.position);
+        field(rows, fp, j + 2, d.position);
+        field(rows, fv, j, d.velocity);
+        field(rows, fv, j + 1, d.velocity);
+        field(rows, ff, j, d.force);
+        field(rows, ff, j + 1, d.force);
+        field(rows, ff, j + 2, d.force);
+        field(rows, s.footStaticFriction, i, d.friction);
+        rows.writeByte(COMMA);
+        rows.writeByte(ff[j + 2] > loadedThreshold_N ? ONE : ZERO);
+        field(rows, wanted, j, d.force);
+        field(rows, wanted, j + 1, d.force);
+        field(rows, wanted, j + 2, d.force);
       }
       // Telemetry in the build's own units: the shortest text that reads back to the same double.
-      for (let k = 0; k < telemetryNames.length; k++) row += ',' + (telemetry === undefined ? '' : String(telemetry[k]));
-      stream.write(row + '\n');
+      for (let k = 0; k < telemetryNames.length; k++) {
+        rows.writeByte(COMMA);
+        if (telemetry !== undefined) telemetryText.write(rows, telemetry, k);
+      }
+      rows.writeByte(NEWLINE);
     },
-    close: () => stream.close(),
+    close: () => {
+      rows.flush();
+      stream.close();
+    },
     abort: () => stream.abort(),
   };
 }

@@ -8,6 +8,10 @@ export class CommandSchedule {
   private cursor = 0;
   /** Commanded heading, integrated from the yaw rate (world frame), starting at the initial yaw. */
   private yaw_rad: number;
+  /** cos and sin of the heading they were taken at (recomputed only when the heading turns). */
+  private trigYaw_rad = Number.NaN;
+  private cosYaw = 1;
+  private sinYaw = 0;
 
   constructor(
     private readonly steps: CommandStep[],
@@ -34,8 +38,13 @@ export class CommandSchedule {
       return;
     }
     command.gait = step.gait;
-    const c = Math.cos(this.yaw_rad);
-    const s = Math.sin(this.yaw_rad);
+    if (this.yaw_rad !== this.trigYaw_rad) {
+      this.trigYaw_rad = this.yaw_rad;
+      this.cosYaw = Math.cos(this.yaw_rad);
+      this.sinYaw = Math.sin(this.yaw_rad);
+    }
+    const c = this.cosYaw;
+    const s = this.sinYaw;
     const vx = step.velocity_mps[0];
     const vy = step.velocity_mps[1];
     command.velocity_mps[0] = c * vx - s * vy;

@@ -1,7 +1,9 @@
 // One run: a resolved scenario replayed through one opened build. Per control tick: the plant's
 // truth becomes an observation (with the scenario's sensing), the build answers with an action,
 // the plant holds it for the tick's physics steps, the scorer sees every physics step (the plant
-// itself is the step view: nothing is copied) and then the tick, as do optional trace/recorders. A build failure or a diverged plant ends the run as an `error`, never the suite.
+// itself is the step view: nothing is copied) and then the tick — the tick sample reads the
+// plant's arrays in place too —, as do optional trace/recorders. A build failure or a diverged
+// plant ends the run as an `error`, never the suite.
 // OpenedBuild (builds/loader.ts) already times each tick and refuses non-finite actions.
 
 import { createAction, createObservation, type Action } from '../contract/tick.js';
@@ -40,6 +42,7 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   const action = createAction(n, build.telemetryNames.length);
   const sample = createTickSample(n);
   sample.dt_s = dt_s;
+  viewPlantState(sample, plant);
   const sensors = new SensorModel(scenario.sensing, scenario.seed);
   const initialYaw_rad = (scenario.plant.initial.rpy_deg[2] * Math.PI) / 180;
   const commands = new CommandSchedule(scenario.commands, initialYaw_rad);
@@ -70,7 +73,8 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
         scorer.recordStep(plant, sample); // every physics step is scored, not only the tick's last
       }
 
-      fillSample(sample, plant);
+      sample.time_s = plant.time_s;
+      sample.trunkGroundForce_N = plant.trunkGroundForce_N;
       sample.loopTime_us = build.loopTime_us;
       sample.reportedCompute_us = build.reportedCompute_us;
       scorer.record(sample);
@@ -84,16 +88,35 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   return { scored: scorer.finish({ wall_s, duration_s: plant.time_s }), ...(error ? { error } : {}) };
 }
 
-/** The action the plant holds over the tick's steps, as the sample carries it to the scorer. */
+/**
+ * The action the plant holds over the tick's steps, as the sample carries it to the scorer. Copied
+ * (a build may swap its action's arrays), element by element: for a dozen values a plain loop is
+ * several times cheaper than TypedArray.set (measured, docs/bench.md).
+ */
 function holdAction(sample: TickSample, action: Action): void {
-  sample.mode.set(action.mode);
-  sample.wantedForce_N.set(action.groundForce_N);
+  const mode = sample.mode;
+  const wanted = sample.wantedForce_N;
+  const fromMode = action.mode;
+  const fromWanted = action.groundForce_N;
+  for (let i = 0; i < mode.length; i++) mode[i] = fromMode[i];
+  for (let j = 0; j < wanted.length; j++) wanted[j] = fromWanted[j];
 }
 
-function fillSample(sample: TickSample, plant: Plant): void {
-  plant.fillObservation(sample); // the plant's truth, through the one state copy (contract/state.ts)
-  sample.footStaticFriction.set(plant.footStaticFriction);
-  sample.trunkGroundForce_N = plant.trunkGroundForce_N;
+/**
+ * Points the sample's state arrays at the plant's own (once per run): the sample is read after the
+ * tick's steps and before the next tick's, so it sees exactly what a per-tick copy would hold, and
+ * no observer may keep it (TickObserver). Only the scalars are set per tick.
+ */
+function viewPlantState(sample: TickSample, plant: Plant): void {
+  sample.trunkPosition_m = plant.trunkPosition_m;
+  sample.trunkQuaternion = plant.trunkQuaternion;
+  sample.trunkVelocity_mps = plant.trunkVelocity_mps;
+  sample.trunkAngularVelocity_radps = plant.trunkAngularVelocity_radps;
+  sample.footPosition_m = plant.footPosition_m;
+  sample.footVelocity_mps = plant.footVelocity_mps;
+  sample.footForce_N = plant.footGroundForce_N;
+  sample.footContact = plant.footInContact;
+  sample.footStaticFriction = plant.footStaticFriction;
 }
 
 export function describeError(caught: unknown, time_s: number): RunError {

@@ -58,6 +58,24 @@ export class Histogram {
     this.counts[this.binOf(value)]++;
   }
 
+  /**
+   * add(values[index]) into bin bins[index], which binOf gave for that value on these bins or on
+   * a histogram with the same bins (sameBins): two trackers binning one value share the division.
+   */
+  addBinnedFrom(bins: Int32Array, values: Float64Array, index: number): void {
+    const value = values[index];
+    if (value !== value) return;
+    this.count++;
+    if (value < this.min) this.min = value;
+    if (value > this.max) this.max = value;
+    this.counts[bins[index]]++;
+  }
+
+  /** Whether `other` has exactly these bins (so a bin index of one is the same bin of the other). */
+  sameBins(other: Histogram): boolean {
+    return other.logarithmic === this.logarithmic && other.origin === this.origin && other.step === this.step && other.counts.length === this.counts.length;
+  }
+
   /** The p-quantile (0 ≤ p ≤ 1), or null when empty. */
   quantile(p: number): number | null {
     if (this.count === 0) return null;
@@ -73,7 +91,7 @@ export class Histogram {
 
   /** Adds every value of `other`, which must have the same bins (e.g. per-foot into overall). */
   addAll(other: Histogram): void {
-    if (other.logarithmic !== this.logarithmic || other.origin !== this.origin || other.step !== this.step || other.counts.length !== this.counts.length) {
+    if (!this.sameBins(other)) {
       throw new RangeError('histogram: cannot merge histograms with different bins');
     }
     for (let k = 0; k < this.counts.length; k++) this.counts[k] += other.counts[k];
@@ -94,7 +112,8 @@ export class Histogram {
     this.max = Number.NEGATIVE_INFINITY;
   }
 
-  private binOf(value: number): number {
+  /** The bin that holds `value` (out-of-range values in the first or last). */
+  binOf(value: number): number {
     const last = this.counts.length - 1;
     const k = this.logarithmic
       ? value > this.origin

@@ -2,7 +2,8 @@
 // plant satisfies the interface itself, so nothing is copied per step). Per control tick, a
 // TickSample: the plant's truth after the tick's physics steps, the action the build returned for
 // it (held over the tick's steps), and the tick's measured wall time. The episode loop owns one
-// TickSample per run and overwrites it every tick (no allocation); scorers copy what they keep.
+// TickSample per run whose state arrays are the plant's own (read in place, like a StepView) and
+// overwrites its scalars every tick (no allocation); scorers copy what they keep.
 
 import { createRobotState, type RobotState } from '../contract/state.js';
 import type { Action } from '../contract/tick.js';

@@ -69,7 +69,7 @@ export function createScorer(scenario: ResolvedScenario, options: ScorerOptions 
     steps++;
     stepsThisTick++;
     margin.recordStep(step);
-    touchdown.recordStep(step, held, margin.margins);
+    touchdown.recordStep(step, held, margin.margins, margin.marginBins);
     commanded.recordStep(step, held);
     slip.recordStep(step);
     fall.record(step);

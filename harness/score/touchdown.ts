@@ -16,11 +16,10 @@
 // start the first load is a touchdown. Memory is fixed at construction: touchdowns are at least
 // one transient apart, so a foot has at most duration / transient + 1 of them.
 
-import { marginStats } from './frictionMargin.js';
-import { Histogram } from './histogram.js';
+import { FrictionMarginTracker, marginStats } from './frictionMargin.js';
+import type { Histogram } from './histogram.js';
 import { STANCE } from '../contract/tick.js';
 import type { HeldAction, StepView } from './sample.js';
-import { MARGIN_BIN_WIDTH, MARGIN_FLOOR } from './thresholds.js';
 import type { FrictionMarginMetrics, Spread, TouchdownMetrics, TouchdownStats } from './types.js';
 
 /** The four values kept per touchdown, in this order. */
@@ -56,7 +55,7 @@ export class TouchdownTracker {
   ) {
     if (!(transient_s > 0)) throw new RangeError(`touchdown: transient ${transient_s} s must be > 0`);
     this.capacity = Math.ceil(duration_s / transient_s) + 2;
-    for (let i = 0; i < footCount; i++) this.stance.push(Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH));
+    for (let i = 0; i < footCount; i++) this.stance.push(FrictionMarginTracker.marginHistogram());
     this.airborne = new Uint8Array(footCount).fill(settledStart ? 0 : 1);
     this.wasInContact = new Uint8Array(footCount);
     this.inTransient = new Uint8Array(footCount);
@@ -67,8 +66,11 @@ export class TouchdownTracker {
     this.eventCount = new Int32Array(footCount);
   }
 
-  /** `margins`: each foot's friction margin at this step (FrictionMarginTracker.margins). */
-  recordStep(step: StepView, held: HeldAction, margins: Float64Array): void {
+  /**
+   * `margins`, `marginBins`: each loaded foot's friction margin at this step and its histogram bin
+   * (FrictionMarginTracker's, whose histograms have the stance histograms' bins).
+   */
+  recordStep(step: StepView, held: HeldAction, margins: Float64Array, marginBins: Int32Array): void {
     const force = step.footGroundForce_N;
     const velocity = step.footVelocity_mps;
     const time_s = step.time_s;
@@ -110,13 +112,13 @@ export class TouchdownTracker {
         this.open[o + SLIP] += Math.sqrt(vx * vx + vy * vy) * h;
         if (fz > this.open[o + PEAK]) this.open[o + PEAK] = fz;
       } else if (held.mode[i] === STANCE) {
-        this.stance[i].addFrom(margins, i);
+        this.stance[i].addBinnedFrom(marginBins, margins, i);
       }
     }
   }
 
   stanceMargin(): FrictionMarginMetrics {
-    const all = this.stance[0]?.emptyCopy() ?? Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH);
+    const all = FrictionMarginTracker.marginHistogram();
     for (const foot of this.stance) all.addAll(foot);
     return { ...marginStats(all), perFoot: this.stance.map(marginStats) };
   }

@@ -59,6 +59,10 @@ describe('friction patch grid', () => {
       if (expected > 0) inPatches++;
     }
     expect(inPatches).toBeGreaterThan(300); // the comparison covered patches, not only bare floor
+    // The per-step form reads the point from an array at an offset (feet at stride 3, as the plant).
+    const packed = new Float64Array(3 * points.length);
+    points.forEach(([x, y], k) => packed.set([x, y, -0.001], 3 * k));
+    for (let k = 0; k < points.length; k++) expect(field.lookupAt(packed, 3 * k)).toBe(field.lookup(points[k][0], points[k][1]));
   });
 
   it('answers the default outside every patch and with no patches at all', () => {

@@ -159,4 +159,20 @@ describe('trace CSV', () => {
     kept.close();
     expect(readFileSync(file, 'utf8').trim().split('\n')).toHaveLength(1 + 3); // ticks 0, 2, 4
   });
+
+  it('writes each telemetry value as String(value), repeated or changed, and every number as toFixed', () => {
+    const file = join(dir, 'telemetry.csv');
+    const writer = createTraceWriter(file, 4, 1, { telemetryNames: ['phase', 'gain'] });
+    const series = [[0, 1.5], [0, 1.5], [-0, 0.1 + 0.2], [Number.NaN, 0.1 + 0.2], [Number.NaN, -1e-300], [7, -1e-300]];
+    const sample = standingSample();
+    series.forEach((values, k) => {
+      sample.time_s = (k + 1) * 0.001;
+      sample.trunkPosition_m[1] = -0.0000004 * k; // rounds to −0.000000, then −0.000001 …
+      writer.writeRow(sample, Float64Array.from(values));
+    });
+    writer.close();
+    const lines = readFileSync(file, 'utf8').trim().split('\n').slice(1);
+    expect(lines.map((line) => line.split(',').slice(-2).join(','))).toEqual(series.map((values) => values.map(String).join(',')));
+    expect(lines.map((line) => line.split(',')[2])).toEqual(series.map((_, k) => (-0.0000004 * k).toFixed(6)));
+  });
 });

@@ -1,6 +1,8 @@
 import { quantile } from 'simple-statistics';
 import { describe, expect, it } from 'vitest';
+import { FrictionMarginTracker, frictionMargin } from '../../harness/score/frictionMargin.js';
 import { Histogram } from '../../harness/score/histogram.js';
+import type { StepView } from '../../harness/score/sample.js';
 
 // Deterministic values without Math.random: a 32-bit linear congruential generator (Numerical
 // Recipes constants 1664525, 1013904223, from memory) mapped to [0, 1).
@@ -65,5 +67,47 @@ describe('Histogram quantiles', () => {
     histogram.add(0.25);
     expect(histogram.count).toBe(1);
     expect(histogram.quantile(0.5)).toBe(0.25);
+  });
+});
+
+describe('one bin per margin, shared by the margin and stance histograms', () => {
+  it('FrictionMarginTracker bins every loaded margin as Histogram.binOf does, NaN for unloaded feet', () => {
+    // 4000 feet-steps of random forces: margins over the whole range, the floor (−1) included.
+    const tracker = new FrictionMarginTracker(4, 5);
+    const histogram = FrictionMarginTracker.marginHistogram();
+    const force = new Float64Array(12);
+    const friction = new Float64Array([0.5, 0.3, 0.9, 0]);
+    const step = { footGroundForce_N: force, footStaticFriction: friction } as unknown as StepView;
+    const u = uniforms(12_000, 21);
+    let loaded = 0;
+    for (let k = 0; k < 1000; k++) {
+      for (let j = 0; j < 12; j++) force[j] = j % 3 === 2 ? 10 * u[12 * k + j] : 8 * (u[12 * k + j] - 0.5);
+      tracker.recordStep(step);
+      for (let i = 0; i < 4; i++) {
+        if (force[3 * i + 2] > 5) {
+          loaded++;
+          expect(tracker.margins[i]).toBe(frictionMargin(force[3 * i], force[3 * i + 1], force[3 * i + 2], friction[i]));
+          expect(tracker.marginBins[i]).toBe(histogram.binOf(tracker.margins[i]));
+        } else {
+          expect(tracker.margins[i]).toBeNaN();
+        }
+      }
+    }
+    expect(loaded).toBeGreaterThan(1000); // about half the samples are loaded (f_n uniform in 0…10 N)
+  });
+
+  it('addBinnedFrom counts like addFrom', () => {
+    const a = Histogram.linear(-1, 1, 0.001);
+    const b = a.emptyCopy();
+    const values = Float64Array.from(uniforms(5000, 22), (x) => 2 * x - 1);
+    const bins = Int32Array.from(values, (x) => a.binOf(x));
+    for (let k = 0; k < values.length; k++) {
+      a.addFrom(values, k);
+      b.addBinnedFrom(bins, values, k);
+    }
+    expect(Array.from(b.counts)).toEqual(Array.from(a.counts));
+    expect([b.count, b.min, b.max]).toEqual([a.count, a.min, a.max]);
+    expect(a.sameBins(b)).toBe(true);
+    expect(a.sameBins(Histogram.linear(-1, 1, 0.002))).toBe(false);
   });
 });
