@@ -17,6 +17,13 @@
 //   the torque over an RK4 step instead is explicit Euler in the coupling and gains energy).
 //   Angular velocities in the state are mid-step like the linear ones.
 // - friction: the per-foot implicit stick/slide solve of contact.ts.
+// - landings: a step in which a foot touches down is taken first as a trial; if a foot went from
+//   above the ground to below it, the step is undone and taken again as K substeps of step/K, K
+//   from the impact duration (landing.ts). The leapfrog's kick at a change of step is the mean of
+//   the two steps (½(h_prev + h)), its usual variable-step form, so the scheme stays second order.
+//   An observer passed to step() sees every substep (the scorer weights each by its share).
+// - damping and Stribeck read the foot velocity at the step's start, v(t) ≈ v(t − h/2) +
+//   (h_prev/2)·a_prev (second order; the mid-step velocity alone lags by half a step).
 
 import type { RobotState } from '../contract/state.js';
 import type { Action } from '../contract/tick.js';
@@ -24,6 +31,7 @@ import { footFriction, huntCrossleyNormal_N } from './contact.js';
 import { PlantDivergedError } from './errors.js';
 import { FrictionField } from './frictionMap.js';
 import { gravityOnIncline } from './gravity.js';
+import { impactDuration_s, impactDurationFactor, landingSubsteps } from './landing.js';
 import { PushSchedule } from './pushes.js';
 import { restingDepth_m, staticSupportForces } from './settle.js';
 import { invertSymmetric3, matrixFromQuaternion, quaternionFromRollPitchYaw } from './rotation.js';
@@ -62,6 +70,14 @@ export class Plant {
   readonly legForce_N: Float64Array;
   /** Normal force of the ground on the trunk's collision box during the last step. */
   trunkGroundForce_N = 0;
+  /** Length of the last (sub)step, s: step_s, or step_s/K inside a landing step. */
+  lastStep_s = 0;
+  /** The last (sub)step's share of a physics step (1, or 1/K inside a landing step). */
+  stepWeight = 1;
+  /** Substeps of the last physics step (1 without a landing). */
+  substeps = 1;
+  /** Integrations done so far, trials undone included (the cost of landing substeps). */
+  integrations = 0;
 
   // Held action (zero-order hold between control ticks).
   private readonly heldGroundForce: Float64Array;
@@ -83,14 +99,24 @@ export class Plant {
   private readonly contactStiffness: number;
   private readonly contactExponent: number;
   private readonly contactDamping: number;
+  /** Factor of δmax/v in the impact duration of this contact law (landing.ts). */
+  private readonly impactFactor: number;
+  /** Bound on a swing foot's vertical acceleration (leg force limit and gravity), m/s². */
+  private readonly footAccelerationBound_mps2: number;
 
   // Scratch.
   private readonly rotation = new Float64Array(9);
   private readonly friction2 = new Float64Array(2);
   private readonly pushWrench = new Float64Array(6);
   private readonly clock = new Float64Array(1);
-  private firstStep = true;
+  /** Length of the previous integration (0 before the first: its kick is then half a step). */
+  private previousStep_s = 0;
   private stepCount = 0;
+  /** Each foot's acceleration in the last integration (for the start-of-step velocity). */
+  private readonly footAcceleration_mps2: Float64Array;
+  /** State before a trial landing step: trunk p, q, v, ω (13), then foot p, v, a (9 per foot). */
+  private readonly saved: Float64Array;
+  private savedPreviousStep_s = 0;
 
   constructor(config: PlantConfig) {
     validatePlantConfig(config);
@@ -110,6 +136,9 @@ export class Plant {
     this.contactStiffness = ground.contact.stiffness_N_per_m;
     this.contactExponent = ground.contact.exponent;
     this.contactDamping = ground.contact.damping_s_per_m;
+    this.impactFactor = impactDurationFactor(this.contactExponent);
+    const g = this.gravity_mps2;
+    this.footAccelerationBound_mps2 = robot.leg.maxForce_N / this.footMass + Math.sqrt(g[0] * g[0] + g[1] * g[1] + g[2] * g[2]);
 
     this.inertia.set(robot.trunk.inertia_kgm2.flat());
     invertSymmetric3(this.inertiaInverse, this.inertia);
@@ -128,6 +157,8 @@ export class Plant {
     this.heldTargetVelocity = new Float64Array(3 * n);
     this.heldStiffness = new Float64Array(n);
     this.heldDamping = new Float64Array(n);
+    this.footAcceleration_mps2 = new Float64Array(3 * n);
+    this.saved = new Float64Array(13 + 9 * n);
 
     this.trunkPosition_m.set(initial.position_m);
     const deg = Math.PI / 180;
@@ -192,10 +223,117 @@ export class Plant {
     this.heldDamping.set(action.damping_Ns_per_m);
   }
 
-  /** Advances by one physics step. Throws PlantDivergedError on a non-finite state. */
-  step(): void {
+  /**
+   * Advances by one physics step (cut into substeps when a foot lands in it). `onSubstep`, when
+   * given, is called after every substep with the plant's state at its end (lastStep_s and
+   * stepWeight say its length and share); a step without a landing calls it once. Throws
+   * PlantDivergedError on a non-finite state.
+   */
+  step(onSubstep?: () => void): void {
     const h = this.step_s;
-    const kick = this.firstStep ? 0.5 * h : h;
+    const start_s = this.time_s;
+    const mayLand = this.mayLand(h);
+    if (mayLand) this.saveState();
+    this.substeps = 1;
+    this.lastStep_s = h;
+    this.stepWeight = 1;
+    this.advance(h);
+    const k = mayLand ? this.landingSubstepsOfTrial(h) : 1;
+    if (k > 1) {
+      this.restoreState();
+      const hk = h / k;
+      this.substeps = k;
+      this.lastStep_s = hk;
+      this.stepWeight = 1 / k;
+      for (let j = 0; j < k; j++) {
+        this.time_s = start_s + (j / k) * h;
+        this.advance(hk);
+        if (j < k - 1) {
+          this.time_s = start_s + ((j + 1) / k) * h;
+          if (onSubstep !== undefined) onSubstep();
+        }
+      }
+    }
+    // Time from the step count, so that long runs do not accumulate rounding (8 s, not 7.99999…).
+    this.stepCount++;
+    this.time_s = this.stepCount * h;
+    if (onSubstep !== undefined) onSubstep();
+  }
+
+  /**
+   * Whether a foot can touch down within a step of h: it is at or above the ground and within the
+   * reach of its velocity and the largest acceleration its leg and gravity give it. Only then is
+   * the state saved for a trial (a foot in stance or high in swing costs nothing).
+   */
+  private mayLand(h: number): boolean {
+    const fp = this.footPosition_m;
+    const fv = this.footVelocity_mps;
+    const reach = h * h * this.footAccelerationBound_mps2;
+    for (let i = 0; i < this.footCount; i++) {
+      const z = fp[3 * i + 2];
+      if (z >= 0 && z + h * fv[3 * i + 2] - reach < 0) return true;
+    }
+    return false;
+  }
+
+  /** After a trial step of h: K for the feet that went from z ≥ 0 to z < 0 (1 when none did). */
+  private landingSubstepsOfTrial(h: number): number {
+    const saved = this.saved;
+    const fp = this.footPosition_m;
+    const fv = this.footVelocity_mps;
+    let k = 1;
+    for (let i = 0; i < this.footCount; i++) {
+      if (!(saved[13 + 9 * i + 2] >= 0 && fp[3 * i + 2] < 0)) continue;
+      // The trial's kick saw no ground force on this foot (it was above the ground), so its
+      // velocity is the approach velocity.
+      const speed_mps = -fv[3 * i + 2];
+      const duration_s = speed_mps > 0 ? impactDuration_s(this.contactStiffness, this.contactExponent, this.impactFactor, this.footMass, speed_mps) : 0;
+      const footK = landingSubsteps(h, duration_s);
+      if (footK > k) k = footK;
+    }
+    return k;
+  }
+
+  private saveState(): void {
+    const s = this.saved;
+    s.set(this.trunkPosition_m, 0);
+    s.set(this.trunkQuaternion, 3);
+    s.set(this.trunkVelocity_mps, 7);
+    s.set(this.trunkAngularVelocity_radps, 10);
+    for (let i = 0; i < this.footCount; i++) {
+      const b = 13 + 9 * i;
+      for (let c = 0; c < 3; c++) {
+        s[b + c] = this.footPosition_m[3 * i + c];
+        s[b + 3 + c] = this.footVelocity_mps[3 * i + c];
+        s[b + 6 + c] = this.footAcceleration_mps2[3 * i + c];
+      }
+    }
+    this.savedPreviousStep_s = this.previousStep_s;
+  }
+
+  private restoreState(): void {
+    const s = this.saved;
+    for (let c = 0; c < 3; c++) {
+      this.trunkPosition_m[c] = s[c];
+      this.trunkVelocity_mps[c] = s[7 + c];
+      this.trunkAngularVelocity_radps[c] = s[10 + c];
+    }
+    for (let c = 0; c < 4; c++) this.trunkQuaternion[c] = s[3 + c];
+    for (let i = 0; i < this.footCount; i++) {
+      const b = 13 + 9 * i;
+      for (let c = 0; c < 3; c++) {
+        this.footPosition_m[3 * i + c] = s[b + c];
+        this.footVelocity_mps[3 * i + c] = s[b + 3 + c];
+        this.footAcceleration_mps2[3 * i + c] = s[b + 6 + c];
+      }
+    }
+    this.previousStep_s = this.savedPreviousStep_s;
+    this.updateFootMaterials();
+  }
+
+  /** One integration of length h from the current state (time_s is its start). */
+  private advance(h: number): void {
+    const kick = 0.5 * (this.previousStep_s + h);
     const R = matrixFromQuaternion(this.rotation, this.trunkQuaternion);
     const p = this.trunkPosition_m;
     const v = this.trunkVelocity_mps;
@@ -218,6 +356,8 @@ export class Plant {
 
     const fp = this.footPosition_m;
     const fv = this.footVelocity_mps;
+    const acc = this.footAcceleration_mps2;
+    const halfPrevious = 0.5 * this.previousStep_s;
     for (let i = 0; i < this.footCount; i++) {
       const a = 3 * i;
       // Hip in world: ph = p + R·r; hip velocity: v + R·(ω × r) (ω in body frame).
@@ -292,8 +432,11 @@ export class Plant {
       torqueY -= rwz * legX - rwx * legZ;
       torqueZ -= rwx * legY - rwy * legX;
 
-      // Ground.
-      const normal = huntCrossleyNormal_N(this.contactStiffness, this.contactExponent, this.contactDamping, -fp[a + 2], -fv[a + 2]);
+      // Ground, read at the start-of-step foot velocity (second order, see the header).
+      const nowX = fv[a] + halfPrevious * acc[a];
+      const nowY = fv[a + 1] + halfPrevious * acc[a + 1];
+      const nowZ = fv[a + 2] + halfPrevious * acc[a + 2];
+      const normal = huntCrossleyNormal_N(this.contactStiffness, this.contactExponent, this.contactDamping, -fp[a + 2], -nowZ);
       let groundX = 0;
       let groundY = 0;
       if (normal > 0) {
@@ -313,6 +456,7 @@ export class Plant {
           materials.stribeckVelocity_mps[m],
           materials.stribeckExponent[m],
           materials.viscous_Ns_per_m[m],
+          Math.sqrt(nowX * nowX + nowY * nowY),
         );
         groundX = this.friction2[0];
         groundY = this.friction2[1];
@@ -323,10 +467,12 @@ export class Plant {
       this.footGroundForce_N[a + 1] = groundY;
       this.footGroundForce_N[a + 2] = normal;
 
-      const kickPerMass = kick / footMass;
-      fv[a] += kickPerMass * (legX + footMass * gx + groundX);
-      fv[a + 1] += kickPerMass * (legY + footMass * gy + groundY);
-      fv[a + 2] += kickPerMass * (legZ + footMass * gz + normal);
+      acc[a] = (legX + groundX) / footMass + gx;
+      acc[a + 1] = (legY + groundY) / footMass + gy;
+      acc[a + 2] = (legZ + normal) / footMass + gz;
+      fv[a] += kick * acc[a];
+      fv[a + 1] += kick * acc[a + 1];
+      fv[a + 2] += kick * acc[a + 2];
       fp[a] += h * fv[a];
       fp[a + 1] += h * fv[a + 1];
       fp[a + 2] += h * fv[a + 2];
@@ -408,12 +554,10 @@ export class Plant {
     w[0] = Ii[0] * Lx + Ii[1] * Ly + Ii[2] * Lz;
     w[1] = Ii[3] * Lx + Ii[4] * Ly + Ii[5] * Lz;
     w[2] = Ii[6] * Lx + Ii[7] * Ly + Ii[8] * Lz;
-    this.integrateFreeRotation();
+    this.integrateFreeRotation(h);
 
-    // Time from the step count, so that long runs do not accumulate rounding (8 s, not 7.99999…).
-    this.stepCount++;
-    this.time_s = this.stepCount * h;
-    this.firstStep = false;
+    this.previousStep_s = h;
+    this.integrations++;
     this.updateFootMaterials();
     this.checkFinite();
   }
@@ -432,14 +576,13 @@ export class Plant {
   }
 
   /**
-   * The torque-free rotor over one step: classical RK4 on Euler's equations I·ω̇ = −ω × Iω and the
+   * The torque-free rotor over one step of h: classical RK4 on Euler's equations I·ω̇ = −ω × Iω and the
    * quaternion kinematics q̇ = ½·q ⊗ (0, ω), then renormalised. Its error per step is O((|ω|h)⁵),
    * ~1e-14 at the default step, so the kick–rotor splitting keeps the symplectic character of an
    * exact free flow. The four stage evaluations are written out with every value in a local
    * variable: no stage arrays, and no double crosses a call boundary (which would box it).
    */
-  private integrateFreeRotation(): void {
-    const h = this.step_s;
+  private integrateFreeRotation(h: number): void {
     const half = 0.5 * h;
     const q = this.trunkQuaternion;
     const w = this.trunkAngularVelocity_radps;

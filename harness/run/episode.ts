@@ -52,6 +52,8 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   sample.referencePosition_m[1] = scenario.plant.initial.position_m[1];
   sample.referencePosition_m[2] = scenario.plant.robot.standingHeight_m;
 
+  const recordStep = (): void => scorer.recordStep(plant, sample);
+
   const wallStart = performance.now();
   let error: RunError | undefined;
   try {
@@ -65,10 +67,8 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
 
       plant.applyAction(action);
       holdAction(sample, action);
-      for (let s = 0; s < substeps; s++) {
-        plant.step();
-        scorer.recordStep(plant, sample); // every physics step is scored, not only the tick's last
-      }
+      // Every physics step is scored, not only the tick's last, and every landing substep.
+      for (let s = 0; s < substeps; s++) plant.step(recordStep);
 
       fillSample(sample, plant);
       sample.loopTime_us = build.loopTime_us;

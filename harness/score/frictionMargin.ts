@@ -1,7 +1,9 @@
 // Friction margin of the true ground force: m = 1 − |f_t| / (μs·f_n) with f_n the normal (z)
 // component, f_t the tangential (x, y) part and μs the true static friction under the foot.
 // m = 1: no tangential load; m = 0: on the Coulomb cone; m < 0: outside it (sliding, transient).
-// Every physics step of a loaded foot is one sample (no sample depends on where ticks fall).
+// Every physics step of a loaded foot is one sample (no sample depends on where ticks fall); a
+// landing substep is a sample of weight 1/K (the step's stepWeight), so percentiles are per unit
+// of time, not per integration.
 
 import { Histogram } from './histogram.js';
 import type { StepView } from './sample.js';
@@ -22,6 +24,8 @@ export class FrictionMarginTracker {
   readonly margins: Float64Array;
   /** MARGIN_FLOOR read once: an imported binding read in the loop cost a heap number per foot (measured). */
   private readonly floor: number = MARGIN_FLOOR;
+  /** The step's weight, in an array so that it crosses calls unboxed (Histogram.addWeightedFrom). */
+  readonly weight = new Float64Array(1);
 
   constructor(
     private readonly footCount: number,
@@ -35,8 +39,9 @@ export class FrictionMarginTracker {
   recordStep(sample: StepView): void {
     const force = sample.footGroundForce_N;
     this.fillMargins(force, sample.footStaticFriction);
+    this.weight[0] = sample.stepWeight;
     for (let i = 0; i < this.footCount; i++) {
-      if (force[3 * i + 2] > this.loadedThreshold_N) this.perFoot[i].addFrom(this.margins, i);
+      if (force[3 * i + 2] > this.loadedThreshold_N) this.perFoot[i].addWeightedFrom(this.margins, i, this.weight);
     }
   }
 
