@@ -13,6 +13,24 @@
 export const SUBSTEPS_PER_IMPACT = 512;
 /** Cap on K: a landing step costs at most this many integrations (plus the discarded trial). */
 export const MAX_LANDING_SUBSTEPS = 64;
+/**
+ * A step in which a foot in contact sees its elastic force grow by more than this factor is still
+ * its landing (our choice: 2 covers a Hertz impact's first ≈ 1.7 steps, (1 + h/t)^1.5 > 2).
+ */
+export const LANDING_FORCE_RATIO = 2;
+/**
+ * A foot sliding faster than this that friction stops within a step has that step retaken at the
+ * finest substep (plant.ts). Our choice: a whole step puts the stop at the step's start and so
+ * drops up to v·h/2 of slide; at 2 mm/s and 0.5 ms that is 0.5 µm per stop, below 0.1 % of the
+ * ~0.14 mm a bundled landing slides, so slower stops are left to the whole step.
+ */
+export const STOP_SPEED_mps = 0.002;
+/**
+ * A sliding foot whose slip speed friction changes by more than this fraction within a step has
+ * that step retaken at the finest substep too (our choice; a quarter keeps a steady stance slide,
+ * whose speed changes by a few percent per step, at whole steps).
+ */
+export const SLIDE_CHANGE_FRACTION = 0.25;
 
 /**
  * 2·∫₀¹ (1 − x^(n+1))^(−1/2) dx, the factor of δmax/v in the impact duration. Substituting

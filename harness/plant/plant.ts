@@ -31,7 +31,7 @@ import { footFriction, huntCrossleyNormal_N } from './contact.js';
 import { PlantDivergedError } from './errors.js';
 import { FrictionField } from './frictionMap.js';
 import { gravityOnIncline } from './gravity.js';
-import { impactDuration_s, impactDurationFactor, landingSubsteps } from './landing.js';
+import { impactDuration_s, impactDurationFactor, landingSubsteps, LANDING_FORCE_RATIO, MAX_LANDING_SUBSTEPS, SLIDE_CHANGE_FRACTION, STOP_SPEED_mps } from './landing.js';
 import { PushSchedule } from './pushes.js';
 import { restingDepth_m, staticSupportForces } from './settle.js';
 import { invertSymmetric3, matrixFromQuaternion, quaternionFromRollPitchYaw } from './rotation.js';
@@ -114,6 +114,9 @@ export class Plant {
   private stepCount = 0;
   /** Each foot's acceleration in the last integration (for the start-of-step velocity). */
   private readonly footAcceleration_mps2: Float64Array;
+  /** Per foot, in the last integration: friction held it (1) or not, and its start slip speed. */
+  private readonly footSticking: Uint8Array;
+  private readonly footStartSlip_mps: Float64Array;
   /** State before a trial landing step: trunk p, q, v, ω (13), then foot p, v, a (9 per foot). */
   private readonly saved: Float64Array;
   private savedPreviousStep_s = 0;
@@ -158,6 +161,8 @@ export class Plant {
     this.heldStiffness = new Float64Array(n);
     this.heldDamping = new Float64Array(n);
     this.footAcceleration_mps2 = new Float64Array(3 * n);
+    this.footSticking = new Uint8Array(n);
+    this.footStartSlip_mps = new Float64Array(n);
     this.saved = new Float64Array(13 + 9 * n);
 
     this.trunkPosition_m.set(initial.position_m);
@@ -232,7 +237,7 @@ export class Plant {
   step(onSubstep?: () => void): void {
     const h = this.step_s;
     const start_s = this.time_s;
-    const mayLand = this.mayLand(h);
+    const mayLand = this.mayChangeContact(h);
     if (mayLand) this.saveState();
     this.substeps = 1;
     this.lastStep_s = h;
@@ -261,37 +266,70 @@ export class Plant {
   }
 
   /**
-   * Whether a foot can touch down within a step of h: it is at or above the ground and within the
-   * reach of its velocity and the largest acceleration its leg and gravity give it. Only then is
-   * the state saved for a trial (a foot in stance or high in swing costs nothing).
+   * Whether a foot can cross the ground plane within a step of h (it is within the reach of its
+   * velocity and the largest acceleration its leg and gravity give it), or is sliding and may be
+   * stopped. Only then is the state saved for a trial (a foot sticking in stance or high in swing
+   * costs nothing).
    */
-  private mayLand(h: number): boolean {
+  private mayChangeContact(h: number): boolean {
     const fp = this.footPosition_m;
     const fv = this.footVelocity_mps;
     const reach = h * h * this.footAccelerationBound_mps2;
     for (let i = 0; i < this.footCount; i++) {
       const z = fp[3 * i + 2];
-      if (z >= 0 && z + h * fv[3 * i + 2] - reach < 0) return true;
+      const next = z + h * fv[3 * i + 2];
+      if (z >= 0 ? next - reach < 0 : next + reach >= 0) return true;
+      if (z < 0 && fv[3 * i] * fv[3 * i] + fv[3 * i + 1] * fv[3 * i + 1] > STOP_SPEED_mps * STOP_SPEED_mps) return true;
     }
     return false;
   }
 
-  /** After a trial step of h: K for the feet that went from z ≥ 0 to z < 0 (1 when none did). */
+  /**
+   * After a trial step of h: K for its contact events (1 when there were none). A foot that went
+   * from z ≥ 0 to z < 0 lands, one that went the other way lifts off: K from the impact duration
+   * at its normal speed (landing.ts). A foot sliding faster than STOP_SPEED_mps that friction
+   * stopped in the trial is retaken at the finest substep: where in the step it stops sets how
+   * far it slid, which the whole step would put at its start (no slide at all).
+   */
   private landingSubstepsOfTrial(h: number): number {
     const saved = this.saved;
     const fp = this.footPosition_m;
     const fv = this.footVelocity_mps;
     let k = 1;
     for (let i = 0; i < this.footCount; i++) {
-      if (!(saved[13 + 9 * i + 2] >= 0 && fp[3 * i + 2] < 0)) continue;
-      // The trial's kick saw no ground force on this foot (it was above the ground), so its
-      // velocity is the approach velocity.
-      const speed_mps = -fv[3 * i + 2];
+      const before = saved[13 + 9 * i + 2];
+      const after = fp[3 * i + 2];
+      // A landing is the step of touch-down and the steps after it in which the contact's elastic
+      // force more than doubles (a Hertz impact's first ≈ 1.7 steps: the force at the step's start
+      // is held over the step, so a landing late in its step meets the rise in the next one).
+      const lands = after < 0 && (before >= 0 || (after < before && Math.pow(after / before, this.contactExponent) > LANDING_FORCE_RATIO));
+      if (!lands && !(before < 0 && after >= 0)) {
+        if (this.footInContact[i] === 1 && this.slideChangedFast(i)) k = MAX_LANDING_SUBSTEPS;
+        continue;
+      }
+      // Landing: the trial's kick saw no ground force on this foot (it was above the ground), so
+      // its velocity is the approach velocity. Lift-off: the speed it leaves with.
+      const speed_mps = lands ? -fv[3 * i + 2] : fv[3 * i + 2];
       const duration_s = speed_mps > 0 ? impactDuration_s(this.contactStiffness, this.contactExponent, this.impactFactor, this.footMass, speed_mps) : 0;
       const footK = landingSubsteps(h, duration_s);
       if (footK > k) k = footK;
     }
     return k;
+  }
+
+  /**
+   * Whether foot i, sliding faster than STOP_SPEED_mps at the trial's start, was stopped by friction
+   * or changed its slip speed by more than SLIDE_CHANGE_FRACTION in the trial: the step after a
+   * landing, in which the normal force jumps from a few newtons to hundreds and friction takes
+   * most of the foot's tangential speed, is such a step.
+   */
+  private slideChangedFast(i: number): boolean {
+    const start_mps = this.footStartSlip_mps[i];
+    if (!(start_mps > STOP_SPEED_mps)) return false;
+    if (this.footSticking[i] === 1) return true;
+    const vx = this.footVelocity_mps[3 * i];
+    const vy = this.footVelocity_mps[3 * i + 1];
+    return Math.abs(Math.sqrt(vx * vx + vy * vy) - start_mps) > SLIDE_CHANGE_FRACTION * start_mps;
   }
 
   private saveState(): void {
@@ -442,7 +480,9 @@ export class Plant {
       if (normal > 0) {
         const m = this.footMaterial[i];
         this.footInContact[i] = 1;
-        footFriction(
+        const slip_mps = Math.sqrt(nowX * nowX + nowY * nowY);
+        this.footStartSlip_mps[i] = slip_mps;
+        this.footSticking[i] = footFriction(
           this.friction2,
           footMass,
           kick,
@@ -456,12 +496,13 @@ export class Plant {
           materials.stribeckVelocity_mps[m],
           materials.stribeckExponent[m],
           materials.viscous_Ns_per_m[m],
-          Math.sqrt(nowX * nowX + nowY * nowY),
+          slip_mps,
         );
         groundX = this.friction2[0];
         groundY = this.friction2[1];
       } else {
         this.footInContact[i] = 0;
+        this.footSticking[i] = 0;
       }
       this.footGroundForce_N[a] = groundX;
       this.footGroundForce_N[a + 1] = groundY;
@@ -559,7 +600,7 @@ export class Plant {
     this.previousStep_s = h;
     this.integrations++;
     this.updateFootMaterials();
-    this.checkFinite();
+    this.checkFinite(this.time_s + h);
   }
 
   /** Copies the plant's truth into an observation (the run layer adds noise and estimates). */
@@ -677,7 +718,8 @@ export class Plant {
     }
   }
 
-  private checkFinite(): void {
+  /** `time_s`: the end of the integration that produced this state (the error reports it). */
+  private checkFinite(time_s: number): void {
     const p = this.trunkPosition_m;
     const v = this.trunkVelocity_mps;
     const w = this.trunkAngularVelocity_radps;
@@ -685,7 +727,7 @@ export class Plant {
     let sum = p[0] + p[1] + p[2] + v[0] + v[1] + v[2] + w[0] + w[1] + w[2] + q[0] + q[1] + q[2] + q[3];
     for (let j = 0; j < this.footPosition_m.length; j++) sum += this.footPosition_m[j] + this.footVelocity_mps[j];
     if (Number.isFinite(sum)) return;
-    throw new PlantDivergedError(this.time_s, this.firstNonFinite());
+    throw new PlantDivergedError(time_s, this.firstNonFinite());
   }
 
   private firstNonFinite(): string {
