@@ -38,6 +38,36 @@ export function huntCrossleyNormal_N(
 }
 
 /**
+ * The Hunt–Crossley normal force with the penetration rate read at the step's start, second
+ * order: the leapfrog's velocity there is v(t) = v(t − h/2) + τ·a(t) with τ = h_prev/2 and a(t)
+ * including this very force, and since f is linear in δ̇ the equation
+ *   f = k·δⁿ·(1 − χ·(w + τ·(F_other + f)/m)),  χ = (3/2)·c,  w = v_z(t − h/2),
+ * is solved in closed form (the mid-step velocity alone lags the rate by half a step: first
+ * order). otherForce_N: every other vertical force on the foot (leg, weight). Clamped at ≥ 0.
+ */
+export function huntCrossleyNormalAtStart_N(
+  stiffness: number,
+  exponent: number,
+  damping_s_per_m: number,
+  depth_m: number,
+  midVelocityZ_mps: number,
+  otherForce_N: number,
+  mass_kg: number,
+  lag_s: number,
+): number {
+  if (depth_m <= 0) return 0;
+  const elastic =
+    exponent === 1.5
+      ? stiffness * depth_m * Math.sqrt(depth_m)
+      : exponent === 1
+        ? stiffness * depth_m
+        : stiffness * Math.pow(depth_m, exponent);
+  const chi = 1.5 * damping_s_per_m;
+  const force = (elastic * (1 - chi * (midVelocityZ_mps + (lag_s * otherForce_N) / mass_kg))) / (1 + (elastic * chi * lag_s) / mass_kg);
+  return force > 0 ? force : 0;
+}
+
+/**
  * Stribeck friction magnitude |f_t| = [μk + (μs − μk)·exp(−(v/v_s)^α)]·f_n + b·v at slip speed
  * v ≥ 0 (Armstrong-Hélouvry, Dupont & Canudas de Wit, Automatica 30(7), 1994).
  */

@@ -22,12 +22,14 @@
 //   from the impact duration (landing.ts). The leapfrog's kick at a change of step is the mean of
 //   the two steps (½(h_prev + h)), its usual variable-step form, so the scheme stays second order.
 //   An observer passed to step() sees every substep (the scorer weights each by its share).
-// - damping and Stribeck read the foot velocity at the step's start, v(t) ≈ v(t − h/2) +
-//   (h_prev/2)·a_prev (second order; the mid-step velocity alone lags by half a step).
+// - damping and Stribeck read the foot velocity at the step's start, v(t) = v(t − h/2) +
+//   (h_prev/2)·a(t), second order (the mid-step velocity alone lags by half a step): the normal
+//   damping with this step's own a(t), in closed form (contact.ts), the Stribeck slip speed with
+//   the last step's (friction's own force is not known before the stick/slide solve).
 
 import type { RobotState } from '../contract/state.js';
 import type { Action } from '../contract/tick.js';
-import { footFriction, huntCrossleyNormal_N } from './contact.js';
+import { footFriction, huntCrossleyNormal_N, huntCrossleyNormalAtStart_N } from './contact.js';
 import { PlantDivergedError } from './errors.js';
 import { FrictionField } from './frictionMap.js';
 import { gravityOnIncline } from './gravity.js';
@@ -470,11 +472,20 @@ export class Plant {
       torqueY -= rwz * legX - rwx * legZ;
       torqueZ -= rwx * legY - rwy * legX;
 
-      // Ground, read at the start-of-step foot velocity (second order, see the header).
+      // Ground, read at the start-of-step foot velocity (second order, see the header): the
+      // normal damping solved with this step's own acceleration, the slip speed extrapolated.
       const nowX = fv[a] + halfPrevious * acc[a];
       const nowY = fv[a + 1] + halfPrevious * acc[a + 1];
-      const nowZ = fv[a + 2] + halfPrevious * acc[a + 2];
-      const normal = huntCrossleyNormal_N(this.contactStiffness, this.contactExponent, this.contactDamping, -fp[a + 2], -nowZ);
+      const normal = huntCrossleyNormalAtStart_N(
+        this.contactStiffness,
+        this.contactExponent,
+        this.contactDamping,
+        -fp[a + 2],
+        fv[a + 2],
+        legZ + footMass * gz,
+        footMass,
+        halfPrevious,
+      );
       let groundX = 0;
       let groundY = 0;
       if (normal > 0) {

@@ -89,13 +89,13 @@ describe('scoring every physics step', () => {
     const whole = scoreSplit(1);
     for (const k of [2, 16, 64]) {
       const split = scoreSplit(k);
-      expect(split.stanceMargin.p05).toBeCloseTo(whole.stanceMargin.p05!, 12);
-      expect(split.stanceMargin.min).toBe(whole.stanceMargin.min);
+      expect(split.stanceMargin!.p05).toBeCloseTo(whole.stanceMargin!.p05!, 12);
+      expect(split.stanceMargin!.min).toBe(whole.stanceMargin!.min);
       expect(split.frictionMargin.p05).toBeCloseTo(whole.frictionMargin.p05!, 12);
       expect(split.slipDistance_m).toBeCloseTo(whole.slipDistance_m, 15);
       expect(split.violations.slipTime_s).toBeCloseTo(whole.violations.slipTime_s, 15);
       expect(split.violations.slip).toBe(whole.violations.slip);
-      expect(split.steps).toBe(whole.steps + 11 * (k - 1)); // 11 of the 96 steps are split
+      expect(split.steps).toBe(whole.steps! + 11 * (k - 1)); // 11 of the 96 steps are split
     }
   });
 
