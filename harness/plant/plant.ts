@@ -33,7 +33,15 @@ import { footFriction, huntCrossleyNormal_N, huntCrossleyNormalAtStart_N } from 
 import { PlantDivergedError } from './errors.js';
 import { FrictionField } from './frictionMap.js';
 import { gravityOnIncline } from './gravity.js';
-import { impactDuration_s, impactDurationFactor, landingSubsteps, LANDING_FORCE_RATIO, MAX_LANDING_SUBSTEPS, SLIDE_CHANGE_FRACTION, STOP_SPEED_mps } from './landing.js';
+import {
+  impactDuration_s,
+  impactDurationFactor,
+  LANDING_FORCE_RATIO,
+  MAX_LANDING_SUBSTEPS,
+  SLIDE_CHANGE_FRACTION,
+  STOP_SPEED_mps,
+  SUBSTEPS_PER_IMPACT,
+} from './landing.js';
 import { PushSchedule } from './pushes.js';
 import { restingDepth_m, staticSupportForces } from './settle.js';
 import { invertSymmetric3, matrixFromQuaternion, quaternionFromRollPitchYaw } from './rotation.js';
@@ -101,8 +109,9 @@ export class Plant {
   private readonly contactStiffness: number;
   private readonly contactExponent: number;
   private readonly contactDamping: number;
-  /** Factor of δmax/v in the impact duration of this contact law (landing.ts). */
-  private readonly impactFactor: number;
+  /** The impact duration of this contact law and foot, t_c = scale·v^exponent (landing.ts). */
+  private readonly impactDurationScale: number;
+  private readonly impactDurationExponent: number;
   /** Bound on a swing foot's vertical acceleration (leg force limit and gravity), m/s². */
   private readonly footAccelerationBound_mps2: number;
 
@@ -113,6 +122,8 @@ export class Plant {
   private readonly clock = new Float64Array(1);
   /** Length of the previous integration (0 before the first: its kick is then half a step). */
   private previousStep_s = 0;
+  /** An action arrived since the last integration (its first step reads the old leg force). */
+  private actionIsNew = false;
   private stepCount = 0;
   /** Each foot's acceleration in the last integration (for the start-of-step velocity). */
   private readonly footAcceleration_mps2: Float64Array;
@@ -141,7 +152,9 @@ export class Plant {
     this.contactStiffness = ground.contact.stiffness_N_per_m;
     this.contactExponent = ground.contact.exponent;
     this.contactDamping = ground.contact.damping_s_per_m;
-    this.impactFactor = impactDurationFactor(this.contactExponent);
+    // t_c = factor·δmax/v with δmax = ((n+1)·m·v²/(2k))^(1/(n+1)): scale·v^(2/(n+1) − 1).
+    this.impactDurationScale = impactDuration_s(this.contactStiffness, this.contactExponent, impactDurationFactor(this.contactExponent), this.footMass, 1);
+    this.impactDurationExponent = 2 / (this.contactExponent + 1) - 1;
     const g = this.gravity_mps2;
     this.footAccelerationBound_mps2 = robot.leg.maxForce_N / this.footMass + Math.sqrt(g[0] * g[0] + g[1] * g[1] + g[2] * g[2]);
 
@@ -228,6 +241,7 @@ export class Plant {
     this.heldTargetVelocity.set(action.footTargetVelocity_mps);
     this.heldStiffness.set(action.stiffness_N_per_m);
     this.heldDamping.set(action.damping_Ns_per_m);
+    this.actionIsNew = true;
   }
 
   /**
@@ -239,13 +253,13 @@ export class Plant {
   step(onSubstep?: () => void): void {
     const h = this.step_s;
     const start_s = this.time_s;
-    const mayLand = this.mayChangeContact(h);
+    const mayLand = this.mayChangeContact();
     if (mayLand) this.saveState();
     this.substeps = 1;
     this.lastStep_s = h;
     this.stepWeight = 1;
-    this.advance(h);
-    const k = mayLand ? this.landingSubstepsOfTrial(h) : 1;
+    this.advance();
+    const k = mayLand ? this.landingSubstepsOfTrial() : 1;
     if (k > 1) {
       this.restoreState();
       const hk = h / k;
@@ -254,7 +268,7 @@ export class Plant {
       this.stepWeight = 1 / k;
       for (let j = 0; j < k; j++) {
         this.time_s = start_s + (j / k) * h;
-        this.advance(hk);
+        this.advance();
         if (j < k - 1) {
           this.time_s = start_s + ((j + 1) / k) * h;
           if (onSubstep !== undefined) onSubstep();
@@ -273,7 +287,8 @@ export class Plant {
    * stopped. Only then is the state saved for a trial (a foot sticking in stance or high in swing
    * costs nothing).
    */
-  private mayChangeContact(h: number): boolean {
+  private mayChangeContact(): boolean {
+    const h = this.step_s;
     const fp = this.footPosition_m;
     const fv = this.footVelocity_mps;
     const reach = h * h * this.footAccelerationBound_mps2;
@@ -293,7 +308,8 @@ export class Plant {
    * stopped in the trial is retaken at the finest substep: where in the step it stops sets how
    * far it slid, which the whole step would put at its start (no slide at all).
    */
-  private landingSubstepsOfTrial(h: number): number {
+  private landingSubstepsOfTrial(): number {
+    const h = this.step_s;
     const saved = this.saved;
     const fp = this.footPosition_m;
     const fv = this.footVelocity_mps;
@@ -311,9 +327,13 @@ export class Plant {
       }
       // Landing: the trial's kick saw no ground force on this foot (it was above the ground), so
       // its velocity is the approach velocity. Lift-off: the speed it leaves with.
+      // landing.ts's rule written out (no double crosses a call, which would box it): t_c =
+      // factor·δmax/v = durationScale·v^durationExponent, then the smallest power of two K with
+      // h/K ≤ t_c/SUBSTEPS_PER_IMPACT, at most MAX_LANDING_SUBSTEPS (also when v ≤ 0).
       const speed_mps = lands ? -fv[3 * i + 2] : fv[3 * i + 2];
-      const duration_s = speed_mps > 0 ? impactDuration_s(this.contactStiffness, this.contactExponent, this.impactFactor, this.footMass, speed_mps) : 0;
-      const footK = landingSubsteps(h, duration_s);
+      const limit_s = speed_mps > 0 ? (this.impactDurationScale * Math.pow(speed_mps, this.impactDurationExponent)) / SUBSTEPS_PER_IMPACT : 0;
+      let footK = 1;
+      while (footK < MAX_LANDING_SUBSTEPS && !(h / footK <= limit_s)) footK *= 2;
       if (footK > k) k = footK;
     }
     return k;
@@ -371,8 +391,12 @@ export class Plant {
     this.updateFootMaterials();
   }
 
-  /** One integration of length h from the current state (time_s is its start). */
-  private advance(h: number): void {
+  /**
+   * One integration of length lastStep_s from the current state (time_s is its start). No
+   * argument: a double passed to a call V8 does not inline is boxed (DEVELOPERS.md, the plant).
+   */
+  private advance(): void {
+    const h = this.lastStep_s;
     const kick = 0.5 * (this.previousStep_s + h);
     const R = matrixFromQuaternion(this.rotation, this.trunkQuaternion);
     const p = this.trunkPosition_m;
@@ -460,6 +484,10 @@ export class Plant {
         legY += along * uy;
         legZ += along * uz;
       }
+      // The leg's vertical force the contact reads the foot's acceleration with: this step's, but
+      // the last step's on the first step of a new action (a change of the held action at this
+      // tick acts from now on, not half a step back).
+      const contactLegZ = this.actionIsNew ? this.legForce_N[a + 2] : legZ;
       this.legForce_N[a] = legX;
       this.legForce_N[a + 1] = legY;
       this.legForce_N[a + 2] = legZ;
@@ -482,7 +510,7 @@ export class Plant {
         this.contactDamping,
         -fp[a + 2],
         fv[a + 2],
-        legZ + footMass * gz,
+        contactLegZ + footMass * gz,
         footMass,
         halfPrevious,
       );
@@ -606,12 +634,13 @@ export class Plant {
     w[0] = Ii[0] * Lx + Ii[1] * Ly + Ii[2] * Lz;
     w[1] = Ii[3] * Lx + Ii[4] * Ly + Ii[5] * Lz;
     w[2] = Ii[6] * Lx + Ii[7] * Ly + Ii[8] * Lz;
-    this.integrateFreeRotation(h);
+    this.integrateFreeRotation();
 
     this.previousStep_s = h;
+    this.actionIsNew = false;
     this.integrations++;
     this.updateFootMaterials();
-    this.checkFinite(this.time_s + h);
+    this.checkFinite();
   }
 
   /** Copies the plant's truth into an observation (the run layer adds noise and estimates). */
@@ -634,7 +663,8 @@ export class Plant {
    * exact free flow. The four stage evaluations are written out with every value in a local
    * variable: no stage arrays, and no double crosses a call boundary (which would box it).
    */
-  private integrateFreeRotation(h: number): void {
+  private integrateFreeRotation(): void {
+    const h = this.lastStep_s;
     const half = 0.5 * h;
     const q = this.trunkQuaternion;
     const w = this.trunkAngularVelocity_radps;
@@ -729,8 +759,8 @@ export class Plant {
     }
   }
 
-  /** `time_s`: the end of the integration that produced this state (the error reports it). */
-  private checkFinite(time_s: number): void {
+  /** Called at the end of an integration: the error reports that time (its start + its length). */
+  private checkFinite(): void {
     const p = this.trunkPosition_m;
     const v = this.trunkVelocity_mps;
     const w = this.trunkAngularVelocity_radps;
@@ -738,7 +768,7 @@ export class Plant {
     let sum = p[0] + p[1] + p[2] + v[0] + v[1] + v[2] + w[0] + w[1] + w[2] + q[0] + q[1] + q[2] + q[3];
     for (let j = 0; j < this.footPosition_m.length; j++) sum += this.footPosition_m[j] + this.footVelocity_mps[j];
     if (Number.isFinite(sum)) return;
-    throw new PlantDivergedError(time_s, this.firstNonFinite());
+    throw new PlantDivergedError(this.time_s + this.lastStep_s, this.firstNonFinite());
   }
 
   private firstNonFinite(): string {

@@ -13,7 +13,8 @@ import {
   SUBSTEPS_PER_IMPACT,
 } from '../../harness/plant/landing.js';
 import { Plant } from '../../harness/plant/plant.js';
-import { limpAction, plantConfig, testRobot } from '../support/robots.js';
+import { measureSteadyAllocation } from '../support/allocation.js';
+import { holdPosture, limpAction, plantConfig, testRobot } from '../support/robots.js';
 
 describe('impact duration', () => {
   it('has the factor 2.94 for Hertz (Johnson §11.4) and π for a linear spring (half its period)', () => {
@@ -119,5 +120,36 @@ describe('the plant cuts a landing step into K substeps', () => {
       }
     }
     expect(landed).toBe(true);
+  });
+});
+
+describe('landing substeps allocate nothing', () => {
+  it('a standing robot lifting and landing a foot every 50 ms runs 200 000 steps with no garbage collection', async () => {
+    // Two held actions alternate every 100 steps: all four feet held, or foot 0's target 3 cm up,
+    // so foot 0 lifts off and lands again and again (trial, undo, K substeps each time).
+    const plant = new Plant(plantConfig());
+    const hold = holdPosture(plant);
+    const lift = holdPosture(plant);
+    lift.footTarget_m[2] += 0.03;
+    lift.groundForce_N.fill(0, 0, 3);
+    plant.applyAction(hold);
+    let substeps = 0;
+    const observe = (): void => {
+      substeps++;
+    };
+    let k = 0;
+    const body = (): void => {
+      if (++k % 100 === 0) plant.applyAction((k / 100) % 2 === 1 ? lift : hold);
+      plant.step(observe);
+    };
+    const integrationsBefore = plant.integrations;
+    const result = await measureSteadyAllocation(200_000, body, (r) => r.collections === 0 && r.bytesPerCall < 1);
+    // Landings did happen: more substeps than steps, and more integrations than substeps (trials).
+    expect(substeps).toBeGreaterThan(k + 100);
+    expect(plant.integrations - integrationsBefore).toBeGreaterThan(substeps);
+    // As in test/plant/convergence.test.ts: any allocation would be a ≥ 12-byte heap number per
+    // landing or per substep, and with a landing every 100 steps would show as scavenges.
+    expect(result.collections).toBe(0);
+    expect(result.bytesPerCall).toBeLessThan(1);
   });
 });
