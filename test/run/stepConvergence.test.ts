@@ -21,11 +21,14 @@ const STANCE_MIN_TOLERANCE = 0.01;
 /** Slip (`slipDistance_m`) and touchdown slip (Σ over touchdowns) within 2 % of the fine step's (the target). */
 const SLIP_FRACTION = 0.02;
 /**
- * A gross slide (fine-step slip > 0.1 m: the robot loses its footing and slides for metres, which
- * foot re-sticks first flips with the step) within 5 % instead (docs/scoring.md, Step convergence).
+ * Looser, 5 % (docs/scoring.md, Step convergence): the run's slip in a gross slide (fine-step slip
+ * > 0.1 m: the robot loses its footing, and which foot re-sticks first flips with the step), and
+ * the touchdown slip of a robot that slides in stance (fine-step slip outside touchdown transients
+ * > 1 mm: its touchdowns slide on kinetic friction beyond the substepped impact).
  */
 const GROSS_SLIDE_m = 0.1;
-const GROSS_SLIP_FRACTION = 0.05;
+const STANCE_SLIDE_m = 0.001;
+const LOOSE_SLIP_FRACTION = 0.05;
 const REFINEMENT = 4;
 
 async function walkingScenarios(): Promise<ResolvedScenario[]> {
@@ -58,9 +61,9 @@ function touchdownSlip_m(m: ScoreMetrics): number {
   return touchdown.count * (touchdown.slip_m.mean ?? 0);
 }
 
-/** |coarse − fine| allowed for a slip whose fine-step value is `fine_m`, in a run that slid `runSlip_m`. */
-function slipAllowed_m(fine_m: number, runSlip_m: number): number {
-  return (runSlip_m > GROSS_SLIDE_m ? GROSS_SLIP_FRACTION : SLIP_FRACTION) * fine_m;
+/** |coarse − fine| allowed for a slip whose fine-step value is `fine_m`: a fraction of it. */
+function slipAllowed_m(fine_m: number, loose: boolean): number {
+  return (loose ? LOOSE_SLIP_FRACTION : SLIP_FRACTION) * fine_m;
 }
 
 describe('scores converge in the physics step (default vs 4× finer)', async () => {
@@ -78,9 +81,10 @@ describe('scores converge in the physics step (default vs 4× finer)', async () 
         const f = fine.stanceMargin!;
         expect(Math.abs(c.p05! - f.p05!)).toBeLessThanOrEqual(STANCE_P05_TOLERANCE);
         expect(Math.abs(c.min! - f.min!)).toBeLessThanOrEqual(STANCE_MIN_TOLERANCE);
-        const runSlip_m = fine.slipDistance_m;
-        expect(Math.abs(coarse.slipDistance_m - fine.slipDistance_m)).toBeLessThanOrEqual(slipAllowed_m(fine.slipDistance_m, runSlip_m));
-        expect(Math.abs(touchdownSlip_m(coarse) - touchdownSlip_m(fine))).toBeLessThanOrEqual(slipAllowed_m(touchdownSlip_m(fine), runSlip_m));
+        const gross = fine.slipDistance_m > GROSS_SLIDE_m;
+        const slidesInStance = fine.slipDistance_m - touchdownSlip_m(fine) > STANCE_SLIDE_m;
+        expect(Math.abs(coarse.slipDistance_m - fine.slipDistance_m)).toBeLessThanOrEqual(slipAllowed_m(fine.slipDistance_m, gross));
+        expect(Math.abs(touchdownSlip_m(coarse) - touchdownSlip_m(fine))).toBeLessThanOrEqual(slipAllowed_m(touchdownSlip_m(fine), slidesInStance));
       });
     }
   }
