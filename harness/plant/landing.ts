@@ -21,7 +21,7 @@ export const LANDING_FORCE_RATIO = 2;
 /**
  * A foot sliding faster than this that friction stops within a step has that step retaken at the
  * finest substep (plant.ts). Our choice: a whole step puts the stop at the step's start and so
- * drops up to v·h/2 of slide; at 2 mm/s and 0.5 ms that is 0.5 µm per stop, below 0.1 % of the
+ * drops up to v·h/2 of slide; at 2 mm/s and 0.5 ms that is 0.5 µm per stop, under 0.4 % of the
  * ~0.14 mm a bundled landing slides, so slower stops are left to the whole step.
  */
 export const STOP_SPEED_mps = 0.002;

@@ -17,9 +17,10 @@
 //   the torque over an RK4 step instead is explicit Euler in the coupling and gains energy).
 //   Angular velocities in the state are mid-step like the linear ones.
 // - friction: the per-foot implicit stick/slide solve of contact.ts.
-// - landings: a step in which a foot touches down is taken first as a trial; if a foot went from
-//   above the ground to below it, the step is undone and taken again as K substeps of step/K, K
-//   from the impact duration (landing.ts). The leapfrog's kick at a change of step is the mean of
+// - landings: a step in which a foot may touch down is taken first as a trial; if a foot went from
+//   above the ground to below it (or its contact force more than doubled, it lifted off, or
+//   friction stopped or sharply slowed its slide), the step is undone and taken again as K
+//   substeps of step/K, K from the impact duration (landing.ts). The leapfrog's kick at a change of step is the mean of
 //   the two steps (½(h_prev + h)), its usual variable-step form, so the scheme stays second order.
 //   An observer passed to step() sees every substep (the scorer weights each by its share).
 // - damping and Stribeck read the foot velocity at the step's start, v(t) = v(t − h/2) +
@@ -47,6 +48,9 @@ import { restingDepth_m, staticSupportForces } from './settle.js';
 import { invertSymmetric3, matrixFromQuaternion, quaternionFromRollPitchYaw } from './rotation.js';
 import type { ContactLaw, PlantConfig, RobotParams } from './types.js';
 import { validatePlantConfig } from './validate.js';
+
+/** Saved values per foot before a trial step (position, velocity, acceleration, leg force z). */
+const SAVED_PER_FOOT = 10;
 
 /** Regularisation speed of the trunk-on-ground friction (a fallen robot only; common practice). */
 const TRUNK_FRICTION_SPEED_mps = 0.05;
@@ -130,9 +134,13 @@ export class Plant {
   /** Per foot, in the last integration: friction held it (1) or not, and its start slip speed. */
   private readonly footSticking: Uint8Array;
   private readonly footStartSlip_mps: Float64Array;
-  /** State before a trial landing step: trunk p, q, v, ω (13), then foot p, v, a (9 per foot). */
+  /**
+   * State before a trial landing step: trunk p, q, v, ω (13), then per foot p, v, a and the leg's
+   * vertical force of the last step (10 per foot).
+   */
   private readonly saved: Float64Array;
   private savedPreviousStep_s = 0;
+  private savedActionIsNew = false;
 
   constructor(config: PlantConfig) {
     validatePlantConfig(config);
@@ -178,7 +186,7 @@ export class Plant {
     this.footAcceleration_mps2 = new Float64Array(3 * n);
     this.footSticking = new Uint8Array(n);
     this.footStartSlip_mps = new Float64Array(n);
-    this.saved = new Float64Array(13 + 9 * n);
+    this.saved = new Float64Array(13 + SAVED_PER_FOOT * n);
 
     this.trunkPosition_m.set(initial.position_m);
     const deg = Math.PI / 180;
@@ -315,7 +323,7 @@ export class Plant {
     const fv = this.footVelocity_mps;
     let k = 1;
     for (let i = 0; i < this.footCount; i++) {
-      const before = saved[13 + 9 * i + 2];
+      const before = saved[13 + SAVED_PER_FOOT * i + 2];
       const after = fp[3 * i + 2];
       // A landing is the step of touch-down and the steps after it in which the contact's elastic
       // force more than doubles (a Hertz impact's first ≈ 1.7 steps: the force at the step's start
@@ -361,14 +369,16 @@ export class Plant {
     s.set(this.trunkVelocity_mps, 7);
     s.set(this.trunkAngularVelocity_radps, 10);
     for (let i = 0; i < this.footCount; i++) {
-      const b = 13 + 9 * i;
+      const b = 13 + SAVED_PER_FOOT * i;
       for (let c = 0; c < 3; c++) {
         s[b + c] = this.footPosition_m[3 * i + c];
         s[b + 3 + c] = this.footVelocity_mps[3 * i + c];
         s[b + 6 + c] = this.footAcceleration_mps2[3 * i + c];
       }
+      s[b + 9] = this.legForce_N[3 * i + 2];
     }
     this.savedPreviousStep_s = this.previousStep_s;
+    this.savedActionIsNew = this.actionIsNew;
   }
 
   private restoreState(): void {
@@ -380,14 +390,16 @@ export class Plant {
     }
     for (let c = 0; c < 4; c++) this.trunkQuaternion[c] = s[3 + c];
     for (let i = 0; i < this.footCount; i++) {
-      const b = 13 + 9 * i;
+      const b = 13 + SAVED_PER_FOOT * i;
       for (let c = 0; c < 3; c++) {
         this.footPosition_m[3 * i + c] = s[b + c];
         this.footVelocity_mps[3 * i + c] = s[b + 3 + c];
         this.footAcceleration_mps2[3 * i + c] = s[b + 6 + c];
       }
+      this.legForce_N[3 * i + 2] = s[b + 9];
     }
     this.previousStep_s = this.savedPreviousStep_s;
+    this.actionIsNew = this.savedActionIsNew;
     this.updateFootMaterials();
   }
 
