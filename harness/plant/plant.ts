@@ -17,18 +17,40 @@
 //   the torque over an RK4 step instead is explicit Euler in the coupling and gains energy).
 //   Angular velocities in the state are mid-step like the linear ones.
 // - friction: the per-foot implicit stick/slide solve of contact.ts.
+// - landings: a step in which a foot may touch down is taken first as a trial; if a foot went from
+//   above the ground to below it (or its contact force more than doubled, it lifted off, or
+//   friction stopped or sharply slowed its slide), the step is undone and taken again as K
+//   substeps of step/K, K from the impact duration (landing.ts). The leapfrog's kick at a change of step is the mean of
+//   the two steps (½(h_prev + h)), its usual variable-step form, so the scheme stays second order.
+//   An observer passed to step() sees every substep (the scorer weights each by its share).
+// - damping and Stribeck read the foot velocity at the step's start, v(t) = v(t − h/2) +
+//   (h_prev/2)·a(t), second order (the mid-step velocity alone lags by half a step): the normal
+//   damping with this step's own a(t), in closed form (contact.ts), the Stribeck slip speed with
+//   the last step's (friction's own force is not known before the stick/slide solve).
 
 import { copyBytes, copyFloats, type RobotState } from '../contract/state.js';
 import type { Action } from '../contract/tick.js';
-import { footFriction, huntCrossleyNormal_N } from './contact.js';
+import { footFriction, huntCrossleyNormal_N, huntCrossleyNormalAtStart_N } from './contact.js';
 import { PlantDivergedError } from './errors.js';
 import { FrictionField } from './frictionMap.js';
 import { gravityOnIncline } from './gravity.js';
+import {
+  impactDuration_s,
+  impactDurationFactor,
+  LANDING_FORCE_RATIO,
+  MAX_LANDING_SUBSTEPS,
+  SLIDE_CHANGE_FRACTION,
+  STOP_SPEED_mps,
+  SUBSTEPS_PER_IMPACT,
+} from './landing.js';
 import { PushSchedule } from './pushes.js';
 import { restingDepth_m, staticSupportForces } from './settle.js';
 import { invertSymmetric3, matrixFromQuaternion, quaternionFromRollPitchYaw } from './rotation.js';
 import type { ContactLaw, PlantConfig, RobotParams } from './types.js';
 import { validatePlantConfig } from './validate.js';
+
+/** Saved values per foot before a trial step (position, velocity, acceleration, leg force z). */
+const SAVED_PER_FOOT = 10;
 
 /** Regularisation speed of the trunk-on-ground friction (a fallen robot only; common practice). */
 const TRUNK_FRICTION_SPEED_mps = 0.05;
@@ -62,6 +84,14 @@ export class Plant {
   readonly legForce_N: Float64Array;
   /** Normal force of the ground on the trunk's collision box during the last step. */
   trunkGroundForce_N = 0;
+  /** Length of the last (sub)step, s: step_s, or step_s/K inside a landing step. */
+  lastStep_s = 0;
+  /** The last (sub)step's share of a physics step (1, or 1/K inside a landing step). */
+  stepWeight = 1;
+  /** Substeps of the last physics step (1 without a landing). */
+  substeps = 1;
+  /** Integrations done so far, trials undone included (the cost of landing substeps). */
+  integrations = 0;
 
   // Held action (zero-order hold between control ticks).
   private readonly heldGroundForce: Float64Array;
@@ -83,6 +113,11 @@ export class Plant {
   private readonly contactStiffness: number;
   private readonly contactExponent: number;
   private readonly contactDamping: number;
+  /** The impact duration of this contact law and foot, t_c = scale·v^exponent (landing.ts). */
+  private readonly impactDurationScale: number;
+  private readonly impactDurationExponent: number;
+  /** Bound on a swing foot's vertical acceleration (leg force limit and gravity), m/s². */
+  private readonly footAccelerationBound_mps2: number;
 
   // Scratch.
   private readonly rotation = new Float64Array(9);
@@ -91,8 +126,23 @@ export class Plant {
   private readonly clock = new Float64Array(1);
   /** (x, y) of each foot at its last material lookup; NaN (never equal) before the first. */
   private readonly lookedUpAt_m: Float64Array;
-  private firstStep = true;
+  /** Length of the previous integration (0 before the first: its kick is then half a step). */
+  private previousStep_s = 0;
+  /** An action arrived since the last integration (its first step reads the old leg force). */
+  private actionIsNew = false;
   private stepCount = 0;
+  /** Each foot's acceleration in the last integration (for the start-of-step velocity). */
+  private readonly footAcceleration_mps2: Float64Array;
+  /** Per foot, in the last integration: friction held it (1) or not, and its start slip speed. */
+  private readonly footSticking: Uint8Array;
+  private readonly footStartSlip_mps: Float64Array;
+  /**
+   * State before a trial landing step: trunk p, q, v, ω (13), then per foot p, v, a and the leg's
+   * vertical force of the last step (10 per foot).
+   */
+  private readonly saved: Float64Array;
+  private savedPreviousStep_s = 0;
+  private savedActionIsNew = false;
 
   constructor(config: PlantConfig) {
     validatePlantConfig(config);
@@ -112,6 +162,11 @@ export class Plant {
     this.contactStiffness = ground.contact.stiffness_N_per_m;
     this.contactExponent = ground.contact.exponent;
     this.contactDamping = ground.contact.damping_s_per_m;
+    // t_c = factor·δmax/v with δmax = ((n+1)·m·v²/(2k))^(1/(n+1)): scale·v^(2/(n+1) − 1).
+    this.impactDurationScale = impactDuration_s(this.contactStiffness, this.contactExponent, impactDurationFactor(this.contactExponent), this.footMass, 1);
+    this.impactDurationExponent = 2 / (this.contactExponent + 1) - 1;
+    const g = this.gravity_mps2;
+    this.footAccelerationBound_mps2 = robot.leg.maxForce_N / this.footMass + Math.sqrt(g[0] * g[0] + g[1] * g[1] + g[2] * g[2]);
 
     this.inertia.set(robot.trunk.inertia_kgm2.flat());
     invertSymmetric3(this.inertiaInverse, this.inertia);
@@ -131,6 +186,10 @@ export class Plant {
     this.heldTargetVelocity = new Float64Array(3 * n);
     this.heldStiffness = new Float64Array(n);
     this.heldDamping = new Float64Array(n);
+    this.footAcceleration_mps2 = new Float64Array(3 * n);
+    this.footSticking = new Uint8Array(n);
+    this.footStartSlip_mps = new Float64Array(n);
+    this.saved = new Float64Array(13 + SAVED_PER_FOOT * n);
 
     this.trunkPosition_m.set(initial.position_m);
     const deg = Math.PI / 180;
@@ -193,12 +252,167 @@ export class Plant {
     copyFloats(this.heldTargetVelocity, action.footTargetVelocity_mps);
     copyFloats(this.heldStiffness, action.stiffness_N_per_m);
     copyFloats(this.heldDamping, action.damping_Ns_per_m);
+    this.actionIsNew = true;
   }
 
-  /** Advances by one physics step. Throws PlantDivergedError on a non-finite state. */
-  step(): void {
+  /**
+   * Advances by one physics step (cut into substeps when a foot lands in it). `onSubstep`, when
+   * given, is called after every substep with the plant's state at its end (lastStep_s and
+   * stepWeight say its length and share); a step without a landing calls it once. Throws
+   * PlantDivergedError on a non-finite state.
+   */
+  step(onSubstep?: () => void): void {
     const h = this.step_s;
-    const kick = this.firstStep ? 0.5 * h : h;
+    const start_s = this.time_s;
+    const mayLand = this.mayChangeContact();
+    if (mayLand) this.saveState();
+    this.substeps = 1;
+    this.lastStep_s = h;
+    this.stepWeight = 1;
+    this.advance();
+    const k = mayLand ? this.landingSubstepsOfTrial() : 1;
+    if (k > 1) {
+      this.restoreState();
+      const hk = h / k;
+      this.substeps = k;
+      this.lastStep_s = hk;
+      this.stepWeight = 1 / k;
+      for (let j = 0; j < k; j++) {
+        this.time_s = start_s + (j / k) * h;
+        this.advance();
+        if (j < k - 1) {
+          this.time_s = start_s + ((j + 1) / k) * h;
+          if (onSubstep !== undefined) onSubstep();
+        }
+      }
+    }
+    // Time from the step count, so that long runs do not accumulate rounding (8 s, not 7.99999…).
+    this.stepCount++;
+    this.time_s = this.stepCount * h;
+    if (onSubstep !== undefined) onSubstep();
+  }
+
+  /**
+   * Whether a foot can cross the ground plane within a step of h (it is within the reach of its
+   * velocity and the largest acceleration its leg and gravity give it), or is sliding and may be
+   * stopped. Only then is the state saved for a trial (a foot sticking in stance or high in swing
+   * costs nothing).
+   */
+  private mayChangeContact(): boolean {
+    const h = this.step_s;
+    const fp = this.footPosition_m;
+    const fv = this.footVelocity_mps;
+    const reach = h * h * this.footAccelerationBound_mps2;
+    for (let i = 0; i < this.footCount; i++) {
+      const z = fp[3 * i + 2];
+      const next = z + h * fv[3 * i + 2];
+      if (z >= 0 ? next - reach < 0 : next + reach >= 0) return true;
+      if (z < 0 && fv[3 * i] * fv[3 * i] + fv[3 * i + 1] * fv[3 * i + 1] > STOP_SPEED_mps * STOP_SPEED_mps) return true;
+    }
+    return false;
+  }
+
+  /**
+   * After a trial step of h: K for its contact events (1 when there were none). A foot that went
+   * from z ≥ 0 to z < 0 lands, one that went the other way lifts off: K from the impact duration
+   * at its normal speed (landing.ts). A foot sliding faster than STOP_SPEED_mps that friction
+   * stopped in the trial is retaken at the finest substep: where in the step it stops sets how
+   * far it slid, which the whole step would put at its start (no slide at all).
+   */
+  private landingSubstepsOfTrial(): number {
+    const h = this.step_s;
+    const saved = this.saved;
+    const fp = this.footPosition_m;
+    const fv = this.footVelocity_mps;
+    let k = 1;
+    for (let i = 0; i < this.footCount; i++) {
+      const before = saved[13 + SAVED_PER_FOOT * i + 2];
+      const after = fp[3 * i + 2];
+      // A landing is the step of touch-down and the steps after it in which the contact's elastic
+      // force more than doubles (a Hertz impact's first ≈ 1.7 steps: the force at the step's start
+      // is held over the step, so a landing late in its step meets the rise in the next one).
+      const lands = after < 0 && (before >= 0 || (after < before && Math.pow(after / before, this.contactExponent) > LANDING_FORCE_RATIO));
+      if (!lands && !(before < 0 && after >= 0)) {
+        if (this.footInContact[i] === 1 && this.slideChangedFast(i)) k = MAX_LANDING_SUBSTEPS;
+        continue;
+      }
+      // Landing: the trial's kick saw no ground force on this foot (it was above the ground), so
+      // its velocity is the approach velocity. Lift-off: the speed it leaves with.
+      // landing.ts's rule written out (no double crosses a call, which would box it): t_c =
+      // factor·δmax/v = durationScale·v^durationExponent, then the smallest power of two K with
+      // h/K ≤ t_c/SUBSTEPS_PER_IMPACT, at most MAX_LANDING_SUBSTEPS (also when v ≤ 0).
+      const speed_mps = lands ? -fv[3 * i + 2] : fv[3 * i + 2];
+      const limit_s = speed_mps > 0 ? (this.impactDurationScale * Math.pow(speed_mps, this.impactDurationExponent)) / SUBSTEPS_PER_IMPACT : 0;
+      let footK = 1;
+      while (footK < MAX_LANDING_SUBSTEPS && !(h / footK <= limit_s)) footK *= 2;
+      if (footK > k) k = footK;
+    }
+    return k;
+  }
+
+  /**
+   * Whether foot i, sliding faster than STOP_SPEED_mps at the trial's start, was stopped by friction
+   * or changed its slip speed by more than SLIDE_CHANGE_FRACTION in the trial: the step after a
+   * landing, in which the normal force jumps from a few newtons to hundreds and friction takes
+   * most of the foot's tangential speed, is such a step.
+   */
+  private slideChangedFast(i: number): boolean {
+    const start_mps = this.footStartSlip_mps[i];
+    if (!(start_mps > STOP_SPEED_mps)) return false;
+    if (this.footSticking[i] === 1) return true;
+    const vx = this.footVelocity_mps[3 * i];
+    const vy = this.footVelocity_mps[3 * i + 1];
+    return Math.abs(Math.sqrt(vx * vx + vy * vy) - start_mps) > SLIDE_CHANGE_FRACTION * start_mps;
+  }
+
+  private saveState(): void {
+    const s = this.saved;
+    s.set(this.trunkPosition_m, 0);
+    s.set(this.trunkQuaternion, 3);
+    s.set(this.trunkVelocity_mps, 7);
+    s.set(this.trunkAngularVelocity_radps, 10);
+    for (let i = 0; i < this.footCount; i++) {
+      const b = 13 + SAVED_PER_FOOT * i;
+      for (let c = 0; c < 3; c++) {
+        s[b + c] = this.footPosition_m[3 * i + c];
+        s[b + 3 + c] = this.footVelocity_mps[3 * i + c];
+        s[b + 6 + c] = this.footAcceleration_mps2[3 * i + c];
+      }
+      s[b + 9] = this.legForce_N[3 * i + 2];
+    }
+    this.savedPreviousStep_s = this.previousStep_s;
+    this.savedActionIsNew = this.actionIsNew;
+  }
+
+  private restoreState(): void {
+    const s = this.saved;
+    for (let c = 0; c < 3; c++) {
+      this.trunkPosition_m[c] = s[c];
+      this.trunkVelocity_mps[c] = s[7 + c];
+      this.trunkAngularVelocity_radps[c] = s[10 + c];
+    }
+    for (let c = 0; c < 4; c++) this.trunkQuaternion[c] = s[3 + c];
+    for (let i = 0; i < this.footCount; i++) {
+      const b = 13 + SAVED_PER_FOOT * i;
+      for (let c = 0; c < 3; c++) {
+        this.footPosition_m[3 * i + c] = s[b + c];
+        this.footVelocity_mps[3 * i + c] = s[b + 3 + c];
+        this.footAcceleration_mps2[3 * i + c] = s[b + 6 + c];
+      }
+      this.legForce_N[3 * i + 2] = s[b + 9];
+    }
+    this.previousStep_s = this.savedPreviousStep_s;
+    this.actionIsNew = this.savedActionIsNew;
+    this.updateFootMaterials();
+  }
+
+  /**
+   * One integration of length lastStep_s from the current state (time_s is its start). No
+   * argument: a double passed to a call V8 does not inline is boxed (DEVELOPERS.md, the plant).
+   */
+  private advance(): void {
+    const h = this.lastStep_s;
+    const kick = 0.5 * (this.previousStep_s + h);
     const R = matrixFromQuaternion(this.rotation, this.trunkQuaternion);
     const p = this.trunkPosition_m;
     const v = this.trunkVelocity_mps;
@@ -221,6 +435,8 @@ export class Plant {
 
     const fp = this.footPosition_m;
     const fv = this.footVelocity_mps;
+    const acc = this.footAcceleration_mps2;
+    const halfPrevious = 0.5 * this.previousStep_s;
     for (let i = 0; i < this.footCount; i++) {
       const a = 3 * i;
       // Hip in world: ph = p + R·r; hip velocity: v + R·(ω × r) (ω in body frame).
@@ -283,6 +499,10 @@ export class Plant {
         legY += along * uy;
         legZ += along * uz;
       }
+      // The leg's vertical force the contact reads the foot's acceleration with: this step's, but
+      // the last step's on the first step of a new action (a change of the held action at this
+      // tick acts from now on, not half a step back).
+      const contactLegZ = this.actionIsNew ? this.legForce_N[a + 2] : legZ;
       this.legForce_N[a] = legX;
       this.legForce_N[a + 1] = legY;
       this.legForce_N[a + 2] = legZ;
@@ -295,14 +515,28 @@ export class Plant {
       torqueY -= rwz * legX - rwx * legZ;
       torqueZ -= rwx * legY - rwy * legX;
 
-      // Ground.
-      const normal = huntCrossleyNormal_N(this.contactStiffness, this.contactExponent, this.contactDamping, -fp[a + 2], -fv[a + 2]);
+      // Ground, read at the start-of-step foot velocity (second order, see the header): the
+      // normal damping solved with this step's own acceleration, the slip speed extrapolated.
+      const nowX = fv[a] + halfPrevious * acc[a];
+      const nowY = fv[a + 1] + halfPrevious * acc[a + 1];
+      const normal = huntCrossleyNormalAtStart_N(
+        this.contactStiffness,
+        this.contactExponent,
+        this.contactDamping,
+        -fp[a + 2],
+        fv[a + 2],
+        contactLegZ + footMass * gz,
+        footMass,
+        halfPrevious,
+      );
       let groundX = 0;
       let groundY = 0;
       if (normal > 0) {
         const m = this.footMaterial[i];
         this.footInContact[i] = 1;
-        footFriction(
+        const slip_mps = Math.sqrt(nowX * nowX + nowY * nowY);
+        this.footStartSlip_mps[i] = slip_mps;
+        this.footSticking[i] = footFriction(
           this.friction2,
           footMass,
           kick,
@@ -316,20 +550,24 @@ export class Plant {
           materials.stribeckVelocity_mps[m],
           materials.stribeckExponent[m],
           materials.viscous_Ns_per_m[m],
+          slip_mps,
         );
         groundX = this.friction2[0];
         groundY = this.friction2[1];
       } else {
         this.footInContact[i] = 0;
+        this.footSticking[i] = 0;
       }
       this.footGroundForce_N[a] = groundX;
       this.footGroundForce_N[a + 1] = groundY;
       this.footGroundForce_N[a + 2] = normal;
 
-      const kickPerMass = kick / footMass;
-      fv[a] += kickPerMass * (legX + footMass * gx + groundX);
-      fv[a + 1] += kickPerMass * (legY + footMass * gy + groundY);
-      fv[a + 2] += kickPerMass * (legZ + footMass * gz + normal);
+      acc[a] = (legX + groundX) / footMass + gx;
+      acc[a + 1] = (legY + groundY) / footMass + gy;
+      acc[a + 2] = (legZ + normal) / footMass + gz;
+      fv[a] += kick * acc[a];
+      fv[a + 1] += kick * acc[a + 1];
+      fv[a + 2] += kick * acc[a + 2];
       fp[a] += h * fv[a];
       fp[a + 1] += h * fv[a + 1];
       fp[a + 2] += h * fv[a + 2];
@@ -413,10 +651,9 @@ export class Plant {
     w[2] = Ii[6] * Lx + Ii[7] * Ly + Ii[8] * Lz;
     this.integrateFreeRotation();
 
-    // Time from the step count, so that long runs do not accumulate rounding (8 s, not 7.99999…).
-    this.stepCount++;
-    this.time_s = this.stepCount * h;
-    this.firstStep = false;
+    this.previousStep_s = h;
+    this.actionIsNew = false;
+    this.integrations++;
     this.updateFootMaterials();
     this.checkFinite();
   }
@@ -435,14 +672,14 @@ export class Plant {
   }
 
   /**
-   * The torque-free rotor over one step: classical RK4 on Euler's equations I·ω̇ = −ω × Iω and the
+   * The torque-free rotor over one step of h: classical RK4 on Euler's equations I·ω̇ = −ω × Iω and the
    * quaternion kinematics q̇ = ½·q ⊗ (0, ω), then renormalised. Its error per step is O((|ω|h)⁵),
    * ~1e-14 at the default step, so the kick–rotor splitting keeps the symplectic character of an
    * exact free flow. The four stage evaluations are written out with every value in a local
    * variable: no stage arrays, and no double crosses a call boundary (which would box it).
    */
   private integrateFreeRotation(): void {
-    const h = this.step_s;
+    const h = this.lastStep_s;
     const half = 0.5 * h;
     const q = this.trunkQuaternion;
     const w = this.trunkAngularVelocity_radps;
@@ -547,6 +784,7 @@ export class Plant {
     }
   }
 
+  /** Called at the end of an integration: the error reports that time (its start + its length). */
   private checkFinite(): void {
     const p = this.trunkPosition_m;
     const v = this.trunkVelocity_mps;
@@ -555,7 +793,7 @@ export class Plant {
     let sum = p[0] + p[1] + p[2] + v[0] + v[1] + v[2] + w[0] + w[1] + w[2] + q[0] + q[1] + q[2] + q[3];
     for (let j = 0; j < this.footPosition_m.length; j++) sum += this.footPosition_m[j] + this.footVelocity_mps[j];
     if (Number.isFinite(sum)) return;
-    throw new PlantDivergedError(this.time_s, this.firstNonFinite());
+    throw new PlantDivergedError(this.time_s + this.lastStep_s, this.firstNonFinite());
   }
 
   private firstNonFinite(): string {

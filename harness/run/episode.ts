@@ -55,6 +55,8 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   sample.referencePosition_m[1] = scenario.plant.initial.position_m[1];
   sample.referencePosition_m[2] = scenario.plant.robot.standingHeight_m;
 
+  const recordStep = (): void => scorer.recordStep(plant, sample);
+
   const wallStart = performance.now();
   let error: RunError | undefined;
   try {
@@ -68,10 +70,8 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
 
       plant.applyAction(action);
       holdAction(sample, action);
-      for (let s = 0; s < substeps; s++) {
-        plant.step();
-        scorer.recordStep(plant, sample); // every physics step is scored, not only the tick's last
-      }
+      // Every physics step is scored, not only the tick's last, and every landing substep.
+      for (let s = 0; s < substeps; s++) plant.step(recordStep);
 
       sample.time_s = plant.time_s;
       sample.trunkGroundForce_N = plant.trunkGroundForce_N;

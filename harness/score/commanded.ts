@@ -26,7 +26,7 @@ export class CommandedViolationTracker {
   recordStep(step: StepView, held: HeldAction): void {
     const wanted = held.wantedForce_N;
     const friction = step.footStaticFriction;
-    const dt_s = step.step_s;
+    const dt_s = step.lastStep_s;
     let any = false;
     for (let i = 0; i < this.footCount; i++) {
       const violating =

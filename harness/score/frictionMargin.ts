@@ -1,7 +1,9 @@
 // Friction margin of the true ground force: m = 1 − |f_t| / (μs·f_n) with f_n the normal (z)
 // component, f_t the tangential (x, y) part and μs the true static friction under the foot.
 // m = 1: no tangential load; m = 0: on the Coulomb cone; m < 0: outside it (sliding, transient).
-// Every physics step of a loaded foot is one sample (no sample depends on where ticks fall).
+// Every physics step of a loaded foot is one sample (no sample depends on where ticks fall); a
+// landing substep is a sample of weight 1/K (the step's stepWeight), so percentiles are per unit
+// of time, not per integration.
 
 import { Histogram } from './histogram.js';
 import type { StepView } from './sample.js';
@@ -30,6 +32,8 @@ export class FrictionMarginTracker {
   /** Histogram.binOf of the margin histograms, written out in the loop (same operations). */
   private readonly binWidth: number = MARGIN_BIN_WIDTH;
   private readonly lastBin: number;
+  /** The step's weight, in an array so that it crosses calls unboxed (Histogram.addWeightedFrom). */
+  readonly weight = new Float64Array(1);
 
   constructor(
     private readonly footCount: number,
@@ -50,8 +54,9 @@ export class FrictionMarginTracker {
   recordStep(sample: StepView): void {
     const force = sample.footGroundForce_N;
     this.fillMargins(force, sample.footStaticFriction);
+    this.weight[0] = sample.stepWeight;
     for (let i = 0; i < this.footCount; i++) {
-      if (force[3 * i + 2] > this.loadedThreshold_N) this.perFoot[i].addBinnedFrom(this.marginBins, this.margins, i);
+      if (force[3 * i + 2] > this.loadedThreshold_N) this.perFoot[i].addBinnedWeightedFrom(this.marginBins, this.margins, i, this.weight);
     }
   }
 

@@ -3,13 +3,23 @@
 // interpolation between order statistics, "type 7") with each order statistic replaced by the
 // midpoint of the bin that holds it, clamped to the exact min and max.
 //
+// Weighted samples (addWeightedFrom): each value counts with a weight, and the quantiles are
+// those of the weighted distribution — rank r is where the cumulative weight passes r, and the
+// p-quantile sits at rank (W − 1)·p with W the total weight — which with unit weights is the
+// type-7 rule above exactly. The plant's landing substeps are scored this way, each with its share
+// of a physics step, so that a percentile does not depend on how many substeps a landing takes.
+//
 // Resolution: for linear bins of width w, every quantile of values inside [lo, hi] is within w/2
 // of the exact one; for log bins with edge ratio r, within a factor √r of it. Values outside the
 // range fall into the first or last bin (their estimate is still clamped to the exact extremes).
 
 export class Histogram {
+  /** Weight per bin (the sample count when every weight is 1). */
   readonly counts: Float64Array;
+  /** Number of samples added. */
   count = 0;
+  /** Total weight of the samples (equal to count when every weight is 1). */
+  weight = 0;
   min = Number.POSITIVE_INFINITY;
   max = Number.NEGATIVE_INFINITY;
   private readonly logarithmic: boolean;
@@ -40,6 +50,7 @@ export class Histogram {
   add(value: number): void {
     if (value !== value) return; // NaN carries no rank
     this.count++;
+    this.weight++;
     if (value < this.min) this.min = value;
     if (value > this.max) this.max = value;
     this.counts[this.binOf(value)]++;
@@ -53,22 +64,40 @@ export class Histogram {
     const value = values[index];
     if (value !== value) return;
     this.count++;
+    this.weight++;
     if (value < this.min) this.min = value;
     if (value > this.max) this.max = value;
     this.counts[this.binOf(value)]++;
   }
 
   /**
-   * add(values[index]) into bin bins[index], which binOf gave for that value on these bins or on
-   * a histogram with the same bins (sameBins): two trackers binning one value share the division.
+   * addFrom with the weight weights[0] (> 0): the weight, too, crosses the call in an array, so a
+   * fractional weight is never boxed.
    */
-  addBinnedFrom(bins: Int32Array, values: Float64Array, index: number): void {
+  addWeightedFrom(values: Float64Array, index: number, weights: Float64Array): void {
     const value = values[index];
     if (value !== value) return;
+    const w = weights[0];
     this.count++;
+    this.weight += w;
     if (value < this.min) this.min = value;
     if (value > this.max) this.max = value;
-    this.counts[bins[index]]++;
+    this.counts[this.binOf(value)] += w;
+  }
+
+  /**
+   * addWeightedFrom into bin bins[index], which binOf gave for that value on these bins or on a
+   * histogram with the same bins (sameBins): two trackers binning one value share the division.
+   */
+  addBinnedWeightedFrom(bins: Int32Array, values: Float64Array, index: number, weights: Float64Array): void {
+    const value = values[index];
+    if (value !== value) return;
+    const w = weights[0];
+    this.count++;
+    this.weight += w;
+    if (value < this.min) this.min = value;
+    if (value > this.max) this.max = value;
+    this.counts[bins[index]] += w;
   }
 
   /** Whether `other` has exactly these bins (so a bin index of one is the same bin of the other). */
@@ -81,7 +110,7 @@ export class Histogram {
     if (this.count === 0) return null;
     if (p <= 0) return this.min;
     if (p >= 1) return this.max;
-    const index = (this.count - 1) * p;
+    const index = this.weight > 1 ? (this.weight - 1) * p : 0;
     const lower = Math.floor(index);
     const fraction = index - lower;
     const lowerValue = this.orderStatistic(lower);
@@ -96,6 +125,7 @@ export class Histogram {
     }
     for (let k = 0; k < this.counts.length; k++) this.counts[k] += other.counts[k];
     this.count += other.count;
+    this.weight += other.weight;
     if (other.min < this.min) this.min = other.min;
     if (other.max > this.max) this.max = other.max;
   }
@@ -108,6 +138,7 @@ export class Histogram {
   reset(): void {
     this.counts.fill(0);
     this.count = 0;
+    this.weight = 0;
     this.min = Number.POSITIVE_INFINITY;
     this.max = Number.NEGATIVE_INFINITY;
   }

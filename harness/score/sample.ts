@@ -42,13 +42,18 @@ export function createTickSample(footCount: number): TickSample {
 }
 
 /**
- * The plant's truth after one physics step, read in place (harness/plant/plant.ts has these
- * fields). Forces are those of the step, velocities the post-kick ones; `step_s` is each step's
- * weight in time integrals.
+ * The plant's truth after one physics step or landing substep, read in place
+ * (harness/plant/plant.ts has these fields). Forces are those of the step, velocities the
+ * post-kick ones; `lastStep_s` is the (sub)step's length, its weight in time integrals, and
+ * `stepWeight` its share of a physics step, its weight in percentiles (1, or 1/K inside a landing
+ * step cut into K substeps), so that no score depends on the substep count.
  */
 export interface StepView {
   readonly time_s: number;
+  /** The physics step (the scenario's). */
   readonly step_s: number;
+  readonly lastStep_s: number;
+  readonly stepWeight: number;
   readonly trunkPosition_m: Float64Array; // 3
   readonly trunkQuaternion: Float64Array; // 4, (w, x, y, z)
   readonly trunkGroundForce_N: number;

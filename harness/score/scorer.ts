@@ -69,7 +69,7 @@ export function createScorer(scenario: ResolvedScenario, options: ScorerOptions 
     steps++;
     stepsThisTick++;
     margin.recordStep(step);
-    touchdown.recordStep(step, held, margin.margins, margin.marginBins);
+    touchdown.recordStep(step, held, margin.margins, margin.marginBins, margin.weight);
     commanded.recordStep(step, held);
     slip.recordStep(step);
     fall.record(step);
@@ -151,6 +151,8 @@ export function createScorer(scenario: ResolvedScenario, options: ScorerOptions 
 class TickAsStep implements StepView {
   time_s = 0;
   step_s = 0;
+  lastStep_s = 0;
+  stepWeight = 1;
   trunkGroundForce_N = 0;
   trunkPosition_m: Float64Array = new Float64Array(3);
   trunkQuaternion: Float64Array = new Float64Array(4);
@@ -161,6 +163,7 @@ class TickAsStep implements StepView {
   view(sample: TickSample): StepView {
     this.time_s = sample.time_s;
     this.step_s = sample.dt_s;
+    this.lastStep_s = sample.dt_s;
     this.trunkGroundForce_N = sample.trunkGroundForce_N;
     this.trunkPosition_m = sample.trunkPosition_m;
     this.trunkQuaternion = sample.trunkQuaternion;

@@ -28,7 +28,7 @@ export class SlipTracker {
 
   /** One physics step; call endTick() after the tick's last step. */
   recordStep(step: StepView): void {
-    this.add(step.footGroundForce_N, step.footVelocity_mps, step.step_s);
+    this.add(step.footGroundForce_N, step.footVelocity_mps, step.lastStep_s);
   }
 
   /** One control tick fed as a single sample (the plot-series recorder's per-tick view). */

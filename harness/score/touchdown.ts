@@ -68,15 +68,16 @@ export class TouchdownTracker {
 
   /**
    * `margins`, `marginBins`: each loaded foot's friction margin at this step and its histogram bin
-   * (FrictionMarginTracker's, whose histograms have the stance histograms' bins).
+   * (FrictionMarginTracker's, whose histograms have the stance histograms' bins); `weight`: the
+   * step's weight in weight[0] (FrictionMarginTracker.weight).
    */
-  recordStep(step: StepView, held: HeldAction, margins: Float64Array, marginBins: Int32Array): void {
+  recordStep(step: StepView, held: HeldAction, margins: Float64Array, marginBins: Int32Array, weight: Float64Array): void {
     const force = step.footGroundForce_N;
     const velocity = step.footVelocity_mps;
     const time_s = step.time_s;
-    const h = step.step_s;
-    // Half a step of slack: the transient holds exactly transient_s / h samples.
-    const closeAfter_s = this.transient_s - 0.5 * h;
+    const h = step.lastStep_s;
+    // Half a physics step of slack: the transient holds exactly transient_s / step samples.
+    const closeAfter_s = this.transient_s - 0.5 * step.step_s;
     for (let i = 0; i < this.footCount; i++) {
       const a = 3 * i;
       const vx = velocity[a];
@@ -112,7 +113,7 @@ export class TouchdownTracker {
         this.open[o + SLIP] += Math.sqrt(vx * vx + vy * vy) * h;
         if (fz > this.open[o + PEAK]) this.open[o + PEAK] = fz;
       } else if (held.mode[i] === STANCE) {
-        this.stance[i].addBinnedFrom(marginBins, margins, i);
+        this.stance[i].addBinnedWeightedFrom(marginBins, margins, i, weight);
       }
     }
   }

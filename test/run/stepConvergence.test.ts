@@ -14,13 +14,21 @@ import { loadScenarioFile } from '../../harness/scenario/index.js';
 import type { ResolvedScenario } from '../../harness/scenario/types.js';
 import type { ScoreMetrics } from '../../harness/score/types.js';
 
-/** Stance p05 within 0.003 (the target, met). */
-const STANCE_P05_TOLERANCE = 0.003;
-/** Stance min within 0.025 (target 0.01: met by 34 of 42 runs; the rest ring on the contact, see docs). */
-const STANCE_MIN_TOLERANCE = 0.025;
-/** Stance slip (slip outside touchdown transients) within 5 % + 0.5 mm (target 2 % of all slip: see docs). */
-const STANCE_SLIP_FRACTION = 0.05;
-const STANCE_SLIP_ABSOLUTE_m = 0.0005;
+/** Stance p05 within 0.003 (the target). The p05 is a bin midpoint (0.001 bins): 1e-9 of rounding slack. */
+const STANCE_P05_TOLERANCE = 0.003 + 1e-9;
+/** Stance min within 0.01 (the target). */
+const STANCE_MIN_TOLERANCE = 0.01;
+/** Slip (`slipDistance_m`) and touchdown slip (Σ over touchdowns) within 2 % of the fine step's (the target). */
+const SLIP_FRACTION = 0.02;
+/**
+ * Looser, 5 % (docs/scoring.md, Step convergence): the run's slip in a gross slide (fine-step slip
+ * > 0.1 m: the robot loses its footing, and which foot re-sticks first flips with the step), and
+ * the touchdown slip of a robot that slides in stance (fine-step slip outside touchdown transients
+ * > 1 mm: its touchdowns slide on kinetic friction beyond the substepped impact).
+ */
+const GROSS_SLIDE_m = 0.1;
+const STANCE_SLIDE_m = 0.001;
+const LOOSE_SLIP_FRACTION = 0.05;
 const REFINEMENT = 4;
 
 async function walkingScenarios(): Promise<ResolvedScenario[]> {
@@ -47,10 +55,15 @@ async function score(scenario: ResolvedScenario, build: string, refinement: numb
   }
 }
 
-/** Slip outside touchdown transients: the run's slip less every touchdown's own. */
-function stanceSlip_m(m: ScoreMetrics): number {
+/** The slip of all touchdown transients: count × mean slip per touchdown. */
+function touchdownSlip_m(m: ScoreMetrics): number {
   const touchdown = m.touchdown!;
-  return m.slipDistance_m - touchdown.count * (touchdown.slip_m.mean ?? 0);
+  return touchdown.count * (touchdown.slip_m.mean ?? 0);
+}
+
+/** |coarse − fine| allowed for a slip whose fine-step value is `fine_m`: a fraction of it. */
+function slipAllowed_m(fine_m: number, loose: boolean): number {
+  return (loose ? LOOSE_SLIP_FRACTION : SLIP_FRACTION) * fine_m;
 }
 
 describe('scores converge in the physics step (default vs 4× finer)', async () => {
@@ -68,8 +81,10 @@ describe('scores converge in the physics step (default vs 4× finer)', async () 
         const f = fine.stanceMargin!;
         expect(Math.abs(c.p05! - f.p05!)).toBeLessThanOrEqual(STANCE_P05_TOLERANCE);
         expect(Math.abs(c.min! - f.min!)).toBeLessThanOrEqual(STANCE_MIN_TOLERANCE);
-        const slipAllowed_m = STANCE_SLIP_FRACTION * stanceSlip_m(fine) + STANCE_SLIP_ABSOLUTE_m;
-        expect(Math.abs(stanceSlip_m(coarse) - stanceSlip_m(fine))).toBeLessThanOrEqual(slipAllowed_m);
+        const gross = fine.slipDistance_m > GROSS_SLIDE_m;
+        const slidesInStance = fine.slipDistance_m - touchdownSlip_m(fine) > STANCE_SLIDE_m;
+        expect(Math.abs(coarse.slipDistance_m - fine.slipDistance_m)).toBeLessThanOrEqual(slipAllowed_m(fine.slipDistance_m, gross));
+        expect(Math.abs(touchdownSlip_m(coarse) - touchdownSlip_m(fine))).toBeLessThanOrEqual(slipAllowed_m(touchdownSlip_m(fine), slidesInStance));
       });
     }
   }

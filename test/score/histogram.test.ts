@@ -96,18 +96,54 @@ describe('one bin per margin, shared by the margin and stance histograms', () =>
     expect(loaded).toBeGreaterThan(1000); // about half the samples are loaded (f_n uniform in 0…10 N)
   });
 
-  it('addBinnedFrom counts like addFrom', () => {
+  it('addBinnedWeightedFrom counts like addWeightedFrom', () => {
     const a = Histogram.linear(-1, 1, 0.001);
     const b = a.emptyCopy();
     const values = Float64Array.from(uniforms(5000, 22), (x) => 2 * x - 1);
     const bins = Int32Array.from(values, (x) => a.binOf(x));
+    const weight = new Float64Array([0.25]);
     for (let k = 0; k < values.length; k++) {
-      a.addFrom(values, k);
-      b.addBinnedFrom(bins, values, k);
+      weight[0] = k % 3 === 0 ? 0.25 : 1;
+      a.addWeightedFrom(values, k, weight);
+      b.addBinnedWeightedFrom(bins, values, k, weight);
     }
     expect(Array.from(b.counts)).toEqual(Array.from(a.counts));
-    expect([b.count, b.min, b.max]).toEqual([a.count, a.min, a.max]);
+    expect([b.count, b.weight, b.min, b.max]).toEqual([a.count, a.weight, a.min, a.max]);
     expect(a.sameBins(b)).toBe(true);
     expect(a.sameBins(Histogram.linear(-1, 1, 0.002))).toBe(false);
+  });
+});
+
+describe('Weighted histogram samples', () => {
+  it('give the quantiles of the samples repeated: K samples of weight 1/K count as one', () => {
+    // The landing-substep rule: a physics step cut into K substeps is K samples of weight 1/K, and
+    // a percentile must not depend on K. Values spread over many bins, one of them split in 4.
+    const whole = Histogram.linear(0, 1, 0.001);
+    const split = Histogram.linear(0, 1, 0.001);
+    const values = new Float64Array(1);
+    const quarter = new Float64Array([0.25]);
+    for (let k = 0; k < 200; k++) {
+      const v = (k * 37) % 200 / 200;
+      whole.add(v);
+      values[0] = v;
+      if (k % 10 === 3) for (let j = 0; j < 4; j++) split.addWeightedFrom(values, 0, quarter);
+      else split.add(v);
+    }
+    expect(split.weight).toBeCloseTo(whole.weight, 12);
+    expect(split.count).toBe(whole.count + 3 * 20);
+    for (const p of [0, 0.01, 0.05, 0.5, 0.95, 1]) expect(split.quantile(p)).toBeCloseTo(whole.quantile(p)!, 12);
+  });
+
+  it('shift the quantile by their weight: a value of weight 3 among ones is three samples of it', () => {
+    const weighted = Histogram.linear(0, 10, 0.01);
+    const repeated = Histogram.linear(0, 10, 0.01);
+    const values = new Float64Array([2.005]);
+    weighted.addWeightedFrom(values, 0, new Float64Array([3]));
+    for (let j = 0; j < 3; j++) repeated.add(2.005);
+    for (const v of [1.005, 5.005, 7.005]) {
+      weighted.add(v);
+      repeated.add(v);
+    }
+    for (const p of [0.05, 0.3, 0.5, 0.7]) expect(weighted.quantile(p)).toBeCloseTo(repeated.quantile(p)!, 12);
   });
 });

@@ -9,6 +9,8 @@ export const STEP_s = 0.0005;
 export interface MutableStep extends StepView {
   time_s: number;
   step_s: number;
+  lastStep_s: number;
+  stepWeight: number;
   trunkGroundForce_N: number;
 }
 
@@ -17,6 +19,8 @@ export function standingStep(): MutableStep {
   const step: MutableStep = {
     time_s: 0,
     step_s: STEP_s,
+    lastStep_s: STEP_s,
+    stepWeight: 1,
     trunkPosition_m: new Float64Array([0, 0, 0.3]),
     trunkQuaternion: new Float64Array([1, 0, 0, 0]),
     trunkGroundForce_N: 0,

@@ -60,6 +60,45 @@ describe('scoring every physics step', () => {
     }
   });
 
+  it('scores a physics step cut into K landing substeps (weights 1/K) as the step itself', () => {
+    // The plant's landing substeps (harness/plant/landing.ts): K samples of weight 1/K and length
+    // step/K carry the same stance margin, slip and slip time as one whole step with those values.
+    const scoreSplit = (k: number) => {
+      const scorer = createScorer(makeScenario());
+      const step = standingStep();
+      const tick = standingSample();
+      tick.dt_s = 2 * STEP_s;
+      for (let s = 0; s < 96; s++) {
+        const parts = s % 9 === 4 ? k : 1;
+        step.lastStep_s = STEP_s / parts;
+        step.stepWeight = 1 / parts;
+        for (let j = 0; j < parts; j++) {
+          step.time_s = (s + (j + 1) / parts) * STEP_s;
+          for (let i = 0; i < 4; i++) setFoot(step, i, [0, 0, 32]);
+          setFoot(step, 1, [(s % 7) * 1.5, 0, 32]);
+          if (s % 9 === 4) setFoot(step, 0, [10 + (s % 5), 0, 32], [0.05, 0.02, 0]);
+          scorer.recordStep(step, tick);
+        }
+        if (s % 2 === 1) {
+          tick.time_s = step.time_s;
+          scorer.record(tick);
+        }
+      }
+      return scorer.finish({ wall_s: 1 }).metrics;
+    };
+    const whole = scoreSplit(1);
+    for (const k of [2, 16, 64]) {
+      const split = scoreSplit(k);
+      expect(split.stanceMargin!.p05).toBeCloseTo(whole.stanceMargin!.p05!, 12);
+      expect(split.stanceMargin!.min).toBe(whole.stanceMargin!.min);
+      expect(split.frictionMargin.p05).toBeCloseTo(whole.frictionMargin.p05!, 12);
+      expect(split.slipDistance_m).toBeCloseTo(whole.slipDistance_m, 15);
+      expect(split.violations.slipTime_s).toBeCloseTo(whole.violations.slipTime_s, 15);
+      expect(split.violations.slip).toBe(whole.violations.slip);
+      expect(split.steps).toBe(whole.steps! + 11 * (k - 1)); // 11 of the 96 steps are split
+    }
+  });
+
   it('counts a slide that flickers within one tick as one interval, its time at step resolution', () => {
     // Steps 0 and 2 of a 4-step tick slide, step 1 does not: one tick in violation, 2 steps of time.
     const m = score(8, 4, (step, k) => {
