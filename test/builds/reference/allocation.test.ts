@@ -1,29 +1,20 @@
 // A control tick (and a governor update alone) allocates nothing, for every reference build
 // except qp (its solver library, quadprog, allocates work arrays on every call).
 //
-// Each build is measured in a fresh process (fixtures/allocationProbe.ts), as a real run gives
-// each build spec its own run thread, and with V8's on-stack replacement off (`--no-use-osr`).
-// Why: the check is of the code, and two V8 tiering stalls made it fail on code that does not
-// allocate. (1) In one process, a governed build's 5.5·10⁵ governor-only updates followed by the
-// over-trusting build's ticks left the ERG's `update3x6` unoptimised in about half the tries.
-// (2) Even alone, under machine load: `update3x6` optimised, an OSR compile queued, the optimised
-// code deoptimised (a first use of an operation), then the OSR job finished and the function was
-// never optimised again — it stayed in baseline code, boxing doubles (1.5 kB per update, 183
-// collections), in 2 of 5 fresh processes with both cores busy; with `--no-use-osr` 0 of 8.
-// The stall is a speed risk for in-run loop times, noted in DEVELOPERS.md; it is not an
-// allocation in the tick's code, which is what this file checks.
+// Each build is measured in a fresh process with on-stack replacement off
+// (fixtures/allocationProbe.ts through test/support/allocationProbe.ts, which says why), as a
+// real run gives each build spec its own run thread. What was seen without that: in one process, a
+// governed build's 5.5·10⁵ governor-only updates followed by the over-trusting build's ticks left
+// the ERG's `update3x6` unoptimised in about half the tries; alone but under machine load, an OSR
+// compile racing a deoptimisation left it in baseline code for good (1.5 kB per update, 183
+// collections) in 2 of 5 fresh processes, 0 of 8 with `--no-use-osr`.
 
-import { execFile } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
-import { promisify } from 'node:util';
 import { describe, expect, it } from 'vitest';
+import { runAllocationProbe } from '../../support/allocationProbe.js';
 
 const PROBE = fileURLToPath(new URL('./fixtures/allocationProbe.ts', import.meta.url));
-
-async function probe(id: string, mode: 'tick' | 'governorUpdate'): Promise<{ collections: number; bytesPerCall: number; attempts: number }> {
-  const { stdout } = await promisify(execFile)(process.execPath, ['--no-use-osr', '--import', 'tsx', PROBE, id, mode], { timeout: 60_000 });
-  return JSON.parse(stdout);
-}
+const probe = (id: string, mode: 'tick' | 'governorUpdate') => runAllocationProbe(PROBE, [id, mode]);
 
 describe('reference builds allocate nothing per tick', () => {
   it('governed: a governor update alone allocates nothing', async () => {
