@@ -3,8 +3,9 @@
 // not on constants. The ring is preallocated; recording copies into it, replay hands out its
 // entries in order and wraps.
 
-import { copyObservation, createObservation, type Action, type Observation } from '../contract/tick.js';
+import { copyObservation, createObservation, type Observation } from '../contract/tick.js';
 import type { OpenedBuild } from '../builds/loader.js';
+import { withTickTap } from '../builds/opened.js';
 
 export class ObservationRing {
   readonly entries: Observation[];
@@ -46,30 +47,8 @@ export class ObservationRing {
  */
 export function recordingBuild(build: OpenedBuild, ring: ObservationRing, everyNth: number): OpenedBuild {
   let tick = 0;
-  return {
-    get name() {
-      return build.name;
-    },
-    get kind() {
-      return build.kind;
-    },
-    get telemetryNames() {
-      return build.telemetryNames;
-    },
-    get loopTime_us() {
-      return build.loopTime_us;
-    },
-    get reportedCompute_us() {
-      return build.reportedCompute_us;
-    },
-    get about() {
-      return build.about;
-    },
-    tick(obs: Observation, action: Action) {
-      if (tick % everyNth === 0) ring.record(obs);
-      tick++;
-      return build.tick(obs, action);
-    },
-    close: () => build.close(),
-  };
+  return withTickTap(build, (obs) => {
+    if (tick % everyNth === 0) ring.record(obs);
+    tick++;
+  });
 }

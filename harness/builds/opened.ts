@@ -83,3 +83,42 @@ function firstNonFinite(values: Float64Array): number {
 function describe(field: string, index: number, value: number): string {
   return `${field}[${index}] = ${value}`;
 }
+
+/**
+ * The build as it is, except that `beforeTick(obs)` sees each observation just before the build
+ * does (outside the build's own loop-time measurement). For the harness's recorders of
+ * observations; every other member passes through.
+ */
+export function withTickTap(build: OpenedBuild, beforeTick: (obs: Observation) => void): OpenedBuild {
+  return {
+    get name() {
+      return build.name;
+    },
+    get kind() {
+      return build.kind;
+    },
+    get telemetryNames() {
+      return build.telemetryNames;
+    },
+    get loopTime_us() {
+      return build.loopTime_us;
+    },
+    get reportedCompute_us() {
+      return build.reportedCompute_us;
+    },
+    get about() {
+      return build.about;
+    },
+    get pid() {
+      return build.pid;
+    },
+    get encoding() {
+      return build.encoding;
+    },
+    tick(obs: Observation, action: Action) {
+      beforeTick(obs);
+      return build.tick(obs, action);
+    },
+    close: () => build.close(),
+  };
+}

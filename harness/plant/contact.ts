@@ -15,6 +15,11 @@
 // stiff internal mode per foot that limits the step, and its pre-sliding creep is exactly what a
 // stiction test must not see; a light foot makes the implicit solve cheap and exact.
 
+/** k·δⁿ for δ > 0 (the exponents 3/2 and 1 written out: Math.pow is the slow general case). */
+export function elasticForce_N(stiffness: number, exponent: number, depth_m: number): number {
+  return exponent === 1.5 ? stiffness * depth_m * Math.sqrt(depth_m) : exponent === 1 ? stiffness * depth_m : stiffness * Math.pow(depth_m, exponent);
+}
+
 /**
  * Hunt–Crossley normal force f_n = k·δⁿ·(1 + (3/2)·c·δ̇), δ = penetration, δ̇ its rate
  * (Hunt & Crossley, ASME J. Appl. Mech. 42, 1975). Clamped at ≥ 0: the ground never pulls.
@@ -27,12 +32,7 @@ export function huntCrossleyNormal_N(
   depthRate_mps: number,
 ): number {
   if (depth_m <= 0) return 0;
-  const elastic =
-    exponent === 1.5
-      ? stiffness * depth_m * Math.sqrt(depth_m)
-      : exponent === 1
-        ? stiffness * depth_m
-        : stiffness * Math.pow(depth_m, exponent);
+  const elastic = elasticForce_N(stiffness, exponent, depth_m);
   const force = elastic * (1 + 1.5 * damping_s_per_m * depthRate_mps);
   return force > 0 ? force : 0;
 }
@@ -56,12 +56,7 @@ export function huntCrossleyNormalAtStart_N(
   lag_s: number,
 ): number {
   if (depth_m <= 0) return 0;
-  const elastic =
-    exponent === 1.5
-      ? stiffness * depth_m * Math.sqrt(depth_m)
-      : exponent === 1
-        ? stiffness * depth_m
-        : stiffness * Math.pow(depth_m, exponent);
+  const elastic = elasticForce_N(stiffness, exponent, depth_m);
   const chi = 1.5 * damping_s_per_m;
   const force = (elastic * (1 - chi * (midVelocityZ_mps + (lag_s * otherForce_N) / mass_kg))) / (1 + (elastic * chi * lag_s) / mass_kg);
   return force > 0 ? force : 0;

@@ -4,8 +4,8 @@
 // bench/pairedLoopTime.ts), so the timing needs no runs of its own. The observations travel
 // beside the run's result (never inside it: results.json does not hold them).
 
-import type { OpenedBuild } from '../builds/opened.js';
-import { copyObservation, createObservation, type Action, type Observation } from '../contract/tick.js';
+import { withTickTap, type OpenedBuild } from '../builds/opened.js';
+import { copyObservation, createObservation, type Observation } from '../contract/tick.js';
 import type { RunResult } from '../results/types.js';
 
 /** Which ticks to keep: every `everyNth` of the first `tickCount`, at most `capacity`. */
@@ -36,37 +36,9 @@ export function observingBuild(build: OpenedBuild, request: ObservationRequest, 
   const copies = Array.from({ length: slots }, () => createObservation(footCount));
   let filled = 0;
   let tick = 0;
-  const wrapped: OpenedBuild = {
-    get name() {
-      return build.name;
-    },
-    get kind() {
-      return build.kind;
-    },
-    get telemetryNames() {
-      return build.telemetryNames;
-    },
-    get loopTime_us() {
-      return build.loopTime_us;
-    },
-    get reportedCompute_us() {
-      return build.reportedCompute_us;
-    },
-    get about() {
-      return build.about;
-    },
-    get pid() {
-      return build.pid;
-    },
-    get encoding() {
-      return build.encoding;
-    },
-    tick(obs: Observation, action: Action) {
-      if (tick < request.tickCount && tick % request.everyNth === 0 && filled < slots) copyObservation(copies[filled++], obs);
-      tick++;
-      return build.tick(obs, action);
-    },
-    close: () => build.close(),
-  };
+  const wrapped = withTickTap(build, (obs) => {
+    if (tick < request.tickCount && tick % request.everyNth === 0 && filled < slots) copyObservation(copies[filled++], obs);
+    tick++;
+  });
   return { build: wrapped, observations: () => copies.slice(0, filled) };
 }
