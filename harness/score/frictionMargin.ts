@@ -32,7 +32,7 @@ export class FrictionMarginTracker {
   /** Histogram.binOf of the margin histograms, written out in the loop (same operations). */
   private readonly binWidth: number = MARGIN_BIN_WIDTH;
   private readonly lastBin: number;
-  /** The step's weight, in an array so that it crosses calls unboxed (Histogram.addWeightedFrom). */
+  /** The step's weight, in an array so that it crosses calls unboxed (Histogram.addBinnedWeightedFrom). */
   readonly weight = new Float64Array(1);
 
   constructor(
