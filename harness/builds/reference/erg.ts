@@ -161,6 +161,20 @@ export class ExplicitReferenceGovernor {
   }
 
   /**
+   * refreshConstraint(k) for k = first … first + count − 1 (a foot's six sides): one call instead
+   * of six, the same arithmetic per constraint (profiled: the per-constraint calls were not
+   * inlined and their overhead was a third of the refresh).
+   */
+  refreshConstraints(first: number, count: number): void {
+    const end = first + count;
+    if (this.blockPattern) {
+      for (let k = first; k < end; k++) this.refreshBlockConstraint(k);
+    } else {
+      for (let k = first; k < end; k++) this.refreshGenericConstraint(k);
+    }
+  }
+
+  /**
    * refreshConstraint() for the block pattern (see blockPattern), written out: the same products
    * summed in the same order as the compressed-row loops, so the same bits.
    */

@@ -155,9 +155,9 @@ export class TrunkGovernor {
           referenceRows[k * GOVERNED_AXES + axis] = 0;
         }
         kinds[k] = INSTANT;
-        erg.refreshConstraint(k);
         k++;
       }
+      erg.refreshConstraints(k - CONSTRAINTS_PER_FOOT, CONSTRAINTS_PER_FOOT);
     }
     this.speedBounds.copyTo(erg, k);
     erg.count = k + this.speedBounds.count;
