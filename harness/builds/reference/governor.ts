@@ -82,9 +82,23 @@ export class TrunkGovernor {
     this.speedBounds = new ConstraintBlock(2 * GOVERNED_AXES, this.erg);
     this.writeSpeedBounds(0);
     this.speedBounds.copyFrom(this.erg, 0);
+    // Every entry but the speed bounds' is a stance constraint: INSTANT, no reference row.
+    this.heldSpeedBound = new Uint8Array(this.erg.maxConstraints);
+    for (let k = 0; k < this.erg.maxConstraints; k++) {
+      if (k < this.speedBounds.count) this.heldSpeedBound[k] = 1;
+      else this.erg.kinds[k] = INSTANT;
+    }
   }
 
   private readonly speedBounds: ConstraintBlock;
+  /** Where the speed bounds sit in the table (they follow the stance constraints). */
+  private speedBoundsAt = 0;
+  /**
+   * 1 for the entries a speed bound was copied into since a stance constraint last was: only
+   * those need their kind and zero reference row written again (profiled: rewriting them, and
+   * copying the unchanged speed bounds, every tick was a third of linearise()).
+   */
+  private readonly heldSpeedBound: Uint8Array;
 
   /** Writes the 2·GOVERNED_AXES speed-bound constraints into the table from index k on. */
   private writeSpeedBounds(k: number): number {
@@ -120,7 +134,7 @@ export class TrunkGovernor {
     const minNormal_N = band[2], maxNormal_N = band[3];
     const erg = this.erg, legs = this.legCount, stride = 3 * legs;
     const rows = erg.rows, referenceRows = erg.referenceRows, bounds = erg.bounds, kinds = erg.kinds;
-    const kp = this.kp, kd = this.kd, sens = this.sensitivity;
+    const kp = this.kp, kd = this.kd, sens = this.sensitivity, heldSpeedBound = this.heldSpeedBound;
     let k = 0;
     for (let i = 0; i < legs; i++) {
       if (stance[i] === 0) continue;
@@ -152,15 +166,25 @@ export class TrunkGovernor {
           const sensitivity = sens[6 * axis + side];
           rows[rowOffset + 2 * axis] = -sensitivity * kp[axis];
           rows[rowOffset + 2 * axis + 1] = -sensitivity * kd[axis];
-          referenceRows[k * GOVERNED_AXES + axis] = 0;
         }
-        kinds[k] = INSTANT;
+        if (heldSpeedBound[k] === 1) {
+          for (let axis = 0; axis < GOVERNED_AXES; axis++) referenceRows[k * GOVERNED_AXES + axis] = 0;
+          kinds[k] = INSTANT;
+          heldSpeedBound[k] = 0;
+        }
         k++;
       }
       erg.refreshConstraints(k - CONSTRAINTS_PER_FOOT, CONSTRAINTS_PER_FOOT);
     }
-    this.speedBounds.copyTo(erg, k);
-    erg.count = k + this.speedBounds.count;
+    // Unchanged since they were copied unless the stance count moved them (nothing else writes
+    // past the stance constraints), so the table holds what copying every tick would give.
+    const speedBoundCount = this.speedBounds.count;
+    if (k !== this.speedBoundsAt) {
+      this.speedBounds.copyTo(erg, k);
+      for (let e = 0; e < speedBoundCount; e++) heldSpeedBound[k + e] = 1;
+      this.speedBoundsAt = k;
+    }
+    erg.count = k + speedBoundCount;
   }
 
   /** One governor step from the error state z (see trunk.ts for its layout). */
