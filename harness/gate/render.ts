@@ -2,6 +2,7 @@
 // for the terminal. Both list broken rules first, then every other metric that moved.
 
 import { markdownCode } from '../files/markdown.js';
+import { formatFixed } from '../score/format.js';
 import { markdownCell } from '../results/writeSummary.js';
 import type { GateOutcome, GateRow, GateValue } from './types.js';
 
@@ -25,7 +26,7 @@ const DECIMALS: Record<string, number> = {
 export function formatGateValue(metric: string, value: GateValue): string {
   if (value === null) return 'n/a';
   if (metric === 'fell') return typeof value === 'number' ? `at ${value.toFixed(2)} s` : value ? 'yes' : 'no';
-  if (typeof value === 'number') return metric in DECIMALS ? value.toFixed(DECIMALS[metric]) : String(value);
+  if (typeof value === 'number') return metric in DECIMALS ? formatFixed(value, DECIMALS[metric]) : String(value);
   return String(value);
 }
 

@@ -2,6 +2,7 @@
 // its metric moved or its rule is broken; informational metrics return a row when they moved.
 
 import { fallSentence } from '../score/acceptance.js';
+import { formatFixed } from '../score/format.js';
 import { firstReason } from '../results/runResult.js';
 import type { RunResult } from '../results/types.js';
 import type { ScoreMetrics } from '../score/types.js';
@@ -31,7 +32,7 @@ function relative(base: number, cand: number): string {
 }
 
 function fmt(value: number | null, decimals: number): string {
-  return value === null ? 'n/a' : value.toFixed(decimals);
+  return value === null ? 'n/a' : formatFixed(value, decimals);
 }
 
 type RowBase = Pick<GateRow, 'scenario' | 'baselineBuild' | 'candidateBuild'>;

@@ -2,6 +2,7 @@
 // runs with their reasons, and the full table folded away.
 
 import { writeFileAtomicSync } from '../files/atomic.js';
+import { formatFixed } from '../score/format.js';
 import { markdownCode, markdownInline } from '../files/markdown.js';
 import { aheadBuilds, aheadTable, stanceMarginMin, verdictOf, type AheadAllowances, type AheadTable } from './ahead.js';
 import { runsByBuild } from './buildOrder.js';
@@ -22,7 +23,8 @@ export const SUMMARY_FAILURE_LIMIT = 20;
 export const markdownCell = markdownInline;
 
 function fixed(value: number | null | undefined, decimals: number): string {
-  return value === null || value === undefined ? '–' : value.toFixed(decimals);
+  // formatFixed: a margin of −2e−16 (a foot exactly on the cone, rounding) reads 0.000, not -0.000.
+  return value === null || value === undefined ? '–' : formatFixed(value, decimals);
 }
 
 function worst(runs: RunResult[], pick: (r: RunResult) => number | null | undefined, lowest: boolean): number | null {
