@@ -26,7 +26,7 @@ import type { FidelityBlock } from '../score/fidelity.js';
 import { describeDivergence, firstDivergence } from '../results/divergence.js';
 import type { RunSeries } from '../score/series/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
-import { scenarioEvents } from './events.js';
+import { scenarioEvents } from '../scenario/events.js';
 
 export interface ReportOptions {
   /** Folder the report is written to (links are relative to it). */
@@ -370,7 +370,8 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     const traceHref = traceLink(run, ctx);
     if (traceHref) ctx.traces.push({ href: traceHref, name: `${ref.id} × ${run.build}` });
     const overBudget = series ? loopOver(series) : 0;
-    const events = series ? [...fixed, ...runEvents(run, series)] : [];
+    // The series file carries the scenario's events too (a re-render has no scenario): once each.
+    const events = series ? sharedEvents([fixed, runEvents(run, series)]) : [];
     return {
       build: run.build,
       buildIndex: b,

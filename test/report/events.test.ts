@@ -1,6 +1,6 @@
 // The scenario's moments the report marks on its time axes, read from the resolved scenario.
 import { describe, expect, it } from 'vitest';
-import { scenarioEvents } from '../../harness/report/events.js';
+import { scenarioEvents } from '../../harness/scenario/events.js';
 import { readFileSync } from 'node:fs';
 import { loadRobotText, loadScenarioFile } from '../../harness/scenario/load.js';
 

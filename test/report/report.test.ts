@@ -157,6 +157,14 @@ describe('footing report (re-render from saved results)', () => {
     const plots = (page: string) => (page.match(/<svg class="plot [^"]+"/g) ?? []).length;
     expect(plots(again)).toBe(plots(html));
     expect(plots(again)).toBeGreaterThan(10);
+    // The scenario's command change (trot at 0.3 s, shaped-floor.yaml) and its robot's leg names
+    // come from the series files, which carry them: the re-render has no scenario to read.
+    const marks = (page: string) => page.match(/<path class="event command"[^>]*>(<title>[^<]*<\/title>)?/g) ?? [];
+    expect(marks(html).length).toBeGreaterThan(0);
+    expect(marks(again)).toEqual(marks(html));
+    expect(marks(again).join(' ')).toContain('command: trot, v = (0.5, 0) m/s');
+    const legLabels = (page: string) => (page.match(/>FL</g) ?? []).length;
+    expect(legLabels(again)).toBe(legLabels(html));
   });
 
   it('exits 2 naming the problem for a missing results folder, a bad file and an unknown baseline', async () => {

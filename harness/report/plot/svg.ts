@@ -22,7 +22,4 @@ export function escapeXml(text: string): string {
 }
 
 /** Label text for a number: up to `decimals` decimals, trailing zeros dropped, true minus sign. */
-export function label(value: number, decimals = 2): string {
-  const text = Number(value.toFixed(decimals)).toString();
-  return text.startsWith('-') ? `−${text.slice(1)}` : text;
-}
+export { label } from '../../files/numberText.js';

@@ -3,6 +3,7 @@
 // foothold or slip-segment record), and hands back a RunSeries at the end.
 
 import { STANCE, type Action } from '../../contract/tick.js';
+import { scenarioEvents } from '../../scenario/events.js';
 import type { ResolvedScenario } from '../../scenario/types.js';
 import { frictionMargin } from '../frictionMargin.js';
 import type { EpisodeStart, TickObserver, TickSample } from '../sample.js';
@@ -13,6 +14,7 @@ import { compactFrictionMap } from './frictionMapData.js';
 import {
   MAX_FOOTHOLDS,
   MAX_SERIES_BUCKETS,
+  MAX_SERIES_EVENTS,
   MAX_SLIP_SEGMENTS,
   MAX_TELEMETRY_SERIES,
   TELEMETRY_PLOT_LIMIT,
@@ -223,6 +225,8 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
         governor: governorPairs.map((g) => ({ axis: g.axis, target: g.targetBuckets.toSeries(used, 4), applied: g.appliedBuckets.toSeries(used, 4) })),
         loopTime: { start_us: LOOP_BIN_START_us, ratio: LOOP_BIN_RATIO, bins, ticks: loopTicks, budget_us: scenario.control.loopBudget_us },
         friction: compactFrictionMap(scenario.plant.ground.friction),
+        events: scenarioEvents(scenario).slice(0, MAX_SERIES_EVENTS),
+        ...(scenario.plant.robot.legNames ? { legNames: [...scenario.plant.robot.legNames] } : {}),
       };
     },
   };

@@ -4,6 +4,7 @@
 // results (series/<scenario>__<build>.json) for every run, with or without --trace.
 
 import type { FrictionMap } from '../../plant/types.js';
+import type { ScenarioEvent } from '../../scenario/events.js';
 
 export const SERIES_FORMAT = 'footing-series';
 export const SERIES_FORMAT_VERSION = 1;
@@ -68,6 +69,9 @@ export interface TelemetrySeries {
   max: number | null;
 }
 
+/** Scenario events kept per series file (a recorded push series is one event; commands are few). */
+export const MAX_SERIES_EVENTS = 1000;
+
 /** Telemetry scalars plotted per run; names past this many are counted in dropped.telemetry. */
 export const MAX_TELEMETRY_SERIES = 64;
 /** The series bound of any plotted value (validate.ts); telemetry beyond it is clipped in plots. */
@@ -109,4 +113,10 @@ export interface RunSeries {
   loopTime: LoopTimeDistribution;
   /** The scenario's friction map (raster block-reduced to MAX_RASTER_CELLS_PER_SIDE). */
   friction: FrictionMap;
+  /**
+   * The scenario's pushes and command changes (scenario/events.ts) and its robot's leg names, so a
+   * report re-rendered from saved results marks and labels them (absent in older files).
+   */
+  events?: ScenarioEvent[];
+  legNames?: string[];
 }

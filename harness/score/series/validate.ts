@@ -4,7 +4,7 @@
 // unusable: …"), never the report.
 
 import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
-import { MAX_RASTER_CELLS_PER_SIDE, MAX_SERIES_POINTS, MAX_TELEMETRY_SERIES, SERIES_FORMAT, SERIES_FORMAT_VERSION, type RunSeries } from './types.js';
+import { MAX_RASTER_CELLS_PER_SIDE, MAX_SERIES_EVENTS, MAX_SERIES_POINTS, MAX_TELEMETRY_SERIES, SERIES_FORMAT, SERIES_FORMAT_VERSION, type RunSeries } from './types.js';
 
 // Magnitudes are bounded as well as types: the plots size axes, grids and histograms from these
 // numbers, and a crafted 1e308 would ask for a grid line per metre to the end of the universe.
@@ -100,6 +100,12 @@ const SERIES_SCHEMA = {
         budget_us: { type: 'number', minimum: 1e-3, maximum: 1e9 },
       },
     },
+    events: {
+      type: 'array',
+      maxItems: MAX_SERIES_EVENTS,
+      items: { type: 'object', required: ['t_s', 'kind', 'text'], properties: { t_s: time, kind: { enum: ['push', 'command'] }, text: { type: 'string', maxLength: 200 } } },
+    },
+    legNames: { type: 'array', maxItems: 64, items: { type: 'string', minLength: 1, maxLength: 40 } },
     friction: {
       type: 'object',
       required: ['default', 'patches'],

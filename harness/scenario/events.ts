@@ -1,15 +1,22 @@
-// The scenario's own moments on the time axes: each push (start time and peak force) and each
-// command change after t = 0 (gait and commanded velocity). Falls are per run (model.ts, from the
-// scorer's fellAt_s). Text here is ours, built from numbers and gait names.
+// The scenario's own moments on the report's time axes: each push (start time and peak force) and
+// each command change after t = 0 (gait and commanded velocity). Falls are per run (report
+// model.ts, from the scorer's fellAt_s). Text here is ours, built from numbers and gait names.
+// Written into every run's series file too, so a report re-rendered from saved results (`footing
+// report`, `footing merge`) marks them without the scenario files.
 
-import type { ResolvedScenario } from '../scenario/types.js';
-import type { TimeEvent } from './plot/timeSeries.js';
-import { label } from './plot/svg.js';
+import { label } from '../files/numberText.js';
+import type { ResolvedScenario } from './types.js';
+
+export interface ScenarioEvent {
+  t_s: number;
+  kind: 'push' | 'command';
+  text: string;
+}
 
 const magnitude = (f: readonly number[]) => Math.hypot(f[0], f[1], f[2]);
 
-export function scenarioEvents(scenario: ResolvedScenario): TimeEvent[] {
-  const out: TimeEvent[] = [];
+export function scenarioEvents(scenario: ResolvedScenario): ScenarioEvent[] {
+  const out: ScenarioEvent[] = [];
   for (const push of scenario.plant.pushes) {
     if (push.kind === 'pulse') {
       out.push({ t_s: push.at_s, kind: 'push', text: `push ${label(magnitude(push.force_N), 0)} N for ${label(push.duration_s * 1000, 0)} ms` });
