@@ -82,7 +82,12 @@ const CORES = availableParallelism();
  * of this thread has two (the suite runner's threads are counted by the suite, suite.ts).
  */
 function coresForSpinning(): boolean {
-  return liveBuilds.size * 2 <= CORES;
+  return spinFitsCores(liveBuilds.size);
+}
+
+/** Whether `concurrent` process builds ticking at once may all spin: two cores each. */
+export function spinFitsCores(concurrent: number): boolean {
+  return concurrent * 2 <= CORES;
 }
 
 function killAllGroups(): void {
@@ -337,7 +342,7 @@ export class ProcessBuild implements Controller {
   private childEnv(extra: Record<string, string> | undefined): NodeJS.ProcessEnv {
     // The build spins on its side only when the harness would (same core rule, at spawn), unless
     // the spec's environment says otherwise.
-    const spin_us = this.settings.spin_us > 0 && liveBuilds.size * 2 + 2 <= CORES ? this.settings.spin_us : 0;
+    const spin_us = this.settings.spin_us > 0 && spinFitsCores(liveBuilds.size + 1) ? this.settings.spin_us : 0;
     return { ...process.env, [SPIN_ENV]: String(spin_us), ...extra };
   }
 

@@ -1,0 +1,169 @@
+// The answer spin (harness/builds/process/spin.ts) changes how long the harness waits, never what
+// it reads: an answer read during the spin and one read by the stream after it give the same
+// actions and tick counts, a build that breaks during the spin fails exactly as without it, and
+// spin_us 0 never polls. No timing is asserted: sleeps only force the fallback path.
+
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { createAction, type Action } from '../../../harness/builds/interface.js';
+import { BuildFailure, openBuild, type OpenBuildOptions } from '../../../harness/builds/loader.js';
+import { ProcessBuild, spinFitsCores } from '../../../harness/builds/process/bridge.js';
+import { AnswerSpin } from '../../../harness/builds/process/spin.js';
+import { parseBuildSpec } from '../../../harness/builds/spec.js';
+import { FIXTURES, REPO_ROOT, newObservation, syntheticObservation, testSetup } from './helpers.js';
+
+const TICKS = 40;
+/** Longer than any spin window below by far: a sleeping tick is always answered after the spin. */
+const SLEEP_ms = 50;
+/** The longest window accepted (MAX_SPIN_us): on a loaded machine the fast answers still come within it. */
+const WIDE_SPIN_us = 10_000;
+const LIMITS = { handshakeTimeout_ms: 3000, tickTimeout_ms: 500, killGrace_ms: 100, closeGrace_ms: 300 };
+// Spinning needs two cores per live build; on a 1-core machine the spin never engages.
+const canSpin = spinFitsCores(1);
+
+function sleepySpec(every: number, encoding: 'f64' | 'json'): string {
+  return `sleepy=exec:python3 ${FIXTURES}sleepy_build.py ${every} ${SLEEP_ms} ${encoding}`;
+}
+
+interface Recorded {
+  actions: Action[];
+  tickCount: number;
+  polls: number;
+  answered: number;
+  missed: number;
+  about: string;
+}
+
+async function record(specText: string, options: OpenBuildOptions): Promise<Recorded> {
+  const build = await openBuild(parseBuildSpec(specText, REPO_ROOT), testSetup(), { ...LIMITS, ...options });
+  expect(build).toBeInstanceOf(ProcessBuild);
+  const process = build as ProcessBuild;
+  const obs = newObservation();
+  const actions: Action[] = [];
+  try {
+    for (let k = 0; k < TICKS; k++) {
+      syntheticObservation(obs, k);
+      const action = createAction(4, build.telemetryNames.length);
+      const pending = build.tick(obs, action);
+      if (pending !== undefined) await pending;
+      actions.push(action);
+    }
+    return { actions, tickCount: process.tickCount, ...process.spinStats, about: build.about };
+  } finally {
+    await build.close();
+  }
+}
+
+describe('the answer spin', () => {
+  for (const encoding of ['f64', 'json'] as const) {
+    it.runIf(canSpin)(`gives the same actions and tick counts as waiting in the event loop (${encoding}, a build that sleeps past the window every 7th tick)`, async () => {
+      const waited = await record(sleepySpec(7, encoding), { spin_us: 0 });
+      const spun = await record(sleepySpec(7, encoding), { spin_us: WIDE_SPIN_us });
+      expect(spun.tickCount).toBe(TICKS);
+      expect(waited.tickCount).toBe(TICKS);
+      for (let k = 0; k < TICKS; k++) expect(spun.actions[k]).toEqual(waited.actions[k]);
+      // Both paths ran: the sleeping ticks (tick % 7 = 3) can only be answered after the spin.
+      expect(spun.answered).toBeGreaterThan(0);
+      expect(spun.missed).toBeGreaterThan(0);
+      expect(spun.answered + spun.missed).toBeLessThanOrEqual(TICKS);
+    });
+  }
+
+  it('with spin_us 0 never polls, and tells the build not to spin either', async () => {
+    const waited = await record(sleepySpec(0, 'f64'), { spin_us: 0 });
+    expect(waited.tickCount).toBe(TICKS);
+    expect(waited).toMatchObject({ polls: 0, answered: 0, missed: 0 });
+    expect(waited.about).toBe('FOOTING_SPIN_US=0');
+  });
+
+  it.runIf(canSpin)('tells the build the window it spins with itself, unless the spec environment overrides it', async () => {
+    expect((await record(sleepySpec(0, 'f64'), { spin_us: 250 })).about).toBe('FOOTING_SPIN_US=250');
+    expect((await record(sleepySpec(0, 'f64'), { spin_us: 250, env: { FOOTING_SPIN_US: '0' } })).about).toBe('FOOTING_SPIN_US=0');
+  });
+
+  it('rejects a spin_us that is not 0 to 10000 µs, naming the build and the value', async () => {
+    for (const spin_us of [-1, Number.NaN, 20_000]) {
+      await expect(openBuild(parseBuildSpec(sleepySpec(0, 'f64'), REPO_ROOT), testSetup(), { spin_us })).rejects.toThrow(
+        new RegExp(`build 'sleepy': spin_us = ${spin_us}: expected microseconds from 0 \\(never spin\\) to 10000`),
+      );
+    }
+  });
+
+  it.runIf(canSpin)('lets the event loop run while every answer comes during the spin', async () => {
+    const build = (await openBuild(parseBuildSpec(sleepySpec(0, 'f64'), REPO_ROOT), testSetup(), { ...LIMITS, spin_us: WIDE_SPIN_us })) as ProcessBuild;
+    const obs = newObservation();
+    const action = createAction(4, build.telemetryNames.length);
+    let turned = false;
+    setImmediate(() => (turned = true));
+    let k = 0;
+    try {
+      // Without the periodic turn (spin.ts, every 10 ms) a spun tick never yields to the loop.
+      for (; !turned && k < 200_000; k++) {
+        const pending = build.tick(obs, action);
+        if (pending !== undefined) await pending;
+      }
+    } finally {
+      await build.close();
+    }
+    expect(turned).toBe(true);
+    expect(build.tickCount).toBe(k);
+  });
+
+  afterEach(() => {
+    vi.restoreAllMocks();
+  });
+
+  it('gives the event loop a turn once 10 ms have passed since its last one, then waits another 10 ms', () => {
+    let now_ms = 1000;
+    vi.spyOn(performance, 'now').mockImplementation(() => now_ms);
+    const spin = new AnswerSpin(100);
+    spin.fellBack();
+    now_ms += 9.9;
+    expect(spin.dueForEventLoop()).toBe(false);
+    now_ms += 0.2;
+    expect(spin.dueForEventLoop()).toBe(true);
+    expect(spin.dueForEventLoop()).toBe(false);
+    now_ms += 5;
+    spin.fellBack();
+    now_ms += 9;
+    expect(spin.dueForEventLoop()).toBe(false);
+  });
+
+  it('never wants to spin with a window of 0', () => {
+    const spin = new AnswerSpin(0);
+    for (let k = 0; k < 3; k++) expect(spin.wanted()).toBe(false);
+  });
+
+  // Each mode breaks at tick 2, while the harness spins (or waits) for that answer.
+  const modes = ['crash-tick', 'exit-tick', 'malformed', 'nan', 'short', 'hang-tick', 'f64-nan', 'f64-tag', 'f64-truncated'];
+  for (const mode of modes) {
+    it.runIf(canSpin)(`a build in mode ${mode} fails with the same reason and message whether the harness spins or not`, async () => {
+      const spec = `bad=exec:python3 ${FIXTURES}misbehaving_build.py ${mode}`;
+      const waited = await failureOf(spec, { spin_us: 0 });
+      const spun = await failureOf(spec, { spin_us: WIDE_SPIN_us });
+      expect(spun.ticksDone).toBe(waited.ticksDone);
+      expect(spun.failure.reason).toBe(waited.failure.reason);
+      // The message names the program and the tick; the pid is in the stderr tail only.
+      expect(spun.failure.message).toBe(waited.failure.message);
+    });
+  }
+});
+
+async function failureOf(specText: string, options: OpenBuildOptions): Promise<{ failure: BuildFailure; ticksDone: number }> {
+  const build = await openBuild(parseBuildSpec(specText, REPO_ROOT), testSetup(), { ...LIMITS, ...options });
+  const obs = newObservation();
+  const action = createAction(4, build.telemetryNames.length);
+  let ticksDone = 0;
+  try {
+    for (; ticksDone < 20; ticksDone++) {
+      syntheticObservation(obs, ticksDone);
+      const pending = build.tick(obs, action);
+      if (pending !== undefined) await pending;
+    }
+  } catch (error) {
+    if (!(error instanceof BuildFailure)) throw error;
+    return { failure: error, ticksDone };
+  } finally {
+    await build.close();
+  }
+  throw new Error(`'${specText}' did not fail in ${ticksDone} ticks`);
+}
