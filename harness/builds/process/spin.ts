@@ -96,7 +96,8 @@ export class AnswerSpin {
    */
   run(fd: number, channel: TickChannel, onAnswer: (problem: MessageProblem | null) => void, stillWaiting: () => boolean): void {
     const limit = Error.stackTraceLimit;
-    // An empty poll throws EAGAIN; without a stack trace that costs ~2 µs instead of ~10.
+    // An empty poll throws EAGAIN; without a stack trace that costs ~2 µs instead of ~4 (measured
+    // on the 2-core VM, Node 20).
     Error.stackTraceLimit = 0;
     const deadline_ms = performance.now() + this.window_ms;
     let settled = false;
