@@ -249,6 +249,38 @@ inline double spinFromEnvironment() {
   return value;
 }
 
+/**
+ * The harness's back-off (harness/builds/process/spin.ts): in each block of 128 spins one may
+ * miss; a second miss pauses the spin for 256, 512 … 4096 waits, a good block resets the pause.
+ * A machine too busy to run both sides at once soon gets plain sleeping waits back.
+ */
+class SpinPacing {
+ public:
+  bool wanted() {
+    if (skip_ > 0) {
+      --skip_;
+      return false;
+    }
+    return true;
+  }
+  void record(bool seen) {
+    ++blockSpins_;
+    if (!seen && ++blockMisses_ > 1) {
+      ++pauses_;
+      skip_ = 128 << std::min(pauses_, 5);
+      blockSpins_ = blockMisses_ = 0;
+    } else if (blockSpins_ == 128) {
+      pauses_ = blockSpins_ = blockMisses_ = 0;
+    }
+  }
+
+ private:
+  int skip_ = 0;
+  int blockSpins_ = 0;
+  int blockMisses_ = 0;
+  int pauses_ = 0;
+};
+
 class StdinReader {
  public:
   StdinReader(int fd, double spin_us) : fd_(fd), spin_(std::chrono::nanoseconds(static_cast<long long>(spin_us * 1000.0))) {
@@ -302,21 +334,15 @@ class StdinReader {
     if (spin_.count() > 0) {
       long got = tryRead(buffer, size);
       if (got != -2) return got;
-      if (skip_ > 0) {
-        --skip_;
-      } else {
+      if (pacing_.wanted()) {
         const auto deadline = std::chrono::steady_clock::now() + spin_;
-        while (std::chrono::steady_clock::now() < deadline) {
+        bool seen = false;
+        while (!seen && std::chrono::steady_clock::now() < deadline) {
           got = tryRead(buffer, size);
-          if (got != -2) {
-            backoff_ = 0;
-            return got;
-          }
+          seen = got != -2;
         }
-        // Missed: skip the spin for 1, 2, 4 ... waits (reset by a hit), so a machine too busy to
-        // run both sides at once soon gets plain sleeping waits back.
-        backoff_ = std::min(std::max(1, 2 * backoff_), 1024);
-        skip_ = backoff_;
+        pacing_.record(seen);
+        if (seen) return got;
       }
     }
     for (;;) {
@@ -341,8 +367,7 @@ class StdinReader {
   int fd_;
   std::chrono::nanoseconds spin_;
   int flags_ = 0;
-  int skip_ = 0;
-  int backoff_ = 0;
+  SpinPacing pacing_;
   std::string pending_;  // bytes read past the last line
 };
 

@@ -33,10 +33,40 @@ import time
 PROTOCOL_VERSION = 1
 
 SPIN_ENV = "FOOTING_SPIN_US"
-# After a spin that did not see the message, skip the spin for 1, 2, 4 ... waits (reset when one
-# does): a machine too busy to run both sides at once soon gets plain blocking waits back.
-MAX_SPIN_BACKOFF = 1024
 READ_BYTES = 65536  # a Linux pipe's default capacity (pipe(7))
+
+
+class SpinPacing:
+    """The harness's back-off (harness/builds/process/spin.ts): in each block of 128 spins one may
+    miss; a second miss pauses the spin for 256, 512 ... 4096 waits, a good block resets the
+    pause. A machine too busy to run both sides at once soon gets plain sleeping waits back."""
+
+    BLOCK = 128
+    MISSES_PER_BLOCK = 1
+    MAX_PAUSE_DOUBLINGS = 5
+
+    def __init__(self):
+        self.skip = 0
+        self.block_spins = 0
+        self.block_misses = 0
+        self.pauses = 0
+
+    def wanted(self):
+        if self.skip > 0:
+            self.skip -= 1
+            return False
+        return True
+
+    def record(self, seen):
+        self.block_spins += 1
+        if not seen:
+            self.block_misses += 1
+        if self.block_misses > self.MISSES_PER_BLOCK:
+            self.pauses += 1
+            self.skip = self.BLOCK << min(self.pauses, self.MAX_PAUSE_DOUBLINGS)
+            self.block_spins = self.block_misses = 0
+        elif self.block_spins == self.BLOCK:
+            self.pauses = self.block_spins = self.block_misses = 0
 
 TELEMETRY_NAMES = ["stand.heightError_m", "stand.tiltError"]
 
@@ -185,8 +215,7 @@ class StdinReader:
     def __init__(self, fd, spin_us):
         self.fd = fd
         self.spin_ns = int(spin_us * 1000)
-        self.skip = 0
-        self.backoff = 0
+        self.pacing = SpinPacing()
         self.pending = bytearray()  # bytes read past the last line
         self.chunk = bytearray(READ_BYTES)
         self.chunk_view = memoryview(self.chunk)
@@ -205,19 +234,16 @@ class StdinReader:
             return os.readv(self.fd, [view])
         except BlockingIOError:
             pass
-        if self.skip > 0:
-            self.skip -= 1
-        else:
+        if self.pacing.wanted():
             deadline_ns = time.perf_counter_ns() + self.spin_ns
             while time.perf_counter_ns() < deadline_ns:
                 try:
                     got = os.readv(self.fd, [view])
-                    self.backoff = 0
+                    self.pacing.record(True)
                     return got
                 except BlockingIOError:
                     pass
-            self.backoff = min(max(1, 2 * self.backoff), MAX_SPIN_BACKOFF)
-            self.skip = self.backoff
+            self.pacing.record(False)
         while True:
             select.select([self.fd], [], [])
             try:

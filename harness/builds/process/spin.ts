@@ -30,8 +30,19 @@ export interface SpinOutcome {
  */
 const EVENT_LOOP_EVERY_ms = 10;
 
-/** Longest run of ticks without a spin after repeated misses (about 1 s at 1 kHz). */
-const MAX_BACKOFF_TICKS = 1024;
+/**
+ * The back-off. A missed spin (the answer came after the window) cost a core for nothing and, on
+ * a full machine, may have kept the build from the core it needed, so its tick can end later than
+ * without the spin. Misses are therefore kept under 1 % of ticks, the tail a p99 reads: spins are
+ * counted in blocks of SPIN_BLOCK, and a block's second miss (1 in 128, 0.8 %) pauses the spin for
+ * SPIN_BLOCK × 2, × 4 … ticks (up to × MAX_PAUSE_DOUBLINGS), after which a new block probes again;
+ * a block with at most one miss resets the pause. The C++ example missed 53–65 of ~20 000 spins
+ * on the VM at load average 2.3 (0.3 %); the Python one 11 % at the same load, so its spin soon
+ * stays off there (docs/protocol.md, "Latency on idle machines").
+ */
+const SPIN_BLOCK = 128;
+const MISSES_PER_BLOCK = 1;
+const MAX_PAUSE_DOUBLINGS = 5;
 
 /** One read takes whatever the pipe holds; 64 KiB is a Linux pipe's default capacity (pipe(7)). */
 const READ_BYTES = 64 * 1024;
@@ -62,13 +73,44 @@ function isNonBlocking(fd: number): boolean {
   }
 }
 
+/** When to spin, from how the last spins went (the back-off above). */
+export class SpinPacing {
+  /** Ticks left without a spin; spins and misses in the current block; pauses since a good block. */
+  private skip = 0;
+  private blockSpins = 0;
+  private blockMisses = 0;
+  private pauses = 0;
+
+  /** Whether this tick may spin (false during a pause, which it counts down). */
+  wanted(): boolean {
+    if (this.skip > 0) {
+      this.skip--;
+      return false;
+    }
+    return true;
+  }
+
+  /** Counts one spin: settled during it, or missed. */
+  record(settled: boolean): void {
+    this.blockSpins++;
+    if (!settled && ++this.blockMisses > MISSES_PER_BLOCK) {
+      this.pauses++;
+      this.skip = SPIN_BLOCK << Math.min(this.pauses, MAX_PAUSE_DOUBLINGS);
+      this.blockSpins = 0;
+      this.blockMisses = 0;
+    } else if (this.blockSpins === SPIN_BLOCK) {
+      this.pauses = 0;
+      this.blockSpins = 0;
+      this.blockMisses = 0;
+    }
+  }
+}
+
 export class AnswerSpin {
   readonly stats: SpinOutcome = { polls: 0, answered: 0, missed: 0 };
   private readonly window_ms: number;
   private readonly buffer: Buffer;
-  /** Ticks left without a spin, and the length of the last back-off. */
-  private skip = 0;
-  private backoff = 0;
+  private readonly pacing = new SpinPacing();
   private lastTurn_ms = performance.now();
 
   constructor(window_us: number) {
@@ -77,17 +119,11 @@ export class AnswerSpin {
   }
 
   /**
-   * Whether this tick may spin. After a miss the spin pauses for 1, 2, 4 … ticks (reset by a hit):
-   * a build slower than the window, or a machine too busy to run both sides at once, soon goes
-   * back to waiting exactly as without the spin.
+   * Whether this tick may spin: not during a pause (SPIN_BLOCK above), so a build slower than the
+   * window, or a machine too busy to run both sides at once, soon waits exactly as without it.
    */
   wanted(): boolean {
-    if (this.window_ms === 0) return false;
-    if (this.skip > 0) {
-      this.skip--;
-      return false;
-    }
-    return true;
+    return this.window_ms > 0 && this.pacing.wanted();
   }
 
   /**
@@ -123,14 +159,9 @@ export class AnswerSpin {
     } finally {
       Error.stackTraceLimit = limit;
     }
-    if (settled) {
-      this.stats.answered++;
-      this.backoff = 0;
-    } else {
-      this.stats.missed++;
-      this.backoff = Math.min(Math.max(1, 2 * this.backoff), MAX_BACKOFF_TICKS);
-      this.skip = this.backoff;
-    }
+    if (settled) this.stats.answered++;
+    else this.stats.missed++;
+    this.pacing.record(settled);
   }
 
   /** The tick waits in the event loop (no spin, or a miss): the loop gets its turn. */

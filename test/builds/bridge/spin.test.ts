@@ -7,7 +7,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { createAction, type Action } from '../../../harness/builds/interface.js';
 import { BuildFailure, openBuild, type OpenBuildOptions } from '../../../harness/builds/loader.js';
 import { ProcessBuild, spinFitsCores } from '../../../harness/builds/process/bridge.js';
-import { AnswerSpin } from '../../../harness/builds/process/spin.js';
+import { AnswerSpin, SpinPacing } from '../../../harness/builds/process/spin.js';
 import { parseBuildSpec } from '../../../harness/builds/spec.js';
 import { FIXTURES, REPO_ROOT, newObservation, syntheticObservation, testSetup } from './helpers.js';
 
@@ -126,6 +126,33 @@ describe('the answer spin', () => {
     spin.fellBack();
     now_ms += 9;
     expect(spin.dueForEventLoop()).toBe(false);
+  });
+
+  it('pauses after a second miss in a block of 128 spins, for 256, 512 … 4096 ticks, and forgives after a good block', () => {
+    const pacing = new SpinPacing();
+    /** Ticks until the pacing wants a spin again. */
+    const pause = (): number => {
+      let k = 0;
+      while (!pacing.wanted()) k++;
+      return k;
+    };
+    // One miss per block is allowed: 10 blocks, each with one miss, never pause.
+    for (let k = 0; k < 10 * 128; k++) {
+      expect(pacing.wanted()).toBe(true);
+      pacing.record(k % 128 !== 5);
+    }
+    const pauses: number[] = [];
+    for (let p = 0; p < 7; p++) {
+      pacing.record(false);
+      pacing.record(false);
+      pauses.push(pause());
+    }
+    expect(pauses).toEqual([256, 512, 1024, 2048, 4096, 4096, 4096]);
+    // A whole block with at most one miss resets the pause to its shortest.
+    for (let k = 0; k < 128; k++) pacing.record(k !== 0);
+    pacing.record(false);
+    pacing.record(false);
+    expect(pause()).toBe(256);
   });
 
   it('never wants to spin with a window of 0', () => {
