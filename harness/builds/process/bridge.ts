@@ -48,12 +48,12 @@ export const PROCESS_BUILD_DEFAULTS = {
   closeGrace_ms: 1000,
   stderrTail_bytes: 2048,
   maxFrame_bytes: 1 << 20,
-  // Covers the answer of a build whose tick is a few tens of µs (the examples: 5–25 µs round trip
-  // when both sides spin, measured in docs/protocol.md) with room to spare, while a build that
-  // takes longer wastes at most a tenth of a 1 kHz control period before the fallback; the saving
-  // is one wake-up of an idle core (~30 µs per side on the 2-core VM), so a longer window buys
-  // little. Common practice for adaptive spin-then-block waits: spin about one wake-up's cost ×
-  // a small factor.
+  // Spin-then-block: spinning about as long as blocking costs is the classic choice, never worse
+  // than twice the best in hindsight ("Empirical studies of competitive spinning for a
+  // shared-memory multiprocessor", SOSP 1991). Blocking costs the idle VM's wake-ups, 66–85 µs per
+  // round trip (docs/protocol.md); 100 µs covers that, and the examples' spun answers (overhead
+  // p50 6–12 µs) many times over, while a slower build wastes at most a tenth of a 1 kHz control
+  // period per miss before the back-off (spin.ts) stops the spin.
   spin_us: 100,
 } as const;
 
