@@ -36,7 +36,8 @@ export interface ProcessBuildOptions {
   env?: Record<string, string>;
   /**
    * Longest busy-wait for an answer after each obs, microseconds (spin.ts), before the event loop
-   * waits for it; 0 = never. Only when every spinning side can have a core of its own.
+   * waits for it; 0 = never. Only when every spinning side can have a core of its own. Default:
+   * the harness's FOOTING_SPIN_US environment variable when set, else PROCESS_BUILD_DEFAULTS.
    */
   spin_us?: number;
 }
@@ -185,7 +186,7 @@ export class ProcessBuild implements Controller {
       maxFrame_bytes: options.maxFrame_bytes ?? PROCESS_BUILD_DEFAULTS.maxFrame_bytes,
       framing: options.framing ?? newlineFraming,
       encodings: options.encodings ?? (F64_AVAILABLE ? ['json', 'f64'] : ['json']),
-      spin_us: options.spin_us ?? PROCESS_BUILD_DEFAULTS.spin_us,
+      spin_us: options.spin_us ?? spinFromEnvironment(),
     };
     // Never longer than the tick limit: a build that hangs is caught by the tick timer.
     this.spin = new AnswerSpin(Math.min(this.settings.spin_us, this.settings.tickTimeout_ms * 1000));
@@ -233,6 +234,7 @@ export class ProcessBuild implements Controller {
   /** Spawns the program and completes the handshake; rejects with a BuildFailure. */
   static async open(program: ProcessProgram, setup: ControllerSetup, options: ProcessBuildOptions = {}): Promise<ProcessBuild> {
     checkSpin(program.name, options.spin_us);
+    spinFromEnvironment(); // a bad FOOTING_SPIN_US is named before anything starts
     let build: ProcessBuild;
     try {
       build = new ProcessBuild(program, setup, options);
@@ -498,6 +500,17 @@ export class ProcessBuild implements Controller {
       this.tickTimer = null;
     }
   }
+}
+
+/** The harness's own FOOTING_SPIN_US (`FOOTING_SPIN_US=0 footing run …` turns the spin off), else the default. */
+function spinFromEnvironment(): number {
+  const text = process.env[SPIN_ENV];
+  if (text === undefined || text.trim() === '') return PROCESS_BUILD_DEFAULTS.spin_us;
+  const value = Number(text);
+  if (!Number.isFinite(value) || value < 0 || value > MAX_SPIN_us) {
+    throw new RangeError(`environment variable ${SPIN_ENV} = '${text}': expected microseconds from 0 (never spin) to ${MAX_SPIN_us}`);
+  }
+  return value;
 }
 
 function checkSpin(name: string, spin_us: number | undefined): void {

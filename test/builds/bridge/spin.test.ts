@@ -80,6 +80,22 @@ describe('the answer spin', () => {
     expect((await record(sleepySpec(0, 'f64'), { spin_us: 250, env: { FOOTING_SPIN_US: '0' } })).about).toBe('FOOTING_SPIN_US=0');
   });
 
+  it("takes its default from the harness's FOOTING_SPIN_US, and names a bad one", async () => {
+    const saved = process.env.FOOTING_SPIN_US;
+    try {
+      process.env.FOOTING_SPIN_US = '0';
+      const waited = await record(sleepySpec(0, 'f64'), {});
+      expect(waited).toMatchObject({ polls: 0, about: 'FOOTING_SPIN_US=0' });
+      process.env.FOOTING_SPIN_US = 'fast';
+      await expect(openBuild(parseBuildSpec(sleepySpec(0, 'f64'), REPO_ROOT), testSetup(), {})).rejects.toThrow(
+        "environment variable FOOTING_SPIN_US = 'fast': expected microseconds from 0 (never spin) to 10000",
+      );
+    } finally {
+      if (saved === undefined) delete process.env.FOOTING_SPIN_US;
+      else process.env.FOOTING_SPIN_US = saved;
+    }
+  });
+
   it('rejects a spin_us that is not 0 to 10000 µs, naming the build and the value', async () => {
     for (const spin_us of [-1, Number.NaN, 20_000]) {
       await expect(openBuild(parseBuildSpec(sleepySpec(0, 'f64'), REPO_ROOT), testSetup(), { spin_us })).rejects.toThrow(
