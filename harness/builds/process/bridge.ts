@@ -278,11 +278,12 @@ export class ProcessBuild implements Controller {
     const channel = this.channel as TickChannel;
     channel.send(this.child.stdin, obs, this.tickCount, action);
     if (this.spinAllowed()) {
+      const asked = this.tickCount;
       this.spin.run(this.stdoutFd, channel, this.onAnswer, this.isTicking);
-      // The answer (or a bad one) came during the spin: onAnswer has settled the tick.
-      const after = this.state as State; // changed by onAnswer during the spin
-      if (after === 'idle') return this.spin.dueForEventLoop() ? new Promise<void>(this.yieldExecutor) : undefined;
-      if (after === 'failed') return this.rejectWithFailure();
+      // The answer came during the spin: this tick is done, even if bytes after it in the same
+      // read broke the protocol (that failure is the next tick's, as when the stream reads them).
+      if (this.tickCount !== asked) return this.spin.dueForEventLoop() ? new Promise<void>(this.yieldExecutor) : undefined;
+      if ((this.state as State) === 'failed') return this.rejectWithFailure(); // a bad answer
     }
     this.spin.fellBack();
     const promise = new Promise<void>(this.pendingExecutor);
