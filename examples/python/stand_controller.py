@@ -36,38 +36,6 @@ SPIN_ENV = "FOOTING_SPIN_US"
 READ_BYTES = 65536  # a Linux pipe's default capacity (pipe(7))
 
 
-class SpinPacing:
-    """The harness's back-off (harness/builds/process/spin.ts): in each block of 128 spins one may
-    miss; a second miss pauses the spin for 256, 512 ... 4096 waits, a good block resets the
-    pause. A machine too busy to run both sides at once soon gets plain sleeping waits back."""
-
-    BLOCK = 128
-    MISSES_PER_BLOCK = 1
-    MAX_PAUSE_DOUBLINGS = 5
-
-    def __init__(self):
-        self.skip = 0
-        self.block_spins = 0
-        self.block_misses = 0
-        self.pauses = 0
-
-    def wanted(self):
-        if self.skip > 0:
-            self.skip -= 1
-            return False
-        return True
-
-    def record(self, seen):
-        self.block_spins += 1
-        if not seen:
-            self.block_misses += 1
-        if self.block_misses > self.MISSES_PER_BLOCK:
-            self.pauses += 1
-            self.skip = self.BLOCK << min(self.pauses, self.MAX_PAUSE_DOUBLINGS)
-            self.block_spins = self.block_misses = 0
-        elif self.block_spins == self.BLOCK:
-            self.pauses = self.block_spins = self.block_misses = 0
-
 TELEMETRY_NAMES = ["stand.heightError_m", "stand.tiltError"]
 
 
@@ -206,6 +174,39 @@ def decode_f64_observation(values, n):
     obs["command"] = {"gait": ("stand", "trot")[int(values[k])], "velocity_mps": values[k + 1:k + 4],
                       "yawRate_radps": values[k + 4]}
     return obs
+
+
+class SpinPacing:
+    """The harness's back-off (harness/builds/process/spin.ts): in each block of 128 spins one may
+    miss; a second miss pauses the spin for 256, 512 ... 4096 waits, a good block resets the
+    pause. A machine too busy to run both sides at once soon gets plain sleeping waits back."""
+
+    BLOCK = 128
+    MISSES_PER_BLOCK = 1
+    MAX_PAUSE_DOUBLINGS = 5
+
+    def __init__(self):
+        self.skip = 0
+        self.block_spins = 0
+        self.block_misses = 0
+        self.pauses = 0
+
+    def wanted(self):
+        if self.skip > 0:
+            self.skip -= 1
+            return False
+        return True
+
+    def record(self, seen):
+        self.block_spins += 1
+        if not seen:
+            self.block_misses += 1
+        if self.block_misses > self.MISSES_PER_BLOCK:
+            self.pauses += 1
+            self.skip = self.BLOCK << min(self.pauses, self.MAX_PAUSE_DOUBLINGS)
+            self.block_spins = self.block_misses = 0
+        elif self.block_spins == self.BLOCK:
+            self.pauses = self.block_spins = self.block_misses = 0
 
 
 class StdinReader:
