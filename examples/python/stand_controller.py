@@ -35,7 +35,6 @@ PROTOCOL_VERSION = 1
 SPIN_ENV = "FOOTING_SPIN_US"
 READ_BYTES = 65536  # a Linux pipe's default capacity (pipe(7))
 
-
 TELEMETRY_NAMES = ["stand.heightError_m", "stand.tiltError"]
 
 
