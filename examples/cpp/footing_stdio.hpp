@@ -1,7 +1,7 @@
 // footing_stdio.hpp — a single-header client of the Footing process protocol, version 1
 // (docs/protocol.md): the JSON-line handshake (hello in, ready out) and the binary f64 tick
-// frames (FOOTOBS1 in, FOOTACT1 out, FOOTBYE1 or end of file to stop). C++17, the standard
-// library only. A controller fills Action from Observation; run() does the wire:
+// frames (FOOTOBS1 in, FOOTACT1 out, FOOTBYE1 or end of file to stop). C++17: the standard
+// library, and POSIX read/poll/fcntl for stdin. A controller fills Action from Observation; run() does the wire:
 //
 //   struct MyController { explicit MyController(const footing::Hello&); void tick(const footing::Observation&, footing::Action&); };
 //   int main() { return footing::run<MyController>({"my.telemetry"}, "my-controller 1.0"); }
@@ -12,8 +12,6 @@
 // never) stdin is read without blocking in a loop, then the wait sleeps in poll(). On an idle
 // machine this saves the ~30 µs an idle core takes to wake, at the price of a busy core while
 // polling (docs/protocol.md, "Latency on idle machines"). FOOTING_SPIN_US=0 turns it off.
-//
-// POSIX (poll, read, fcntl) for the wait.
 
 #pragma once
 
