@@ -1,7 +1,8 @@
 // footing_stdio.hpp — a single-header client of the Footing process protocol, version 1
 // (docs/protocol.md): the JSON-line handshake (hello in, ready out) and the binary f64 tick
 // frames (FOOTOBS1 in, FOOTACT1 out, FOOTBYE1 or end of file to stop). C++17: the standard
-// library, and POSIX read/poll/fcntl for stdin. A controller fills Action from Observation; run() does the wire:
+// library, and POSIX read/poll/fcntl for stdin. A controller fills Action from Observation;
+// run() does the wire:
 //
 //   struct MyController { explicit MyController(const footing::Hello&); void tick(const footing::Observation&, footing::Action&); };
 //   int main() { return footing::run<MyController>({"my.telemetry"}, "my-controller 1.0"); }
