@@ -331,15 +331,14 @@ export class ProcessBuild implements Controller {
   };
 
   private spinAllowed(): boolean {
-    return (
+    const possible =
       this.stdoutFd >= 0 &&
       coresForSpinning() &&
       // The obs is still queued in the stream (a full pipe): only the event loop can send it.
       this.child.stdin.writableLength === 0 &&
       // Bytes the stream has already read come before anything read from the descriptor.
-      this.child.stdout.readableLength === 0 &&
-      this.spin.wanted()
-    );
+      this.child.stdout.readableLength === 0;
+    return this.spin.wanted(possible);
   }
 
   private childEnv(extra: Record<string, string> | undefined): NodeJS.ProcessEnv {
@@ -399,6 +398,7 @@ export class ProcessBuild implements Controller {
       return;
     }
     this.loopTime_us = Number(process.hrtime.bigint() - this.tickStart_ns) / 1000;
+    this.spin.answered(this.loopTime_us);
     this.reportedCompute_us = (this.channel as TickChannel).reportedCompute_us;
     this.tickCount++;
     this.state = 'idle';

@@ -31,18 +31,31 @@ export interface SpinOutcome {
 const EVENT_LOOP_EVERY_ms = 10;
 
 /**
- * The back-off. A missed spin (the answer came after the window) cost a core for nothing and, on
- * a full machine, may have kept the build from the core it needed, so its tick can end later than
- * without the spin. Misses are therefore kept under 1 % of ticks, the tail a p99 reads: spins are
- * counted in blocks of SPIN_BLOCK, and a block's second miss (1 in 128, 0.8 %) pauses the spin for
- * SPIN_BLOCK × 2, × 4 … ticks (up to × MAX_PAUSE_DOUBLINGS), after which a new block probes again;
- * a block with at most one miss resets the pause. The C++ example missed 53–65 of ~20 000 spins
- * on the VM at load average 2.3 (0.3 %); the Python one 11 % at the same load, so its spin soon
- * stays off there (docs/protocol.md, "Latency on idle machines").
+ * The back-off, rule 1: misses. A missed spin (the answer came after the window) cost a core for
+ * nothing and, on a full machine, may have kept the build from the core it needed, so its tick
+ * can end later than without the spin. Misses are therefore kept under 1 % of ticks, the tail a
+ * p99 reads: spins are counted in blocks of SPIN_BLOCK, and a block's second miss (1 in 128,
+ * 0.8 %) pauses the spin for SPIN_BLOCK × 2, × 4 … ticks (up to × 2^MAX_PAUSE_DOUBLINGS), after
+ * which a new block tries again; a good block resets the pause. The C++ example missed 53–65 of
+ * ~20 000 spins on the VM at load average 2.3 (0.3 %); the Python one 11 % at the same load.
  */
 const SPIN_BLOCK = 128;
 const MISSES_PER_BLOCK = 1;
 const MAX_PAUSE_DOUBLINGS = 5;
+
+/**
+ * Rule 2: the spin must pay. A spin that is answered can still be slower than not spinning: with
+ * both cores busy, a build that does not spin itself wakes faster onto the core a sleeping
+ * harness frees than next to a spinning one (the C++ example without its own spin: p50 27 µs
+ * spun against 7.4 µs waited, docs/protocol.md). So after the first good block (and after each
+ * pause) and then every PROBE_EVERY_BLOCKS good blocks, PROBE_TICKS ticks wait without spinning,
+ * and the median of their loop times is compared with that of the last COMPARED_SPINS spun
+ * ticks: unless the spun median is the lower, the spin pauses as after misses. Probes are
+ * 8 of every ~2 000 ticks (0.4 %: below the 1 % a p99 reads).
+ */
+const PROBE_TICKS = 8;
+const PROBE_EVERY_BLOCKS = 16;
+const COMPARED_SPINS = 32;
 
 /** One read takes whatever the pipe holds; 64 KiB is a Linux pipe's default capacity (pipe(7)). */
 const READ_BYTES = 64 * 1024;
@@ -73,37 +86,106 @@ function isNonBlocking(fd: number): boolean {
   }
 }
 
-/** When to spin, from how the last spins went (the back-off above). */
+type TickKind = 'spun' | 'probe' | 'other';
+
+/** When to spin, from how the last spins went (the two rules above). Allocation-free. */
 export class SpinPacing {
-  /** Ticks left without a spin; spins and misses in the current block; pauses since a good block. */
+  /** Ticks left in a pause; probe ticks left to wait without spinning. */
   private skip = 0;
+  private probeLeft = 0;
   private blockSpins = 0;
   private blockMisses = 0;
+  /** Pauses since the spin last paid; good blocks since the last probe (primed: probe after the first). */
   private pauses = 0;
+  private blocksSinceProbe = PROBE_EVERY_BLOCKS - 1;
+  private current: TickKind = 'other';
+  private readonly spun_us = new Float64Array(COMPARED_SPINS);
+  private spunCount = 0;
+  private readonly probe_us = new Float64Array(PROBE_TICKS);
+  private probeCount = 0;
+  private readonly scratch = new Float64Array(COMPARED_SPINS);
 
-  /** Whether this tick may spin (false during a pause, which it counts down). */
-  wanted(): boolean {
-    if (this.skip > 0) {
-      this.skip--;
+  /**
+   * Whether this tick may spin; `possible` says whether anything else forbids it (no descriptor,
+   * too few cores…), in which case the tick counts for neither rule.
+   */
+  wanted(possible = true): boolean {
+    if (!possible) {
+      this.current = 'other';
       return false;
     }
+    if (this.probeLeft > 0) {
+      this.probeLeft--;
+      this.current = 'probe';
+      return false;
+    }
+    if (this.skip > 0) {
+      this.skip--;
+      this.current = 'other';
+      return false;
+    }
+    this.current = 'spun';
     return true;
   }
 
-  /** Counts one spin: settled during it, or missed. */
+  /** Counts one spin: settled during it, or missed (rule 1). */
   record(settled: boolean): void {
     this.blockSpins++;
     if (!settled && ++this.blockMisses > MISSES_PER_BLOCK) {
-      this.pauses++;
-      this.skip = SPIN_BLOCK << Math.min(this.pauses, MAX_PAUSE_DOUBLINGS);
-      this.blockSpins = 0;
-      this.blockMisses = 0;
+      this.pause();
     } else if (this.blockSpins === SPIN_BLOCK) {
-      this.pauses = 0;
       this.blockSpins = 0;
       this.blockMisses = 0;
+      if (++this.blocksSinceProbe >= PROBE_EVERY_BLOCKS) {
+        this.blocksSinceProbe = 0;
+        this.probeLeft = PROBE_TICKS;
+        this.probeCount = 0;
+      }
     }
   }
+
+  /** The loop time of the tick wanted() last decided on, once it is answered (rule 2). */
+  answered(loopTime_us: number): void {
+    if (this.current === 'spun') {
+      this.spun_us[this.spunCount++ % COMPARED_SPINS] = loopTime_us;
+    } else if (this.current === 'probe') {
+      this.probe_us[this.probeCount++] = loopTime_us;
+      if (this.probeCount === PROBE_TICKS) this.judge();
+    }
+    this.current = 'other';
+  }
+
+  private judge(): void {
+    const spun = Math.min(this.spunCount, COMPARED_SPINS);
+    if (spun > 0 && median(this.spun_us, spun, this.scratch) < median(this.probe_us, PROBE_TICKS, this.scratch)) {
+      this.pauses = 0; // the spin pays: pauses start short again
+    } else {
+      this.pause();
+    }
+  }
+
+  private pause(): void {
+    this.pauses++;
+    this.skip = SPIN_BLOCK << Math.min(this.pauses, MAX_PAUSE_DOUBLINGS);
+    this.blockSpins = 0;
+    this.blockMisses = 0;
+    this.probeLeft = 0;
+    this.spunCount = 0;
+    // The first block after the pause is judged at once.
+    this.blocksSinceProbe = PROBE_EVERY_BLOCKS - 1;
+  }
+}
+
+/** Median of values[0, count) (insertion sort into scratch: count is at most a few dozen). */
+function median(values: Float64Array, count: number, scratch: Float64Array): number {
+  for (let i = 0; i < count; i++) {
+    const x = values[i];
+    let j = i - 1;
+    for (; j >= 0 && scratch[j] > x; j--) scratch[j + 1] = scratch[j];
+    scratch[j + 1] = x;
+  }
+  const half = count >> 1;
+  return count % 2 === 1 ? scratch[half] : (scratch[half - 1] + scratch[half]) / 2;
 }
 
 export class AnswerSpin {
@@ -119,11 +201,17 @@ export class AnswerSpin {
   }
 
   /**
-   * Whether this tick may spin: not during a pause (SPIN_BLOCK above), so a build slower than the
-   * window, or a machine too busy to run both sides at once, soon waits exactly as without it.
+   * Whether this tick may spin (`possible`: nothing else forbids it): not during a pause or a
+   * probe (SpinPacing), so a build slower than the window, or a machine where the spin does not
+   * pay, soon waits exactly as without it.
    */
-  wanted(): boolean {
-    return this.window_ms > 0 && this.pacing.wanted();
+  wanted(possible: boolean): boolean {
+    return this.window_ms > 0 && this.pacing.wanted(possible);
+  }
+
+  /** Every answered tick's loop time, for the pacing's comparison of spun and waited ticks. */
+  answered(loopTime_us: number): void {
+    if (this.window_ms > 0) this.pacing.answered(loopTime_us);
   }
 
   /**

@@ -144,36 +144,53 @@ describe('the answer spin', () => {
     expect(spin.dueForEventLoop()).toBe(false);
   });
 
-  it('pauses after a second miss in a block of 128 spins, for 256, 512 … 4096 ticks, and forgives after a good block', () => {
+  /** Drives a pacing: spun ticks take spun_us, waited ones waited_us; miss(k) says which spins miss. */
+  function drive(pacing: SpinPacing, ticks: number, spun_us: number, waited_us: number, miss: (spin: number) => boolean = () => false) {
+    const runs: number[] = []; // lengths of the runs of ticks without a spin
+    let spins = 0;
+    let waiting = 0;
+    for (let k = 0; k < ticks; k++) {
+      if (pacing.wanted()) {
+        if (waiting > 0) runs.push(waiting);
+        waiting = 0;
+        pacing.record(!miss(spins++));
+        pacing.answered(spun_us);
+      } else {
+        waiting++;
+        pacing.answered(waited_us);
+      }
+    }
+    if (waiting > 0) runs.push(waiting);
+    return { spins, runs };
+  }
+
+  it('keeps spinning while it pays and misses stay at one per 128 spins, probing 8 waited ticks after the first block', () => {
+    const { spins, runs } = drive(new SpinPacing(), 10 * 128 + 8, 10, 80, (k) => k % 128 === 5);
+    expect(spins).toBe(10 * 128);
+    expect(runs).toEqual([8]);
+  });
+
+  it('pauses after a second miss in a block, for 256, 512 … 4096 ticks, and starts short again once the spin pays', () => {
     const pacing = new SpinPacing();
-    /** Ticks until the pacing wants a spin again. */
-    const pause = (): number => {
-      let k = 0;
-      while (!pacing.wanted()) k++;
-      return k;
-    };
-    // One miss per block is allowed: 10 blocks, each with one miss, never pause.
-    for (let k = 0; k < 10 * 128; k++) {
-      expect(pacing.wanted()).toBe(true);
-      pacing.record(k % 128 !== 5);
-    }
-    const pauses: number[] = [];
-    for (let p = 0; p < 7; p++) {
-      pacing.record(false);
-      pacing.record(false);
-      pauses.push(pause());
-    }
-    expect(pauses).toEqual([256, 512, 1024, 2048, 4096, 4096, 4096]);
-    // A whole block with at most one miss resets the pause to its shortest.
-    for (let k = 0; k < 128; k++) pacing.record(k !== 0);
-    pacing.record(false);
-    pacing.record(false);
-    expect(pause()).toBe(256);
+    // Every spin misses: each pause follows the two misses that start the block.
+    const { runs } = drive(pacing, 2 + 256 + 2 + 512 + 2 + 1024 + 2 + 2048 + 2 + 4096 + 2 + 4096 + 2 + 4096, 10, 80, () => true);
+    expect(runs).toEqual([256, 512, 1024, 2048, 4096, 4096, 4096]);
+    // A block that pays (fast spins, one miss) and its probe reset the pause to its shortest.
+    const good = drive(pacing, 128 + 8, 10, 80, (k) => k === 0);
+    expect(good.runs).toEqual([8]);
+    expect(drive(pacing, 2 + 256 + 1, 10, 80, () => true).runs).toEqual([256]);
+  });
+
+  it('pauses a spin that is answered but slower than waiting (the probe of 8 waited ticks wins)', () => {
+    // No miss at all, but spun ticks take 30 µs and waited ones 8 µs: after each block and its
+    // probe, a pause of 256, then 512 … ticks.
+    const { runs } = drive(new SpinPacing(), 128 + 8 + 256 + 128 + 8 + 512 + 128 + 8 + 1024 + 1, 30, 8);
+    expect(runs).toEqual([8 + 256, 8 + 512, 8 + 1024]);
   });
 
   it('never wants to spin with a window of 0', () => {
     const spin = new AnswerSpin(0);
-    for (let k = 0; k < 3; k++) expect(spin.wanted()).toBe(false);
+    for (let k = 0; k < 3; k++) expect(spin.wanted(true)).toBe(false);
   });
 
   // Each mode breaks at tick 2, while the harness spins (or waits) for that answer.
