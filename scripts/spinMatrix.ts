@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { createAction, createObservation } from '../harness/builds/interface.js';
 import { openBuild } from '../harness/builds/loader.js';
-import { PROCESS_BUILD_DEFAULTS } from '../harness/builds/process/bridge.js';
+import { PROCESS_BUILD_DEFAULTS, type ProcessBuild } from '../harness/builds/process/bridge.js';
 import { parseBuildSpec } from '../harness/builds/spec.js';
 import { controllerSetup } from '../harness/run/runOne.js';
 import { loadScenarioFile } from '../harness/scenario/index.js';
@@ -59,12 +59,13 @@ for (let round = 1; round <= rounds; round++) {
     }
     const wall_ms = performance.now() - start_ms;
     const used = process.cpuUsage(cpu);
+    const spins = (build as ProcessBuild).spinStats;
     await build.close();
     overhead_us.sort();
     const p = (q: number) => overhead_us[Math.min(ticks - 1, Math.floor(q * ticks))].toFixed(1);
     const cpuShare = (used.user + used.system) / 1000 / wall_ms;
     console.log(
-      `round ${round} ${cell.name.padEnd(14)} p50 ${p(0.5).padStart(6)} µs  p99 ${p(0.99).padStart(6)} µs  harness CPU ${(100 * cpuShare).toFixed(0)} %  ${machine()}`,
+      `round ${round} ${cell.name.padEnd(14)} p50 ${p(0.5).padStart(6)} µs  p99 ${p(0.99).padStart(6)} µs  harness CPU ${(100 * cpuShare).toFixed(0)} %  spins ${spins.answered} answered, ${spins.missed} missed  ${machine()}`,
     );
   }
 }

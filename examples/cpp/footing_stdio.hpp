@@ -249,8 +249,8 @@ inline double spinFromEnvironment() {
 }
 
 /**
- * The harness's back-off (harness/builds/process/spin.ts): in each block of 128 spins one may
- * miss; a second miss pauses the spin for 256, 512 … 4096 waits, a good block resets the pause.
+ * The harness's miss rule (harness/builds/process/spin.ts): in each block of 128 spins three may
+ * miss; a fourth pauses the spin for 256, 512 … 4096 waits, a good block resets the pause.
  * A machine too busy to run both sides at once soon gets plain sleeping waits back.
  */
 class SpinPacing {
@@ -264,7 +264,7 @@ class SpinPacing {
   }
   void record(bool seen) {
     ++blockSpins_;
-    if (!seen && ++blockMisses_ > 1) {
+    if (!seen && ++blockMisses_ > 3) {
       ++pauses_;
       skip_ = 128 << std::min(pauses_, 5);
       blockSpins_ = blockMisses_ = 0;

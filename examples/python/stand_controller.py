@@ -176,12 +176,12 @@ def decode_f64_observation(values, n):
 
 
 class SpinPacing:
-    """The harness's back-off (harness/builds/process/spin.ts): in each block of 128 spins one may
-    miss; a second miss pauses the spin for 256, 512 ... 4096 waits, a good block resets the
+    """The harness's miss rule (harness/builds/process/spin.ts): in each block of 128 spins three
+    may miss; a fourth pauses the spin for 256, 512 ... 4096 waits, a good block resets the
     pause. A machine too busy to run both sides at once soon gets plain sleeping waits back."""
 
     BLOCK = 128
-    MISSES_PER_BLOCK = 1
+    MISSES_PER_BLOCK = 3
     MAX_PAUSE_DOUBLINGS = 5
 
     def __init__(self):

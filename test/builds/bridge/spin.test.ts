@@ -164,28 +164,28 @@ describe('the answer spin', () => {
     return { spins, runs };
   }
 
-  it('keeps spinning while it pays and misses stay at one per 128 spins, probing 8 waited ticks after the first block', () => {
-    const { spins, runs } = drive(new SpinPacing(), 10 * 128 + 8, 10, 80, (k) => k % 128 === 5);
+  it('keeps spinning while it pays and misses stay at three per 128 spins, probing 6 waited ticks after the first block and every 8 blocks', () => {
+    const { spins, runs } = drive(new SpinPacing(), 10 * 128 + 2 * 6, 10, 80, (k) => [5, 50, 127].includes(k % 128));
     expect(spins).toBe(10 * 128);
-    expect(runs).toEqual([8]);
+    expect(runs).toEqual([6, 6]);
   });
 
-  it('pauses after a second miss in a block, for 256, 512 … 4096 ticks, and starts short again once the spin pays', () => {
+  it('pauses at the fourth miss in a block, for 256, 512 … 4096 ticks, and starts short again once the spin pays', () => {
     const pacing = new SpinPacing();
-    // Every spin misses: each pause follows the two misses that start the block.
-    const { runs } = drive(pacing, 2 + 256 + 2 + 512 + 2 + 1024 + 2 + 2048 + 2 + 4096 + 2 + 4096 + 2 + 4096, 10, 80, () => true);
+    // Every spin misses: each pause follows the four misses that start the block.
+    const { runs } = drive(pacing, 4 + 256 + 4 + 512 + 4 + 1024 + 4 + 2048 + 4 + 4096 + 4 + 4096 + 4 + 4096, 10, 80, () => true);
     expect(runs).toEqual([256, 512, 1024, 2048, 4096, 4096, 4096]);
-    // A block that pays (fast spins, one miss) and its probe reset the pause to its shortest.
-    const good = drive(pacing, 128 + 8, 10, 80, (k) => k === 0);
-    expect(good.runs).toEqual([8]);
-    expect(drive(pacing, 2 + 256 + 1, 10, 80, () => true).runs).toEqual([256]);
+    // A block that pays (fast spins, three misses) and its probe reset the pause to its shortest.
+    const good = drive(pacing, 128 + 6, 10, 80, (k) => k < 3);
+    expect(good.runs).toEqual([6]);
+    expect(drive(pacing, 4 + 256 + 1, 10, 80, () => true).runs).toEqual([256]);
   });
 
-  it('pauses a spin that is answered but slower than waiting (the probe of 8 waited ticks wins)', () => {
+  it('pauses a spin that is answered but slower than waiting (the probe of 6 waited ticks wins)', () => {
     // No miss at all, but spun ticks take 30 µs and waited ones 8 µs: after each block and its
     // probe, a pause of 256, then 512 … ticks.
-    const { runs } = drive(new SpinPacing(), 128 + 8 + 256 + 128 + 8 + 512 + 128 + 8 + 1024 + 1, 30, 8);
-    expect(runs).toEqual([8 + 256, 8 + 512, 8 + 1024]);
+    const { runs } = drive(new SpinPacing(), 128 + 6 + 256 + 128 + 6 + 512 + 128 + 6 + 1024 + 1, 30, 8);
+    expect(runs).toEqual([6 + 256, 6 + 512, 6 + 1024]);
   });
 
   it('never wants to spin with a window of 0', () => {
