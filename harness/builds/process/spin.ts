@@ -50,14 +50,16 @@ const MAX_PAUSE_DOUBLINGS = 5;
  * both cores busy, a build that does not spin itself wakes faster onto the core a sleeping
  * harness frees than next to a spinning one (the Python example without its own spin, both cores
  * busy: p50 29.6 µs spun against 11.4 µs waited in one round, docs/protocol.md). So after the
- * first good block (and after each pause) and then every PROBE_EVERY_BLOCKS good blocks,
- * PROBE_TICKS ticks wait without spinning, and the median of their loop times is compared with
- * that of the last COMPARED_SPINS spun ticks: unless the spun median is the lower, the spin
- * pauses as after misses. Probes are 6 of every ~1 030 ticks (0.6 %: below the 1 % a p99 reads,
- * since on an idle machine a probe tick is a slow one).
+ * first good block (and after each pause), PROBE_TICKS ticks wait without spinning, and the
+ * median of their loop times is compared with that of the last COMPARED_SPINS spun ticks: unless
+ * the spun median is the lower, the spin pauses as after misses (and the first block after the
+ * pause is judged again). While it pays, the next probe comes 16, then every 32 good blocks
+ * later: on an idle machine a probe tick is a slow one, and probes then stay at 6 in ~4 100
+ * ticks (0.15 %, far below the 1 % a p99 reads).
  */
 const PROBE_TICKS = 6;
-const PROBE_EVERY_BLOCKS = 8;
+const FIRST_PROBE_EVERY_BLOCKS = 8;
+const MAX_PROBE_EVERY_BLOCKS = 32;
 const COMPARED_SPINS = 32;
 
 /** One read takes whatever the pipe holds; 64 KiB is a Linux pipe's default capacity (pipe(7)). */
@@ -98,9 +100,10 @@ export class SpinPacing {
   private probeLeft = 0;
   private blockSpins = 0;
   private blockMisses = 0;
-  /** Pauses since the spin last paid; good blocks since the last probe (primed: probe after the first). */
+  /** Pauses since the spin last paid; good blocks since the last probe (primed: probe after the first), and between probes. */
   private pauses = 0;
-  private blocksSinceProbe = PROBE_EVERY_BLOCKS - 1;
+  private probeEvery = FIRST_PROBE_EVERY_BLOCKS;
+  private blocksSinceProbe = FIRST_PROBE_EVERY_BLOCKS - 1;
   private current: TickKind = 'other';
   private readonly spun_us = new Float64Array(COMPARED_SPINS);
   private spunCount = 0;
@@ -139,7 +142,7 @@ export class SpinPacing {
     } else if (this.blockSpins === SPIN_BLOCK) {
       this.blockSpins = 0;
       this.blockMisses = 0;
-      if (++this.blocksSinceProbe >= PROBE_EVERY_BLOCKS) {
+      if (++this.blocksSinceProbe >= this.probeEvery) {
         this.blocksSinceProbe = 0;
         this.probeLeft = PROBE_TICKS;
         this.probeCount = 0;
@@ -161,7 +164,9 @@ export class SpinPacing {
   private judge(): void {
     const spun = Math.min(this.spunCount, COMPARED_SPINS);
     if (spun > 0 && median(this.spun_us, spun, this.scratch) < median(this.probe_us, PROBE_TICKS, this.scratch)) {
-      this.pauses = 0; // the spin pays: pauses start short again
+      // The spin pays: pauses start short again, probes come less often.
+      this.pauses = 0;
+      this.probeEvery = Math.min(2 * this.probeEvery, MAX_PROBE_EVERY_BLOCKS);
     } else {
       this.pause();
     }
@@ -174,8 +179,9 @@ export class SpinPacing {
     this.blockMisses = 0;
     this.probeLeft = 0;
     this.spunCount = 0;
-    // The first block after the pause is judged at once.
-    this.blocksSinceProbe = PROBE_EVERY_BLOCKS - 1;
+    // The first block after the pause is judged at once, and probes come often again.
+    this.probeEvery = FIRST_PROBE_EVERY_BLOCKS;
+    this.blocksSinceProbe = FIRST_PROBE_EVERY_BLOCKS - 1;
   }
 }
 

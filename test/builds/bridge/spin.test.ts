@@ -164,10 +164,10 @@ describe('the answer spin', () => {
     return { spins, runs };
   }
 
-  it('keeps spinning while it pays and misses stay at three per 128 spins, probing 6 waited ticks after the first block and every 8 blocks', () => {
-    const { spins, runs } = drive(new SpinPacing(), 10 * 128 + 2 * 6, 10, 80, (k) => [5, 50, 127].includes(k % 128));
-    expect(spins).toBe(10 * 128);
-    expect(runs).toEqual([6, 6]);
+  it('keeps spinning while it pays and misses stay at three per 128 spins, probing 6 waited ticks after blocks 1, 17, 49, 81 …', () => {
+    const { spins, runs } = drive(new SpinPacing(), 81 * 128 + 4 * 6, 10, 80, (k) => [5, 50, 127].includes(k % 128));
+    expect(spins).toBe(81 * 128);
+    expect(runs).toEqual([6, 6, 6, 6]);
   });
 
   it('pauses at the fourth miss in a block, for 256, 512 … 4096 ticks, and starts short again once the spin pays', () => {
