@@ -38,9 +38,8 @@ const EVENT_LOOP_EVERY_ms = 10;
  * tries again; a good block resets the pause. The allowance is the natural tail of a healthy
  * spin: a sleeping Python example answers after more than 100 µs in about 1 % of ticks on the
  * idle VM (its p99 is ~150 µs), and a one-miss allowance left that spin on for only 1 528 of
- * 10 000 ticks; under
- * load misses rise to 11 % (the Python example at load average 2.3), the C++ example's stay at
- * 0.3 %.
+ * 10 000 ticks; under load misses rise to 11 % (the Python example at load average 2.3), the
+ * C++ example's stay at 0.3 %.
  */
 const SPIN_BLOCK = 128;
 const MISSES_PER_BLOCK = 3;
