@@ -1,15 +1,23 @@
 // footing_stdio.hpp — a single-header client of the Footing process protocol, version 1
 // (docs/protocol.md): the JSON-line handshake (hello in, ready out) and the binary f64 tick
-// frames (FOOTOBS1 in, FOOTACT1 out, FOOTBYE1 or end of file to stop). C++17, the standard
-// library only. A controller fills Action from Observation; run() does the wire:
+// frames (FOOTOBS1 in, FOOTACT1 out, FOOTBYE1 or end of file to stop). C++17: the standard
+// library, and POSIX read/poll/fcntl for stdin. A controller fills Action from Observation;
+// run() does the wire:
 //
 //   struct MyController { explicit MyController(const footing::Hello&); void tick(const footing::Observation&, footing::Action&); };
 //   int main() { return footing::run<MyController>({"my.telemetry"}, "my-controller 1.0"); }
 //
 // The tick path allocates nothing: the frames and views are sized once from the hello.
+//
+// Waiting for the next frame: for FOOTING_SPIN_US microseconds (set by the harness; 0 or unset:
+// never) stdin is read without blocking in a loop, then the wait sleeps in poll(). On an idle
+// machine this saves the ~30 µs an idle core takes to wake, at the price of a busy core while
+// polling (docs/protocol.md, "Latency on idle machines"). FOOTING_SPIN_US=0 turns it off.
 
 #pragma once
 
+#include <algorithm>
+#include <cerrno>
 #include <chrono>
 #include <cmath>
 #include <cstdint>
@@ -22,6 +30,10 @@
 #include <stdexcept>
 #include <string>
 #include <vector>
+
+#include <fcntl.h>
+#include <poll.h>
+#include <unistd.h>
 
 namespace footing {
 
@@ -223,10 +235,142 @@ inline void requireLittleEndian() {
   if (*reinterpret_cast<const unsigned char*>(&probe) != 1) throw std::runtime_error("footing_stdio.hpp: big-endian machines need a byte swap");
 }
 
-inline Hello readHello(std::FILE* in) {
-  std::string line;
-  for (int c = std::fgetc(in); c != EOF && c != '\n'; c = std::fgetc(in)) line += static_cast<char>(c);
-  if (!line.empty() && line.back() == '\r') line.pop_back();
+// ---- Reading stdin: straight from the descriptor (no stdio buffer that could hide bytes from
+// poll()), spinning on a non-blocking read for a while before sleeping in poll().
+
+/** FOOTING_SPIN_US from the environment: 0 (unset too) to 10000 µs. */
+inline double spinFromEnvironment() {
+  const char* text = std::getenv("FOOTING_SPIN_US");
+  if (text == nullptr || *text == '\0') return 0.0;
+  char* end = nullptr;
+  const double value = std::strtod(text, &end);
+  if (*end != '\0' || !(value >= 0.0 && value <= 10000.0)) throw std::runtime_error(std::string("FOOTING_SPIN_US = '") + text + "': expected microseconds from 0 (never spin) to 10000");
+  return value;
+}
+
+/**
+ * The harness's miss rule (harness/builds/process/spin.ts): in each block of 128 spins three may
+ * miss; a fourth pauses the spin for 256, 512 … 4096 waits, a good block resets the pause.
+ * A machine too busy to run both sides at once soon gets plain sleeping waits back.
+ */
+class SpinPacing {
+ public:
+  bool wanted() {
+    if (skip_ > 0) {
+      --skip_;
+      return false;
+    }
+    return true;
+  }
+  void record(bool seen) {
+    ++blockSpins_;
+    if (!seen && ++blockMisses_ > 3) {
+      ++pauses_;
+      skip_ = 128 << std::min(pauses_, 5);
+      blockSpins_ = blockMisses_ = 0;
+    } else if (blockSpins_ == 128) {
+      pauses_ = blockSpins_ = blockMisses_ = 0;
+    }
+  }
+
+ private:
+  int skip_ = 0;
+  int blockSpins_ = 0;
+  int blockMisses_ = 0;
+  int pauses_ = 0;
+};
+
+class StdinReader {
+ public:
+  StdinReader(int fd, double spin_us) : fd_(fd), spin_(std::chrono::nanoseconds(static_cast<long long>(spin_us * 1000.0))) {
+    if (spin_.count() > 0) {
+      flags_ = ::fcntl(fd_, F_GETFL);
+      if (flags_ == -1 || ::fcntl(fd_, F_SETFL, flags_ | O_NONBLOCK) == -1) spin_ = std::chrono::nanoseconds(0);
+    }
+  }
+  // The descriptor may be shared with whoever started the program: its flags go back as they were.
+  ~StdinReader() {
+    if (spin_.count() > 0) ::fcntl(fd_, F_SETFL, flags_);
+  }
+  StdinReader(const StdinReader&) = delete;
+  StdinReader& operator=(const StdinReader&) = delete;
+
+  /** The next line without its newline (and a trailing \r); false at end of input. */
+  bool readLine(std::string& line) {
+    for (;;) {
+      const std::size_t end = pending_.find('\n');
+      if (end != std::string::npos) {
+        line.assign(pending_, 0, end);
+        pending_.erase(0, end + 1);
+        if (!line.empty() && line.back() == '\r') line.pop_back();
+        return true;
+      }
+      char chunk[4096];
+      const long got = readSome(chunk, sizeof chunk);
+      if (got <= 0) return false;
+      pending_.append(chunk, static_cast<std::size_t>(got));
+    }
+  }
+
+  /** Fills buffer[0, size); false at end of input (or a read error). */
+  bool readExactly(unsigned char* buffer, std::size_t size) {
+    std::size_t got = std::min(pending_.size(), size);
+    if (got > 0) {
+      std::memcpy(buffer, pending_.data(), got);
+      pending_.erase(0, got);
+    }
+    while (got < size) {
+      const long k = readSome(buffer + got, size - got);
+      if (k <= 0) return false;
+      got += static_cast<std::size_t>(k);
+    }
+    return true;
+  }
+
+ private:
+  /** At least one byte; 0 at end of input, -1 on an error. */
+  long readSome(void* buffer, std::size_t size) {
+    if (spin_.count() > 0) {
+      long got = tryRead(buffer, size);
+      if (got != -2) return got;
+      if (pacing_.wanted()) {
+        const auto deadline = std::chrono::steady_clock::now() + spin_;
+        bool seen = false;
+        while (!seen && std::chrono::steady_clock::now() < deadline) {
+          got = tryRead(buffer, size);
+          seen = got != -2;
+        }
+        pacing_.record(seen);
+        if (seen) return got;
+      }
+    }
+    for (;;) {
+      const long got = tryRead(buffer, size);
+      if (got != -2) return got;
+      // Nothing yet (the descriptor is non-blocking): sleep until there is.
+      pollfd ready{fd_, POLLIN, 0};
+      if (::poll(&ready, 1, -1) == -1 && errno != EINTR) return -1;
+    }
+  }
+
+  /** read(2): bytes, 0 at end of input, -1 on an error, -2 when nothing is there yet. */
+  long tryRead(void* buffer, std::size_t size) {
+    for (;;) {
+      const ssize_t got = ::read(fd_, buffer, size);
+      if (got >= 0) return static_cast<long>(got);
+      if (errno == EINTR) continue;
+      return errno == EAGAIN || errno == EWOULDBLOCK ? -2 : -1;
+    }
+  }
+
+  int fd_;
+  std::chrono::nanoseconds spin_;
+  int flags_ = 0;
+  SpinPacing pacing_;
+  std::string pending_;  // bytes read past the last line
+};
+
+inline Hello parseHello(const std::string& line) {
   Hello hello;
   hello.message = JsonReader(line).parse();
   const Json& m = hello.message;
@@ -237,6 +381,12 @@ inline Hello readHello(std::FILE* in) {
   hello.physicsStep_s = m["physicsStep_s"].num();
   for (int k = 0; k < 3; ++k) hello.gravity_mps2[k] = m["gravity_mps2"][static_cast<std::size_t>(k)].num();
   return hello;
+}
+
+inline Hello readHello(StdinReader& in) {
+  std::string line;
+  if (!in.readLine(line)) throw std::runtime_error("stdin ended before the hello");
+  return parseHello(line);
 }
 
 inline std::string jsonString(const std::string& s) {
@@ -258,7 +408,8 @@ template <class Controller>
 int run(const std::vector<std::string>& telemetryNames, const std::string& about, std::FILE* in = stdin, std::FILE* out = stdout) {
   try {
     requireLittleEndian();
-    Hello hello = readHello(in);
+    StdinReader reader(fileno(in), spinFromEnvironment());
+    Hello hello = readHello(reader);
     if (!hello.offers("f64")) throw std::runtime_error("the hello does not offer the f64 encoding");
     Controller controller(hello);
     const int n = hello.footCount;
@@ -300,7 +451,7 @@ int run(const std::vector<std::string>& telemetryNames, const std::string& about
     act.telemetry = t > 0 ? &a[2 + 12 * un] : nullptr;
 
     for (;;) {
-      if (std::fread(obsFrame.data(), 1, obsBytes, in) != obsBytes) return 0;  // stdin closed
+      if (!reader.readExactly(obsFrame.data(), obsBytes)) return 0;  // stdin closed
       if (std::memcmp(obsFrame.data(), "FOOTBYE1", 8) == 0) return 0;
       if (std::memcmp(obsFrame.data(), "FOOTOBS1", 8) != 0) throw std::runtime_error("bad frame tag");
       std::memcpy(o.data(), obsFrame.data() + 8, 8 * o.size());

@@ -15,16 +15,25 @@ The handshake is a line of JSON each way. For the ticks the harness offers encod
 build picks one: "f64" (fixed binary frames of little-endian doubles, the fast path, default) or
 "json" (one line of JSON per message; choose it with the build option ?encoding=json). Logs go to
 stderr: stdout carries only protocol.
+
+Waiting for the next message: for FOOTING_SPIN_US microseconds (set by the harness; 0 or unset:
+never) stdin is polled without blocking, then the wait sleeps in select(). On an idle machine this
+saves the ~30 µs an idle core takes to wake, at the price of a busy core while polling
+(docs/protocol.md, "Latency on idle machines"). Run with FOOTING_SPIN_US=0 to turn it off.
 """
 
 import json
 import math
 import os
+import select
 import struct
 import sys
 import time
 
 PROTOCOL_VERSION = 1
+
+SPIN_ENV = "FOOTING_SPIN_US"
+READ_BYTES = 65536  # a Linux pipe's default capacity (pipe(7))
 
 TELEMETRY_NAMES = ["stand.heightError_m", "stand.tiltError"]
 
@@ -166,6 +175,122 @@ def decode_f64_observation(values, n):
     return obs
 
 
+class SpinPacing:
+    """The harness's miss rule (harness/builds/process/spin.ts): in each block of 128 spins three
+    may miss; a fourth pauses the spin for 256, 512 ... 4096 waits, a good block resets the
+    pause. A machine too busy to run both sides at once soon gets plain sleeping waits back."""
+
+    BLOCK = 128
+    MISSES_PER_BLOCK = 3
+    MAX_PAUSE_DOUBLINGS = 5
+
+    def __init__(self):
+        self.skip = 0
+        self.block_spins = 0
+        self.block_misses = 0
+        self.pauses = 0
+
+    def wanted(self):
+        if self.skip > 0:
+            self.skip -= 1
+            return False
+        return True
+
+    def record(self, seen):
+        self.block_spins += 1
+        if not seen:
+            self.block_misses += 1
+        if self.block_misses > self.MISSES_PER_BLOCK:
+            self.pauses += 1
+            self.skip = self.BLOCK << min(self.pauses, self.MAX_PAUSE_DOUBLINGS)
+            self.block_spins = self.block_misses = 0
+        elif self.block_spins == self.BLOCK:
+            self.pauses = self.block_spins = self.block_misses = 0
+
+
+class StdinReader:
+    """Reads stdin's descriptor directly (no Python buffer in between, so nothing read ahead hides
+    from select()): lines for the handshake and the json encoding, exact frames for f64."""
+
+    def __init__(self, fd, spin_us):
+        self.fd = fd
+        self.spin_ns = int(spin_us * 1000)
+        self.pacing = SpinPacing()
+        self.pending = bytearray()  # bytes read past the last line
+        self.chunk = bytearray(READ_BYTES)
+        self.chunk_view = memoryview(self.chunk)
+        if self.spin_ns > 0:
+            os.set_blocking(fd, False)
+
+    def close(self):
+        if self.spin_ns > 0:
+            os.set_blocking(self.fd, True)  # the descriptor may be shared with whoever started us
+
+    def read_into(self, view):
+        """Reads at least one byte into view; 0 at end of input."""
+        if self.spin_ns == 0:
+            return os.readv(self.fd, [view])
+        try:
+            return os.readv(self.fd, [view])
+        except BlockingIOError:
+            pass
+        if self.pacing.wanted():
+            deadline_ns = time.perf_counter_ns() + self.spin_ns
+            while time.perf_counter_ns() < deadline_ns:
+                try:
+                    got = os.readv(self.fd, [view])
+                    self.pacing.record(True)
+                    return got
+                except BlockingIOError:
+                    pass
+            self.pacing.record(False)
+        while True:
+            select.select([self.fd], [], [])
+            try:
+                return os.readv(self.fd, [view])
+            except BlockingIOError:
+                pass  # woken without data (another reader, a spurious wake-up): wait again
+
+    def readline(self):
+        """The next line with its newline (b"" at end of input; a last line without one as is)."""
+        while True:
+            end = self.pending.find(b"\n")
+            if end >= 0:
+                line = bytes(self.pending[:end + 1])
+                del self.pending[:end + 1]
+                return line
+            got = self.read_into(self.chunk_view)
+            if not got:
+                line = bytes(self.pending)
+                self.pending.clear()
+                return line
+            self.pending += self.chunk_view[:got]
+
+    def read_exactly(self, view):
+        """Fills the preallocated view; False at end of input."""
+        got = min(len(self.pending), len(view))
+        if got:
+            view[:got] = self.pending[:got]
+            del self.pending[:got]
+        while got < len(view):
+            k = self.read_into(view[got:])
+            if not k:
+                return False
+            got += k
+        return True
+
+
+def spin_us_from_environment():
+    text = os.environ.get(SPIN_ENV, "0")
+    try:
+        value = float(text)
+    except ValueError:
+        value = -1.0
+    if not (0 <= value <= 10000):
+        raise ValueError("%s = %r: expected microseconds from 0 (never spin) to 10000" % (SPIN_ENV, text))
+    return value
+
+
 def run_json(stdin, stdout, controller):
     while True:
         line = stdin.readline()
@@ -182,17 +307,6 @@ def run_json(stdin, stdout, controller):
         action = controller.tick(message)
         action["compute_us"] = (time.perf_counter_ns() - start_ns) / 1000
         send(stdout, action)
-
-
-def read_exactly(stream, view):
-    """Fills the preallocated view from the stream; False at end of input."""
-    got = 0
-    while got < len(view):
-        k = stream.readinto(view[got:])
-        if not k:
-            return False
-        got += k
-    return True
 
 
 def write_all(fd, view):
@@ -214,7 +328,7 @@ def run_f64(stdin, stdout, controller, telemetry_count):
     stdout.flush()  # the ready line went through the text stream; frames bypass it
     out_fd = stdout.fileno()
     while True:
-        if not read_exactly(stdin, obs_view):
+        if not stdin.read_exactly(obs_view):
             return 0  # the harness closed our stdin
         fields = obs_frame.unpack_from(obs_buffer)
         if fields[0] == b"FOOTBYE1":
@@ -232,8 +346,14 @@ def run_f64(stdin, stdout, controller, telemetry_count):
 
 
 def main():
-    stdin = sys.stdin.buffer
-    stdout = sys.stdout
+    stdin = StdinReader(sys.stdin.fileno(), spin_us_from_environment())
+    try:
+        return serve(stdin, sys.stdout)
+    finally:
+        stdin.close()
+
+
+def serve(stdin, stdout):
     hello = json.loads(stdin.readline())
     if hello.get("type") != "hello" or hello.get("protocol") != PROTOCOL_VERSION:
         sys.stderr.write("stand_controller: expected a protocol %d hello, got %r\n" % (PROTOCOL_VERSION, hello))

@@ -86,14 +86,17 @@ export async function measurePairedLoopTime(
   options: PairedLoopTimeOptions = {},
 ): Promise<PairedTiming> {
   const timing: PairedTimingOptions = { ...DEFAULT_PAIRED_TIMING, ...options };
+  // No answer spin (unless asked): whether a spin engages depends on the machine's load (its
+  // back-off) and would differ between the two sides, so the ratio would measure the machine.
+  const openOptions: OpenBuildOptions = { spin_us: 0, ...options.openOptions };
   const opened: OpenedBuild[] = [];
   try {
     const streams: PairedStream[] = [];
     for (const { scenario, observations } of recordings) {
       const setup = controllerSetup(scenario);
-      const base = await openBuild(baseline, setup, options.openOptions);
+      const base = await openBuild(baseline, setup, openOptions);
       opened.push(base);
-      const cand = await openBuild(candidate, setup, options.openOptions);
+      const cand = await openBuild(candidate, setup, openOptions);
       opened.push(cand);
       const footCount = scenario.plant.robot.hips_m.length;
       streams.push({

@@ -23,7 +23,8 @@ export interface Controller {
   readonly telemetryNames: readonly string[];
   /**
    * Reads obs, writes every field of action. Must not allocate. In-process builds return
-   * nothing; process builds return a promise that settles when the build's answer arrived.
+   * nothing; process builds return nothing when the answer came during their answer spin, else a
+   * promise that settles when it arrived.
    */
   tick(obs: Observation, action: Action): void | Promise<void>;
   /**

@@ -23,7 +23,10 @@ export interface OpenedBuild extends Controller {
   readonly pid?: number;
   /** Tick encoding the process build chose (process builds). */
   readonly encoding?: WireEncoding;
-  /** Rejects/throws a BuildFailure when the build misbehaves; returns a promise for process builds. */
+  /**
+   * Rejects/throws a BuildFailure when the build misbehaves; returns a promise for process builds
+   * whose answer was not there by the end of their answer spin (process/spin.ts).
+   */
   tick(obs: Observation, action: Action): void | Promise<void>;
   close(): Promise<void>;
 }

@@ -25,7 +25,7 @@ export interface RunTask {
   trace: boolean;
   /** Decimation of the trace (every n-th tick). */
   traceEveryNth?: number;
-  buildOptions?: Pick<OpenBuildOptions, 'handshakeTimeout_ms' | 'tickTimeout_ms'>;
+  buildOptions?: Pick<OpenBuildOptions, 'handshakeTimeout_ms' | 'tickTimeout_ms' | 'spin_us'>;
   /** Keep what the build observes in the run's first ticks (the gate's loop-time timing, observed.ts). */
   observe?: ObservationRequest;
 }

@@ -7,6 +7,7 @@
 import { readdirSync, readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { buildContentIdentity } from '../builds/contentIdentity.js';
+import { spinFitsCores } from '../builds/process/bridge.js';
 import type { BuildSpec } from '../builds/spec.js';
 import { removeStaleTemps, writeFileAtomicSync } from '../files/atomic.js';
 import { createErrorRunResult } from '../results/runResult.js';
@@ -126,6 +127,9 @@ export async function runPairs(options: PairRunOptions): Promise<RunResult[]> {
   const progress = createProgress(chooseProgressMode({ quiet: options.quiet }), pending.length, log);
   const timeout = options.runTimeout ?? DEFAULT_RUN_TIMEOUT;
   const pool = createRunPool(jobs);
+  // Each run thread waits on its own process build: a spinning thread on a full machine would
+  // delay the very build it waits for, so the answer spin is off unless every job has two cores.
+  const buildOptions = spinFitsCores(jobs) ? undefined : { spin_us: 0 };
   let interrupted: InterruptSignal | undefined;
   const stopWatching = onInterrupt((signal) => {
     interrupted = signal;
@@ -140,7 +144,7 @@ export async function runPairs(options: PairRunOptions): Promise<RunResult[]> {
         try {
           result = failure
             ? createErrorRunResult(pair.scenario, pair.build.name, { message: failure.message, reason: 'build-failed', stderrTail: failure.outputTail })
-            : await runOnPool(pool, { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth, observe: observeRequest(pair) }, timeout);
+            : await runOnPool(pool, { scenario: pair.scenario, build: pair.build, outDir, trace: options.trace ?? false, traceEveryNth: options.traceEveryNth, observe: observeRequest(pair), buildOptions }, timeout);
         } catch (error) {
           if (error instanceof RunInterruptedError) return; // not saved: --resume runs it
           throw error;

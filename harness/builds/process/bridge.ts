@@ -4,6 +4,7 @@
 // started can be killed together; no path out of this file leaves a process behind.
 
 import { spawn, type ChildProcessWithoutNullStreams } from 'node:child_process';
+import { availableParallelism } from 'node:os';
 import type { Action, Controller, ControllerSetup, Observation } from '../interface.js';
 import { F64TickChannel, F64_AVAILABLE } from './binary.js';
 import type { TickChannel } from './channel.js';
@@ -12,6 +13,7 @@ import { BuildFailure, TailBuffer, type BuildFailureReason } from './failure.js'
 import { newlineFraming, type FrameDecoder, type Framing } from './framing.js';
 import type { MessageProblem, WireEncoding } from './messages.js';
 import { announceGroupGone, announceGroupStarted } from './groups.js';
+import { AnswerSpin, SPIN_ENV, stdoutSpinFd, type SpinOutcome } from './spin.js';
 
 export interface ProcessBuildOptions {
   /** Time from spawn to the ready message. */
@@ -32,6 +34,12 @@ export interface ProcessBuildOptions {
   encodings?: WireEncoding[];
   /** Added to (and overriding) the harness's environment. */
   env?: Record<string, string>;
+  /**
+   * Longest busy-wait for an answer after each obs, microseconds (spin.ts), before the event loop
+   * waits for it; 0 = never. Only when every spinning side can have a core of its own. Default:
+   * the harness's FOOTING_SPIN_US environment variable when set, else PROCESS_BUILD_DEFAULTS.
+   */
+  spin_us?: number;
 }
 
 export const PROCESS_BUILD_DEFAULTS = {
@@ -41,7 +49,17 @@ export const PROCESS_BUILD_DEFAULTS = {
   closeGrace_ms: 1000,
   stderrTail_bytes: 2048,
   maxFrame_bytes: 1 << 20,
+  // Spin-then-block: spinning about as long as blocking costs is the classic choice, never worse
+  // than twice the best in hindsight ("Empirical studies of competitive spinning for a
+  // shared-memory multiprocessor", SOSP 1991). Blocking costs the idle VM's wake-ups, 66–85 µs per
+  // round trip (docs/protocol.md); 100 µs covers that, and the examples' spun answers (overhead
+  // p50 6–12 µs) many times over, while a slower build wastes at most a tenth of a 1 kHz control
+  // period per miss before the back-off (spin.ts) stops the spin.
+  spin_us: 100,
 } as const;
+
+/** Most spin time accepted: ten 1 kHz periods (beyond that a busy-wait is a mistake, not a tuning). */
+export const MAX_SPIN_us = 10_000;
 
 export interface ProcessProgram {
   /** Build name, for messages. */
@@ -57,6 +75,21 @@ type State = 'starting' | 'idle' | 'ticking' | 'closing' | 'failed' | 'closed';
 /** Every live child's pid, so the harness can kill their groups when it exits or is interrupted. */
 const liveBuilds = new Set<ProcessBuild>();
 const FORWARDED_SIGNALS: NodeJS.Signals[] = ['SIGINT', 'SIGTERM', 'SIGHUP'];
+/** Cores this process may run on (fixed for its life; read once, it is a system call). */
+const CORES = availableParallelism();
+
+/**
+ * Spinning takes a core on each side (harness and build): only while every live process build
+ * of this thread has two (the suite runner's threads are counted by the suite, suite.ts).
+ */
+function coresForSpinning(): boolean {
+  return spinFitsCores(liveBuilds.size);
+}
+
+/** Whether `concurrent` process builds ticking at once may all spin: two cores each. */
+export function spinFitsCores(concurrent: number): boolean {
+  return concurrent * 2 <= CORES;
+}
 
 function killAllGroups(): void {
   for (const build of liveBuilds) build.killGroupNow();
@@ -103,7 +136,13 @@ export class ProcessBuild implements Controller {
   /** Tick encoding the build chose in its ready message. */
   encoding: WireEncoding = 'json';
 
+  /** What the answer spin did so far (observable: a build with spin_us 0 never polls). */
+  get spinStats(): Readonly<SpinOutcome> {
+    return this.spin.stats;
+  }
+
   private readonly settings: Required<Omit<ProcessBuildOptions, 'env'>>;
+  private readonly spin: AnswerSpin;
   private readonly child: ChildProcessWithoutNullStreams;
   /** Reads the handshake (always JSON lines); the tick channel takes over after ready. */
   private readonly decoder: FrameDecoder<string>;
@@ -147,14 +186,17 @@ export class ProcessBuild implements Controller {
       maxFrame_bytes: options.maxFrame_bytes ?? PROCESS_BUILD_DEFAULTS.maxFrame_bytes,
       framing: options.framing ?? newlineFraming,
       encodings: options.encodings ?? (F64_AVAILABLE ? ['json', 'f64'] : ['json']),
+      spin_us: options.spin_us ?? spinFromEnvironment(),
     };
+    // Never longer than the tick limit: a build that hangs is caught by the tick timer.
+    this.spin = new AnswerSpin(Math.min(this.settings.spin_us, this.settings.tickTimeout_ms * 1000));
     this.footCount = setup.robot.hips_m.length;
     this.decoder = this.settings.framing.createDecoder(this.settings.maxFrame_bytes);
     this.stderrTail = new TailBuffer(this.settings.stderrTail_bytes);
 
     this.child = spawn(program.program, [...program.args], {
       cwd: program.cwd,
-      env: options.env === undefined ? process.env : { ...process.env, ...options.env },
+      env: this.childEnv(options.env),
       stdio: ['pipe', 'pipe', 'pipe'],
       shell: false,
       detached: true,
@@ -191,6 +233,8 @@ export class ProcessBuild implements Controller {
 
   /** Spawns the program and completes the handshake; rejects with a BuildFailure. */
   static async open(program: ProcessProgram, setup: ControllerSetup, options: ProcessBuildOptions = {}): Promise<ProcessBuild> {
+    checkSpin(program.name, options.spin_us);
+    spinFromEnvironment(); // a bad FOOTING_SPIN_US is named before anything starts
     let build: ProcessBuild;
     try {
       build = new ProcessBuild(program, setup, options);
@@ -219,15 +263,30 @@ export class ProcessBuild implements Controller {
     return this.child.pid;
   }
 
-  tick(obs: Observation, action: Action): Promise<void> {
+  /**
+   * Sends obs and reads the answer into action. Returns undefined when the answer came during the
+   * spin (no promise, no event-loop turn), else a promise that settles when it arrived; rejects
+   * with the BuildFailure of a misbehaving build either way.
+   */
+  tick(obs: Observation, action: Action): Promise<void> | undefined {
     if (this.state !== 'idle') {
       if (this.state === 'failed') return this.rejectWithFailure();
       throw new Error(`build '${this.program.name}': tick called while ${this.state} (ticks are lockstep)`);
     }
     this.state = 'ticking';
-    const promise = new Promise<void>(this.pendingExecutor);
     this.tickStart_ns = process.hrtime.bigint();
-    (this.channel as TickChannel).send(this.child.stdin, obs, this.tickCount, action);
+    const channel = this.channel as TickChannel;
+    channel.send(this.child.stdin, obs, this.tickCount, action);
+    if (this.spinAllowed()) {
+      const asked = this.tickCount;
+      this.spin.run(this.stdoutFd, channel, this.onAnswer, this.isTicking);
+      // The answer came during the spin: this tick is done, even if bytes after it in the same
+      // read broke the protocol (that failure is the next tick's, as when the stream reads them).
+      if (this.tickCount !== asked) return this.spin.dueForEventLoop() ? new Promise<void>(this.yieldExecutor) : undefined;
+      if ((this.state as State) === 'failed') return this.rejectWithFailure(); // a bad answer
+    }
+    this.spin.fellBack();
+    const promise = new Promise<void>(this.pendingExecutor);
     if (this.tickTimer === null) {
       this.tickTimer = setTimeout(this.onTickTimeout, this.settings.tickTimeout_ms);
     } else {
@@ -262,6 +321,31 @@ export class ProcessBuild implements Controller {
   /** Synchronous last resort (harness exit or signal): SIGKILL the whole group. */
   killGroupNow(): void {
     this.signalGroup('SIGKILL');
+  }
+
+  /** The parent's end of the child's stdout when it can be polled without blocking, else -1. */
+  private stdoutFd = -1;
+  private readonly isTicking = (): boolean => this.state === 'ticking';
+  private readonly yieldExecutor = (resolve: () => void): void => {
+    setImmediate(resolve);
+  };
+
+  private spinAllowed(): boolean {
+    const possible =
+      this.stdoutFd >= 0 &&
+      coresForSpinning() &&
+      // The obs is still queued in the stream (a full pipe): only the event loop can send it.
+      this.child.stdin.writableLength === 0 &&
+      // Bytes the stream has already read come before anything read from the descriptor.
+      this.child.stdout.readableLength === 0;
+    return this.spin.wanted(possible);
+  }
+
+  private childEnv(extra: Record<string, string> | undefined): NodeJS.ProcessEnv {
+    // The build spins on its side only when the harness would (same core rule, at spawn), unless
+    // the spec's environment says otherwise.
+    const spin_us = this.settings.spin_us > 0 && spinFitsCores(liveBuilds.size + 1) ? this.settings.spin_us : 0;
+    return { ...process.env, [SPIN_ENV]: String(spin_us), ...extra };
   }
 
   private readonly onData = (chunk: Buffer): void => {
@@ -302,6 +386,7 @@ export class ProcessBuild implements Controller {
       encoding === 'f64'
         ? new F64TickChannel(this.footCount, telemetryCount)
         : new JsonTickChannel(this.footCount, telemetryCount, this.decoder, this.settings.framing.frame);
+    if (this.settings.spin_us > 0) this.stdoutFd = stdoutSpinFd(this.child.stdout);
     this.state = 'idle';
     this.settle();
   }
@@ -313,6 +398,7 @@ export class ProcessBuild implements Controller {
       return;
     }
     this.loopTime_us = Number(process.hrtime.bigint() - this.tickStart_ns) / 1000;
+    this.spin.answered(this.loopTime_us);
     this.reportedCompute_us = (this.channel as TickChannel).reportedCompute_us;
     this.tickCount++;
     this.state = 'idle';
@@ -414,6 +500,24 @@ export class ProcessBuild implements Controller {
       clearTimeout(this.tickTimer);
       this.tickTimer = null;
     }
+  }
+}
+
+/** The harness's own FOOTING_SPIN_US (`FOOTING_SPIN_US=0 footing run …` turns the spin off), else the default. */
+function spinFromEnvironment(): number {
+  const text = process.env[SPIN_ENV];
+  if (text === undefined || text.trim() === '') return PROCESS_BUILD_DEFAULTS.spin_us;
+  const value = Number(text);
+  if (!Number.isFinite(value) || value < 0 || value > MAX_SPIN_us) {
+    throw new RangeError(`environment variable ${SPIN_ENV} = '${text}': expected microseconds from 0 (never spin) to ${MAX_SPIN_us}`);
+  }
+  return value;
+}
+
+function checkSpin(name: string, spin_us: number | undefined): void {
+  if (spin_us === undefined) return;
+  if (typeof spin_us !== 'number' || !Number.isFinite(spin_us) || spin_us < 0 || spin_us > MAX_SPIN_us) {
+    throw new RangeError(`build '${name}': spin_us = ${String(spin_us)}: expected microseconds from 0 (never spin) to ${MAX_SPIN_us}`);
   }
 }
 
