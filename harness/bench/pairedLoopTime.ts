@@ -2,6 +2,7 @@
 // baseline build observes in (the start of) each scenario, open both builds on each scenario, and
 // time them in interleaved rounds on those same observations (pairedTiming.ts).
 
+import { unpackObservations, type PackedObservations } from '../contract/packed.js';
 import { createAction, type Observation } from '../contract/tick.js';
 import { openBuild, type OpenBuildOptions, type OpenedBuild } from '../builds/loader.js';
 import type { BuildSpec } from '../builds/spec.js';
@@ -62,15 +63,15 @@ export async function recordStreams(
   scenarios: readonly ResolvedScenario[],
   baseline: BuildSpec,
   openOptions: OpenBuildOptions = {},
-  observed: ReadonlyMap<string, Observation[]> = new Map(),
+  observed: ReadonlyMap<string, PackedObservations> = new Map(),
 ): Promise<RecordedStream[]> {
   const chosen = timedScenarios(scenarios);
   if (chosen.length === 0) throw new RangeError('paired loop time: no scenario to record observations from');
   const streams: RecordedStream[] = [];
   for (const scenario of chosen) {
     const kept = observed.get(scenario.id);
-    if (kept && kept.length > 0) {
-      streams.push({ scenario, observations: kept });
+    if (kept && kept.count > 0) {
+      streams.push({ scenario, observations: unpackObservations(kept) });
       continue;
     }
     const ring = await recordObservations(recorded(scenario), baseline, openOptions);

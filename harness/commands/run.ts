@@ -6,7 +6,7 @@ import { createHash } from 'node:crypto';
 import path from 'node:path';
 import { attachBench } from '../bench/attach.js';
 import { measurePairedLoopTime, observationRequest, recordStreams, timedScenarios } from '../bench/pairedLoopTime.js';
-import type { Observation } from '../contract/tick.js';
+import type { PackedObservations } from '../contract/packed.js';
 import { DEFAULT_BENCH_SCENARIO } from '../bench/defaults.js';
 import { runBench } from '../bench/run.js';
 import type { BuildSpec } from '../builds/spec.js';
@@ -130,9 +130,9 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   const writtenSeries = new Set<string>();
   // The gate's loop-time timing reuses what the baseline observed in its own suite runs.
   const timesLoop = options.baseline !== undefined && loopTimeJudged(policy);
-  const observed = new Map<string, Observation[]>();
+  const observed = new Map<string, PackedObservations>();
   const observe = timesLoop
-    ? { build: options.baseline!, requests: new Map(timedScenarios(scenarios).map((s) => [s.id, observationRequest(s)])), onObserved: (id: string, o: Observation[]) => observed.set(id, o) }
+    ? { build: options.baseline!, requests: new Map(timedScenarios(scenarios).map((s) => [s.id, observationRequest(s)])), onObserved: (id: string, o: PackedObservations) => observed.set(id, o) }
     : undefined;
   const runs = await runPairs({
     writtenSeries,
@@ -232,7 +232,7 @@ async function pairedLoopTimes(
   prepared: Map<string, PreparedBuild>,
   baselineName: string,
   log: (line: string) => void,
-  observed: ReadonlyMap<string, Observation[]> = new Map(),
+  observed: ReadonlyMap<string, PackedObservations> = new Map(),
 ): Promise<PairedLoopTimeRecord[]> {
   const usable = specs.filter((spec) => !prepared.get(spec.name)?.failure);
   const baseline = usable.find((spec) => spec.name === baselineName);

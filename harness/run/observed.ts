@@ -5,7 +5,7 @@
 // beside the run's result (never inside it: results.json does not hold them).
 
 import { withTickTap, type OpenedBuild } from '../builds/opened.js';
-import { copyObservation, createObservation, type Observation } from '../contract/tick.js';
+import { createPackedObservations, packObservation, type PackedObservations } from '../contract/packed.js';
 import type { RunResult } from '../results/types.js';
 
 /** Which ticks to keep: every `everyNth` of the first `tickCount`, at most `capacity`. */
@@ -15,30 +15,29 @@ export interface ObservationRequest {
   capacity: number;
 }
 
-const observedBy = new WeakMap<RunResult, Observation[]>();
+const observedBy = new WeakMap<RunResult, PackedObservations>();
 
-export function attachObservations(result: RunResult, observations: Observation[]): void {
+export function attachObservations(result: RunResult, observations: PackedObservations): void {
   observedBy.set(result, observations);
 }
 
 /** The observations recorded in the run of `result`, if it was asked to record. */
-export function observationsOf(result: RunResult): Observation[] | undefined {
+export function observationsOf(result: RunResult): PackedObservations | undefined {
   return observedBy.get(result);
 }
 
 /**
- * The build, seen by the episode, with its observations copied as requested (outside the build's
- * own tick timing, so its loop time is unchanged). The copies are allocated before the episode
- * (the tick loop allocates nothing); `observations` holds the filled ones once the episode ends.
+ * The build, seen by the episode, with its observations packed as requested (outside the build's
+ * own tick timing, so its loop time is unchanged). The packed buffer is allocated before the
+ * episode (the tick loop allocates nothing); `observations` holds the filled ones once it ends.
  */
-export function observingBuild(build: OpenedBuild, request: ObservationRequest, footCount: number): { build: OpenedBuild; observations: () => Observation[] } {
+export function observingBuild(build: OpenedBuild, request: ObservationRequest, footCount: number): { build: OpenedBuild; observations: () => PackedObservations } {
   const slots = Math.max(0, Math.min(request.capacity, Math.ceil(request.tickCount / request.everyNth)));
-  const copies = Array.from({ length: slots }, () => createObservation(footCount));
-  let filled = 0;
+  const packed = createPackedObservations(footCount, slots);
   let tick = 0;
   const wrapped = withTickTap(build, (obs) => {
-    if (tick < request.tickCount && tick % request.everyNth === 0 && filled < slots) copyObservation(copies[filled++], obs);
+    if (tick < request.tickCount && tick % request.everyNth === 0) packObservation(packed, obs);
     tick++;
   });
-  return { build: wrapped, observations: () => copies.slice(0, filled) };
+  return { build: wrapped, observations: () => packed };
 }

@@ -15,14 +15,14 @@ import { watchProcessGroups } from '../builds/process/groups.js';
 import { runOne, type RunTask } from './runOne.js';
 import { receivedTask, type PostedTask } from './sharedRaster.js';
 import { observationsOf } from './observed.js';
-import type { Observation } from '../contract/tick.js';
+import type { PackedObservations } from '../contract/packed.js';
 
 export type RunThreadMessage =
   | { kind: 'started' }
   | { kind: 'group'; pgid: number; alive: boolean }
-  | { kind: 'result'; result: Awaited<ReturnType<typeof runOne>>; observations?: Observation[] };
+  | { kind: 'result'; result: Awaited<ReturnType<typeof runOne>>; observations?: PackedObservations };
 
-export async function serveOneRun(task: RunTask, post: (message: RunThreadMessage) => void): Promise<void> {
+export async function serveOneRun(task: RunTask, post: (message: RunThreadMessage, transfer?: ArrayBuffer[]) => void): Promise<void> {
   const stop = watchProcessGroups({
     started: (pgid) => post({ kind: 'group', pgid, alive: true }),
     gone: (pgid) => post({ kind: 'group', pgid, alive: false }),
@@ -34,7 +34,9 @@ export async function serveOneRun(task: RunTask, post: (message: RunThreadMessag
     // fails this run (the thread dies before the result is posted), not some later pair.
     await nextTurn();
     const observations = observationsOf(result);
-    post(observations ? { kind: 'result', result, observations } : { kind: 'result', result });
+    // The packed observations' buffer is moved, not copied (the thread is done with it).
+    if (observations) post({ kind: 'result', result, observations }, [observations.values.buffer as ArrayBuffer]);
+    else post({ kind: 'result', result });
   } finally {
     stop();
   }
@@ -42,7 +44,7 @@ export async function serveOneRun(task: RunTask, post: (message: RunThreadMessag
 
 if (parentPort !== null && workerData?.task !== undefined) {
   const port = parentPort;
-  const post = (message: RunThreadMessage) => port.postMessage(message);
+  const post = (message: RunThreadMessage, transfer?: ArrayBuffer[]) => port.postMessage(message, transfer);
   // Runs are served strictly one after another: the pool posts the next only after a result.
   // A raster's grids arrive in shared memory (sharedRaster.ts), posted once per raster.
   let chain = serveOneRun(receivedTask(workerData.task as PostedTask), post);

@@ -14,7 +14,7 @@ import { createErrorRunResult } from '../results/runResult.js';
 import type { RunResult } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { seriesPath } from '../score/series/file.js';
-import type { Observation } from '../contract/tick.js';
+import type { PackedObservations } from '../contract/packed.js';
 import { observationsOf, type ObservationRequest } from './observed.js';
 import { keepOnResume, onInterrupt, type InterruptSignal } from './interrupt.js';
 import { realFolder } from './outputLock.js';
@@ -63,7 +63,7 @@ export interface PairRunOptions {
   /** Filled with the absolute path of the series file of every pair run now (not resumed, not an error run). */
   writtenSeries?: Set<string>;
   /** Runs of `build` on the scenarios named in `requests` keep what the build observed (observed.ts). */
-  observe?: { build: string; requests: ReadonlyMap<string, ObservationRequest>; onObserved(scenarioId: string, observations: Observation[]): void };
+  observe?: { build: string; requests: ReadonlyMap<string, ObservationRequest>; onObserved(scenarioId: string, observations: PackedObservations): void };
 }
 
 interface Pair {

@@ -4,6 +4,7 @@ import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { observationRequest, recordStreams } from '../../harness/bench/pairedLoopTime.js';
 import { parseBuildSpec } from '../../harness/builds/spec.js';
+import { unpackObservations } from '../../harness/contract/packed.js';
 import { observationsOf } from '../../harness/run/observed.js';
 import { runOne } from '../../harness/run/runOne.js';
 import { loadScenarioFile } from '../../harness/scenario/index.js';
@@ -22,11 +23,13 @@ describe('loop-time observations kept by the suite run', () => {
     const governed = parseBuildSpec('ref:governed', ROOT);
     const request = observationRequest(scenario);
     const result = await runOne({ scenario, build: governed, outDir: out, trace: false, observe: request });
-    const kept = observationsOf(result);
-    expect(kept).toBeDefined();
+    const packed = observationsOf(result);
+    expect(packed).toBeDefined();
+    const kept = unpackObservations(packed!);
     const [recorded] = await recordStreams([scenario], governed);
-    expect(kept!.length).toBe(recorded.observations.length);
-    expect(kept!.length).toBeGreaterThan(100);
+    expect(kept.length).toBe(recorded.observations.length);
+    expect(kept.length).toBeGreaterThan(100);
+    // Packed in the run and unpacked here, they equal a recording run's objects, bit for bit.
     expect(kept).toEqual(recorded.observations);
     // The result itself carries none (results.json does not hold them).
     expect(JSON.stringify(result)).not.toContain('frictionEstimate');
