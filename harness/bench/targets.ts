@@ -119,8 +119,9 @@ export async function measureTargets(scenario: ResolvedScenario, report: BenchRe
     rows.push({ figure: '`footing check scenarios` (bundled)', measured: range(check), target: '≤ 0.6 s', met: check.median <= 0.6 });
     const one = processWall_s(['run', 'scenarios/dry-baseline-walk.yaml', '--build', 'ref:governed', '--out', out, '--quiet'], 3);
     rows.push({ figure: 'one run of the dry walk, wall', measured: range(one), target: '≤ 1.0 s', met: one.median <= 1.0 });
-    const suite = processWall_s(['run', '--baseline', 'governed', '--exit-zero', '--out', out, '--quiet'], 1);
-    rows.push({ figure: '`npm start` (bundled suite × 4 builds)', measured: `${suite.median.toFixed(1)} s`, target: '≤ 6 s', met: suite.median <= 6 });
+    // Three runs (about 20 s): one run of a 6 s command reads the VM's minute-to-minute speed.
+    const suite = processWall_s(['run', '--baseline', 'governed', '--exit-zero', '--out', out, '--quiet'], 3);
+    rows.push({ figure: '`npm start` (bundled suite × 4 builds)', measured: range(suite), target: '≤ 6 s', met: suite.median <= 6 });
     log('bench targets: 1000² raster (check, one run)');
     rows.push(...bigRasterTargets(out));
   } finally {
