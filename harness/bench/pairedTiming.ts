@@ -43,21 +43,37 @@ export interface PairedTimingOptions {
 
 /**
  * 31 rounds: at 95 % the order-statistic interval of the median is then the 10th to 22nd ratio
- * (coverage 0.971), narrow enough to resolve a 25 % slowdown on this class of machine. 2 ms a batch
- * is many ticks of a microsecond controller and a few of a slow process build, and keeps the whole
- * measurement around a quarter of a second per build pair (common practice for A/B micro-timing:
- * batches well above the timer's resolution, many short alternating rounds).
+ * (coverage 0.971), narrow enough to resolve a 25 % slowdown on this class of machine. 1 ms a batch
+ * is hundreds of ticks of a microsecond controller and a few of a slow process build, far above
+ * the timer's resolution and mostly inside one scheduler time slice; with the warm-up the whole
+ * measurement takes about 0.15 s per build pair (common practice for A/B micro-timing: batches
+ * well above the timer's resolution, many short alternating rounds).
  */
 export const DEFAULT_PAIRED_TIMING: Readonly<PairedTimingOptions> = Object.freeze({
   rounds: 31,
   warmupRounds: 4,
-  roundTime_ms: 2,
+  roundTime_ms: 1,
   confidence: 0.95,
 });
 
 /** Fewest and most ticks in one batch (a batch must span several ticks, and finish). */
 const MIN_TICKS_PER_BATCH = 3;
 const MAX_TICKS_PER_BATCH = 2000;
+
+/**
+ * Warm-up before anything is calibrated or counted. Two builds loaded from different files have
+ * their own JIT-compiled code, each optimised when V8 gets to it: timed from cold, one side can
+ * run in the interpreter or baseline tier while the other is optimised (two copies of one module
+ * read 0.25–0.7× or 2.6× each other here), and a batch size calibrated on cold ticks is far too
+ * small once they are warm (80 µs batches instead of 2 ms). So both sides first tick, alternately
+ * and in growing batches, until each has spent WARMUP_MIN_ms ticking and its last batch was no
+ * more than WARMUP_SETTLED faster per tick than the one before (cold code speeds up by several
+ * times, noise by a few per cent), at most WARMUP_MAX_ms each. The builds' code is shared by
+ * their instances on every stream, so this is done once, on the first stream.
+ */
+const WARMUP_MIN_ms = 20;
+const WARMUP_MAX_ms = 300;
+const WARMUP_SETTLED = 0.85;
 
 
 class Cursor {
@@ -79,6 +95,26 @@ async function timeBatch(build: OpenedBuild, cursor: Cursor, action: Action, tic
   return ((performance.now() - start_ms) * 1000) / ticks;
 }
 
+/** Ticks both sides of one stream in growing, alternating batches until each is warm (see WARMUP_MIN_ms). */
+async function warmUp(s: { stream: PairedStream; baselineCursor: Cursor; candidateCursor: Cursor }): Promise<void> {
+  const sides = [
+    { build: s.stream.baseline, cursor: s.baselineCursor, action: s.stream.baselineAction, spent_ms: 0, last_us: Number.POSITIVE_INFINITY, settled: false },
+    { build: s.stream.candidate, cursor: s.candidateCursor, action: s.stream.candidateAction, spent_ms: 0, last_us: Number.POSITIVE_INFINITY, settled: false },
+  ];
+  let ticks = MIN_TICKS_PER_BATCH;
+  while (sides.some((side) => !side.settled)) {
+    for (const side of sides) {
+      if (side.settled) continue;
+      const tick_us = await timeBatch(side.build, side.cursor, side.action, ticks);
+      side.spent_ms += (tick_us * ticks) / 1000;
+      const steady = tick_us >= WARMUP_SETTLED * side.last_us;
+      side.last_us = tick_us;
+      if ((side.spent_ms >= WARMUP_MIN_ms && steady) || side.spent_ms >= WARMUP_MAX_ms) side.settled = true;
+    }
+    ticks = Math.min(MAX_TICKS_PER_BATCH, 2 * ticks);
+  }
+}
+
 /**
  * Times both sides of every stream in alternating rounds (the streams take turns) and returns the
  * ratio statistics. Ticks per batch are calibrated per stream on the slower side during warm-up.
@@ -93,13 +129,35 @@ export async function timePaired(streams: readonly PairedStream[], options: Pair
     baselineCursor: new Cursor(stream.observations),
     candidateCursor: new Cursor(stream.observations),
     ticks: MIN_TICKS_PER_BATCH,
+    /** Rounds this stream has run: its own order alternates (A B, B A, …) whatever the stream count. */
+    rounds: 0,
   }));
-  // Calibration: time a few ticks of each side, size the batch so the slower side takes about
-  // roundTime_ms. The faster side then runs the same count (both see the same observations).
+  await warmUp(state[0]);
+  // Calibration, on warm code: grow a batch until the slower side's takes a quarter of
+  // roundTime_ms, then size it so that side takes about roundTime_ms. The faster side runs the
+  // same count (both see the same observations). Each size is timed A B B A and each side's
+  // faster batch kept: a batch the scheduler interrupted reads slow, and one such read had
+  // sized a stream's batches at 3 ticks (about a microsecond, below the timer's noise).
   for (const s of state) {
-    const a = await timeBatch(s.stream.baseline, s.baselineCursor, s.stream.baselineAction, MIN_TICKS_PER_BATCH);
-    const b = await timeBatch(s.stream.candidate, s.candidateCursor, s.stream.candidateAction, MIN_TICKS_PER_BATCH);
-    const slower_us = Math.max(a, b, 1e-3);
+    let ticks = MIN_TICKS_PER_BATCH;
+    let slower_us = 0;
+    for (;;) {
+      let a = Number.POSITIVE_INFINITY;
+      let b = Number.POSITIVE_INFINITY;
+      for (const order of [0, 1]) {
+        s.candidateCursor.index = s.baselineCursor.index;
+        if (order === 0) {
+          a = Math.min(a, await timeBatch(s.stream.baseline, s.baselineCursor, s.stream.baselineAction, ticks));
+          b = Math.min(b, await timeBatch(s.stream.candidate, s.candidateCursor, s.stream.candidateAction, ticks));
+        } else {
+          b = Math.min(b, await timeBatch(s.stream.candidate, s.candidateCursor, s.stream.candidateAction, ticks));
+          a = Math.min(a, await timeBatch(s.stream.baseline, s.baselineCursor, s.stream.baselineAction, ticks));
+        }
+      }
+      slower_us = Math.max(a, b, 1e-3);
+      if (ticks >= MAX_TICKS_PER_BATCH || ticks * slower_us >= (options.roundTime_ms * 1000) / 4) break;
+      ticks = Math.min(MAX_TICKS_PER_BATCH, 4 * ticks);
+    }
     s.ticks = Math.min(MAX_TICKS_PER_BATCH, Math.max(MIN_TICKS_PER_BATCH, Math.round((options.roundTime_ms * 1000) / slower_us)));
   }
   const ratios = new Float64Array(options.rounds);
@@ -114,7 +172,10 @@ export async function timePaired(streams: readonly PairedStream[], options: Pair
     s.candidateCursor.index = start;
     let a: number;
     let b: number;
-    if (round % 2 === 0) {
+    // By the stream's own round count, not the global one: with an even number of streams the
+    // global parity gave each stream one fixed order (two streams: always A B on the first, B A
+    // on the second), so a second-runs-faster effect (warm caches) never cancelled.
+    if (s.rounds++ % 2 === 0) {
       a = await timeBatch(s.stream.baseline, s.baselineCursor, s.stream.baselineAction, s.ticks);
       b = await timeBatch(s.stream.candidate, s.candidateCursor, s.stream.candidateAction, s.ticks);
     } else {

@@ -56,6 +56,45 @@ describe('interleaved A/B loop-time measurement', () => {
   });
 });
 
+describe('round order per stream', () => {
+  it('alternates which side runs first within every stream, for an even number of streams too', async () => {
+    // Each batch's first tick is logged as (stream, side). With two streams the old global parity
+    // gave stream 0 always "baseline first" and stream 1 always "candidate first", so an effect of
+    // running second (warm caches) never cancelled and read as a 1.4–3.8× slower twin.
+    const log: string[] = [];
+    let last = '';
+    const logging = (stream: number, side: 'A' | 'B'): Controller => ({
+      telemetryNames: [],
+      tick(obs, action) {
+        const key = `${stream}${side}`;
+        if (key !== last) log.push(key);
+        last = key;
+        const until = performance.now() + 0.002;
+        while (performance.now() < until) action.groundForce_N[0] = obs.time_s;
+      },
+    });
+    const streams = [0, 1].map((k): PairedStream => ({
+      ...stream(1, 1),
+      scenario: `s${k}`,
+      baseline: guardController(logging(k, 'A'), 'base'),
+      candidate: guardController(logging(k, 'B'), 'cand'),
+    }));
+    const options = { rounds: 12, warmupRounds: 4, roundTime_ms: 0.2, confidence: 0.95 };
+    await timePaired(streams, options);
+    // The main loop's batches end the log: two per round, the streams taking turns.
+    const batches = log.slice(-2 * (options.rounds + options.warmupRounds));
+    const firstSides: Record<string, string[]> = { '0': [], '1': [] };
+    for (let r = 0; r < batches.length; r += 2) {
+      expect(batches[r][0]).toBe(batches[r + 1][0]); // one round, one stream
+      firstSides[batches[r][0]].push(batches[r][1]);
+    }
+    for (const sides of Object.values(firstSides)) {
+      expect(sides.length).toBe((options.rounds + options.warmupRounds) / 2);
+      for (let k = 1; k < sides.length; k++) expect(sides[k]).not.toBe(sides[k - 1]);
+    }
+  });
+});
+
 describe('judging an interval against a limit', () => {
   const ci = (values: number[]) => medianInterval(values, 0.95);
   it('exceeds only when the whole interval is above the limit, holds when it is all below', () => {
