@@ -117,7 +117,8 @@ async function warmUp(s: { stream: PairedStream; baselineCursor: Cursor; candida
 
 /**
  * Times both sides of every stream in alternating rounds (the streams take turns) and returns the
- * ratio statistics. Ticks per batch are calibrated per stream on the slower side during warm-up.
+ * ratio statistics. Both builds are warmed first (warmUp); ticks per batch are then calibrated per
+ * stream on the slower side.
  */
 export async function timePaired(streams: readonly PairedStream[], options: PairedTimingOptions = DEFAULT_PAIRED_TIMING): Promise<PairedTiming> {
   if (streams.length === 0) throw new RangeError('timePaired: no stream to time');
