@@ -4,10 +4,10 @@
 
 import { describe, expect, it } from 'vitest';
 import { compiledCppExample } from '../../../harness/bench/defaults.js';
-import { createAction, type Action } from '../../../harness/builds/interface.js';
+import type { Action } from '../../../harness/builds/interface.js';
 import { BuildFailure, openBuild } from '../../../harness/builds/loader.js';
 import { parseBuildSpec } from '../../../harness/builds/spec.js';
-import { REPO_ROOT, isAlive, newObservation, syntheticObservation, testSetup } from './helpers.js';
+import { REPO_ROOT, isAlive, syntheticActions, testSetup } from './helpers.js';
 
 const TICKS = 100;
 /** Harness window × the build's window (µs): neither, each alone, both. */
@@ -20,15 +20,7 @@ const COMBINATIONS = [
 
 async function actionsOf(specText: string, harness_us: number, build_us: string): Promise<Action[]> {
   const build = await openBuild(parseBuildSpec(specText, REPO_ROOT), testSetup(), { spin_us: harness_us, env: { FOOTING_SPIN_US: build_us } });
-  const obs = newObservation();
-  const actions: Action[] = [];
-  for (let k = 0; k < TICKS; k++) {
-    syntheticObservation(obs, k);
-    const action = createAction(4, build.telemetryNames.length);
-    const pending = build.tick(obs, action);
-    if (pending !== undefined) await pending;
-    actions.push(action);
-  }
+  const actions = await syntheticActions(build, TICKS);
   const pid = build.pid as number;
   await build.close();
   expect(isAlive(pid)).toBe(false);

@@ -3,7 +3,8 @@
 
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { createObservation, type ControllerSetup, type Observation } from '../../../harness/builds/interface.js';
+import { createAction, createObservation, type Action, type ControllerSetup, type Observation } from '../../../harness/builds/interface.js';
+import type { OpenedBuild } from '../../../harness/builds/loader.js';
 import type { RobotParams } from '../../../harness/plant/types.js';
 
 export const FIXTURES = fileURLToPath(new URL('./fixtures/', import.meta.url));
@@ -85,6 +86,20 @@ export function syntheticObservation(obs: Observation, step: number): void {
 
 export function newObservation(): Observation {
   return createObservation(TEST_ROBOT.hips_m.length);
+}
+
+/** The build's answers to `ticks` synthetic observations, each into an action of its own. */
+export async function syntheticActions(build: OpenedBuild, ticks: number): Promise<Action[]> {
+  const obs = newObservation();
+  const actions: Action[] = [];
+  for (let k = 0; k < ticks; k++) {
+    syntheticObservation(obs, k);
+    const action = createAction(TEST_ROBOT.hips_m.length, build.telemetryNames.length);
+    const pending = build.tick(obs, action);
+    if (pending !== undefined) await pending;
+    actions.push(action);
+  }
+  return actions;
 }
 
 /** True while `pid` is a live process; a zombie (exited, not yet reaped) counts as gone. */

@@ -9,7 +9,7 @@ import { BuildFailure, openBuild, type OpenBuildOptions } from '../../../harness
 import { ProcessBuild, spinFitsCores } from '../../../harness/builds/process/bridge.js';
 import { AnswerSpin, SpinPacing } from '../../../harness/builds/process/spin.js';
 import { parseBuildSpec } from '../../../harness/builds/spec.js';
-import { FIXTURES, REPO_ROOT, newObservation, syntheticObservation, testSetup } from './helpers.js';
+import { FIXTURES, REPO_ROOT, newObservation, syntheticActions, syntheticObservation, testSetup } from './helpers.js';
 
 const TICKS = 40;
 /** Longer than any spin window below by far: a sleeping tick is always answered after the spin. */
@@ -37,16 +37,8 @@ async function record(specText: string, options: OpenBuildOptions): Promise<Reco
   const build = await openBuild(parseBuildSpec(specText, REPO_ROOT), testSetup(), { ...LIMITS, ...options });
   expect(build).toBeInstanceOf(ProcessBuild);
   const process = build as ProcessBuild;
-  const obs = newObservation();
-  const actions: Action[] = [];
   try {
-    for (let k = 0; k < TICKS; k++) {
-      syntheticObservation(obs, k);
-      const action = createAction(4, build.telemetryNames.length);
-      const pending = build.tick(obs, action);
-      if (pending !== undefined) await pending;
-      actions.push(action);
-    }
+    const actions = await syntheticActions(build, TICKS);
     return { actions, tickCount: process.tickCount, ...process.spinStats, about: build.about };
   } finally {
     await build.close();
