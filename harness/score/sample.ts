@@ -28,17 +28,17 @@ export interface TickSample extends RobotState {
 }
 
 export function createTickSample(footCount: number): TickSample {
-  return {
-    ...createRobotState(footCount),
-    dt_s: 0,
-    footStaticFriction: new Float64Array(footCount),
-    mode: new Uint8Array(footCount),
-    wantedForce_N: new Float64Array(3 * footCount),
-    trunkGroundForce_N: 0,
-    referencePosition_m: new Float64Array(3),
-    loopTime_us: 0,
-    reportedCompute_us: Number.NaN,
-  };
+  // Added to the state object, not spread into a literal (one map for every run: createObservation).
+  const sample = createRobotState(footCount) as TickSample;
+  sample.dt_s = 0;
+  sample.footStaticFriction = new Float64Array(footCount);
+  sample.mode = new Uint8Array(footCount);
+  sample.wantedForce_N = new Float64Array(3 * footCount);
+  sample.trunkGroundForce_N = 0;
+  sample.referencePosition_m = new Float64Array(3);
+  sample.loopTime_us = 0;
+  sample.reportedCompute_us = Number.NaN;
+  return sample;
 }
 
 /**
