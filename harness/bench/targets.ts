@@ -71,16 +71,13 @@ export function scatteredPatches(scenario: ResolvedScenario, count: number): Res
   return { ...scenario, plant: { ...scenario.plant, ground: { ...scenario.plant.ground, friction: { ...friction, patches } } } };
 }
 
-/**
- * The harness's own cost per tick: a whole episode (sensing, command schedule, build call,
- * scorer, finite-action check) with a build that answers instantly — every foot in stance
- * carrying a quarter of the weight, as in the plant bench — minus the plant's substeps.
- */
-export async function harnessOverheadPerTick_us(scenario: ResolvedScenario, budget: TaskBudget): Promise<{ overhead_us: number; plant_us: number }> {
+/** A build that answers instantly: every foot in stance carrying a quarter of the weight, as in the plant bench. */
+export function standingBuild(scenario: ResolvedScenario): OpenedBuild {
   const probe = new Plant(scenario.plant);
   const n = probe.footCount;
   const share_kg = scenario.plant.robot.trunk.mass_kg / n;
-  const standing: OpenedBuild = {
+  const gravity_mps2 = probe.gravity_mps2;
+  return {
     name: 'standing',
     kind: 'module',
     telemetryNames: [],
@@ -90,11 +87,20 @@ export async function harnessOverheadPerTick_us(scenario: ResolvedScenario, budg
     tick(_obs, action) {
       for (let i = 0; i < n; i++) {
         action.mode[i] = STANCE;
-        for (let a = 0; a < 3; a++) action.groundForce_N[3 * i + a] = -share_kg * probe.gravity_mps2[a];
+        for (let a = 0; a < 3; a++) action.groundForce_N[3 * i + a] = -share_kg * gravity_mps2[a];
       }
     },
     close: async () => undefined,
   };
+}
+
+/**
+ * The harness's own cost per tick: a whole episode (sensing, command schedule, build call,
+ * scorer, finite-action check) with a build that answers instantly — every foot in stance
+ * carrying a quarter of the weight, as in the plant bench — minus the plant's substeps.
+ */
+export async function harnessOverheadPerTick_us(scenario: ResolvedScenario, budget: TaskBudget): Promise<{ overhead_us: number; plant_us: number }> {
+  const standing = standingBuild(scenario);
   const { substeps } = ticksOf(scenario);
   let ticks = 1;
   const episode = await measureTask('episode.standing', async () => {

@@ -22,13 +22,13 @@
 //   friction stopped or sharply slowed its slide), the step is undone and taken again as K
 //   substeps of step/K, K from the impact duration (landing.ts). The leapfrog's kick at a change of step is the mean of
 //   the two steps (½(h_prev + h)), its usual variable-step form, so the scheme stays second order.
-//   An observer passed to step() sees every substep (the scorer weights each by its share).
+//   An observer passed to step() sees every substep (an object: its method is one call target for every run) (the scorer weights each by its share).
 // - damping and Stribeck read the foot velocity at the step's start, v(t) = v(t − h/2) +
 //   (h_prev/2)·a(t), second order (the mid-step velocity alone lags by half a step): the normal
 //   damping with this step's own a(t), in closed form (contact.ts), the Stribeck slip speed with
 //   the last step's (friction's own force is not known before the stick/slide solve).
 
-import { copyBytes, copyFloats, type RobotState } from '../contract/state.js';
+import type { RobotState } from '../contract/state.js';
 import type { Action } from '../contract/tick.js';
 import { footFriction, huntCrossleyNormal_N, huntCrossleyNormalAtStart_N } from './contact.js';
 import { PlantDivergedError } from './errors.js';
@@ -46,7 +46,7 @@ import {
 import { PushSchedule } from './pushes.js';
 import { restingDepth_m, staticSupportForces } from './settle.js';
 import { invertSymmetric3, matrixFromQuaternion, quaternionFromRollPitchYaw } from './rotation.js';
-import type { ContactLaw, PlantConfig, RobotParams } from './types.js';
+import type { ContactLaw, PlantConfig, RobotParams, SubstepObserver } from './types.js';
 import { validatePlantConfig } from './validate.js';
 
 /** Saved values per foot before a trial step (position, velocity, acceleration, leg force z). */
@@ -247,21 +247,37 @@ export class Plant {
 
   /** Holds the build's action until the next call. */
   applyAction(action: Action): void {
-    copyFloats(this.heldGroundForce, action.groundForce_N);
-    copyFloats(this.heldTarget, action.footTarget_m);
-    copyFloats(this.heldTargetVelocity, action.footTargetVelocity_mps);
-    copyFloats(this.heldStiffness, action.stiffness_N_per_m);
-    copyFloats(this.heldDamping, action.damping_Ns_per_m);
+    // Arrays of one length copied in one loop: per-array loops cost more than the copying itself
+    // for a dozen values (measured, docs/bench.md).
+    const force = this.heldGroundForce;
+    const target = this.heldTarget;
+    const targetVelocity = this.heldTargetVelocity;
+    const fromForce = action.groundForce_N;
+    const fromTarget = action.footTarget_m;
+    const fromTargetVelocity = action.footTargetVelocity_mps;
+    for (let k = 0; k < force.length; k++) {
+      force[k] = fromForce[k];
+      target[k] = fromTarget[k];
+      targetVelocity[k] = fromTargetVelocity[k];
+    }
+    const stiffness = this.heldStiffness;
+    const damping = this.heldDamping;
+    const fromStiffness = action.stiffness_N_per_m;
+    const fromDamping = action.damping_Ns_per_m;
+    for (let i = 0; i < stiffness.length; i++) {
+      stiffness[i] = fromStiffness[i];
+      damping[i] = fromDamping[i];
+    }
     this.actionIsNew = true;
   }
 
   /**
-   * Advances by one physics step (cut into substeps when a foot lands in it). `onSubstep`, when
-   * given, is called after every substep with the plant's state at its end (lastStep_s and
+   * Advances by one physics step (cut into substeps when a foot lands in it). `observer`, when
+   * given, has afterSubstep() called after every substep with the plant's state at its end (lastStep_s and
    * stepWeight say its length and share); a step without a landing calls it once. Throws
    * PlantDivergedError on a non-finite state.
    */
-  step(onSubstep?: () => void): void {
+  step(observer?: SubstepObserver): void {
     const h = this.step_s;
     const start_s = this.time_s;
     const mayLand = this.mayChangeContact();
@@ -282,14 +298,14 @@ export class Plant {
         this.advance();
         if (j < k - 1) {
           this.time_s = start_s + ((j + 1) / k) * h;
-          if (onSubstep !== undefined) onSubstep();
+          if (observer !== undefined) observer.afterSubstep();
         }
       }
     }
     // Time from the step count, so that long runs do not accumulate rounding (8 s, not 7.99999…).
     this.stepCount++;
     this.time_s = this.stepCount * h;
-    if (onSubstep !== undefined) onSubstep();
+    if (observer !== undefined) observer.afterSubstep();
   }
 
   /**
@@ -661,14 +677,35 @@ export class Plant {
   /** Copies the plant's truth into an observation (the run layer adds noise and estimates). */
   fillObservation(obs: RobotState): void {
     obs.time_s = this.time_s;
-    copyFloats(obs.trunkPosition_m, this.trunkPosition_m);
-    copyFloats(obs.trunkQuaternion, this.trunkQuaternion);
-    copyFloats(obs.trunkVelocity_mps, this.trunkVelocity_mps);
-    copyFloats(obs.trunkAngularVelocity_radps, this.trunkAngularVelocity_radps);
-    copyFloats(obs.footPosition_m, this.footPosition_m);
-    copyFloats(obs.footVelocity_mps, this.footVelocity_mps);
-    copyFloats(obs.footForce_N, this.footGroundForce_N);
-    copyBytes(obs.footContact, this.footInContact);
+    // Arrays of one length in one loop (applyAction).
+    const position = obs.trunkPosition_m;
+    const velocity = obs.trunkVelocity_mps;
+    const angular = obs.trunkAngularVelocity_radps;
+    const fromPosition = this.trunkPosition_m;
+    const fromVelocity = this.trunkVelocity_mps;
+    const fromAngular = this.trunkAngularVelocity_radps;
+    for (let c = 0; c < 3; c++) {
+      position[c] = fromPosition[c];
+      velocity[c] = fromVelocity[c];
+      angular[c] = fromAngular[c];
+    }
+    const quaternion = obs.trunkQuaternion;
+    const fromQuaternion = this.trunkQuaternion;
+    for (let c = 0; c < 4; c++) quaternion[c] = fromQuaternion[c];
+    const footPosition = obs.footPosition_m;
+    const footVelocity = obs.footVelocity_mps;
+    const footForce = obs.footForce_N;
+    const fromFootPosition = this.footPosition_m;
+    const fromFootVelocity = this.footVelocity_mps;
+    const fromFootForce = this.footGroundForce_N;
+    for (let k = 0; k < footPosition.length; k++) {
+      footPosition[k] = fromFootPosition[k];
+      footVelocity[k] = fromFootVelocity[k];
+      footForce[k] = fromFootForce[k];
+    }
+    const contact = obs.footContact;
+    const fromContact = this.footInContact;
+    for (let i = 0; i < contact.length; i++) contact[i] = fromContact[i];
   }
 
   /**

@@ -4,6 +4,11 @@
 export type Vec3 = [number, number, number];
 
 /** A robot: rigid trunk, N point-mass feet on massless leg actuators fixed at hips. */
+/** Told after every physics step or landing substep (Plant.step); reads the plant in place. */
+export interface SubstepObserver {
+  afterSubstep(): void;
+}
+
 export interface RobotParams {
   id: string;
   name: string;

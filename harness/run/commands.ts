@@ -1,7 +1,7 @@
 // The operator's command schedule: which command holds at time t, and the commanded trunk path
 // (the integral of the commanded velocity, rotated by the commanded yaw) the scorer tracks against.
 
-import type { Command } from '../contract/tick.js';
+import type { Observation } from '../contract/tick.js';
 import type { CommandStep } from '../scenario/types.js';
 
 export class CommandSchedule {
@@ -16,16 +16,22 @@ export class CommandSchedule {
   constructor(
     private readonly steps: CommandStep[],
     initialYaw_rad = 0,
+    /** The control period: the reference moves by one per advance(). */
+    private readonly dt_s = 0,
   ) {
     this.yaw_rad = initialYaw_rad;
   }
 
   /**
-   * Advances to time t: writes the command in force into `command` and moves the reference
-   * position by dt along the commanded velocity. Velocities are in the world frame when the yaw
+   * Advances to the observation's time t: writes the command in force into obs.command and moves
+   * the reference position by dt along the commanded velocity. The time comes in the observation,
+   * not as an argument: a double passed to a call V8 does not inline is a heap number per tick. Velocities are in the world frame when the yaw
    * and heading are zero; the commanded velocity is given in the commanded heading frame and turns with it.
    */
-  advance(t_s: number, dt_s: number, command: Command, reference_m: Float64Array): void {
+  advance(obs: Observation, reference_m: Float64Array): void {
+    const t_s = obs.time_s;
+    const dt_s = this.dt_s;
+    const command = obs.command;
     const steps = this.steps;
     while (this.cursor + 1 < steps.length && steps[this.cursor + 1].at_s <= t_s) this.cursor++;
     const step = steps.length > 0 && steps[this.cursor].at_s <= t_s ? steps[this.cursor] : null;

@@ -11,6 +11,7 @@ import type { OpenedBuild } from '../builds/loader.js';
 import { BuildFailure } from '../builds/process/failure.js';
 import { PlantDivergedError } from '../plant/errors.js';
 import { Plant } from '../plant/plant.js';
+import type { SubstepObserver } from '../plant/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
 import { createTickSample, type EpisodeStart, type TickObserver, type TickSample } from '../score/sample.js';
 import { createScorer, type RunMetrics, type Scorer } from '../score/scorer.js';
@@ -45,7 +46,7 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   viewPlantState(sample, plant);
   const sensors = new SensorModel(scenario.sensing, scenario.seed);
   const initialYaw_rad = (scenario.plant.initial.rpy_deg[2] * Math.PI) / 180;
-  const commands = new CommandSchedule(scenario.commands, initialYaw_rad);
+  const commands = new CommandSchedule(scenario.commands, initialYaw_rad, dt_s);
   const scorer = createScorer(scenario);
   options.onScorer?.(scorer);
   const observers = options.observers ?? [];
@@ -55,7 +56,7 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   sample.referencePosition_m[1] = scenario.plant.initial.position_m[1];
   sample.referencePosition_m[2] = scenario.plant.robot.standingHeight_m;
 
-  const recordStep = (): void => scorer.recordStep(plant, sample);
+  const scoreSteps = new StepScoring(scorer, plant, sample);
 
   const wallStart = performance.now();
   let error: RunError | undefined;
@@ -63,7 +64,7 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
     for (let tick = 0; tick < tickCount; tick++) {
       plant.fillObservation(obs);
       sensors.apply(obs, plant.footStaticFriction);
-      commands.advance(plant.time_s, dt_s, obs.command, sample.referencePosition_m);
+      commands.advance(obs, sample.referencePosition_m); // obs.time_s is the plant's time
 
       const pending = build.tick(obs, action);
       if (pending !== undefined) await pending; // process builds; in-process ticks stay synchronous
@@ -71,7 +72,7 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
       plant.applyAction(action);
       holdAction(sample, action);
       // Every physics step is scored, not only the tick's last, and every landing substep.
-      for (let s = 0; s < substeps; s++) plant.step(recordStep);
+      for (let s = 0; s < substeps; s++) plant.step(scoreSteps);
 
       sample.time_s = plant.time_s;
       sample.trunkGroundForce_N = plant.trunkGroundForce_N;
@@ -86,6 +87,22 @@ export async function runEpisode(scenario: ResolvedScenario, build: OpenedBuild,
   }
   const wall_s = (performance.now() - wallStart) / 1000;
   return { scored: scorer.finish({ wall_s, duration_s: plant.time_s }), ...(error ? { error } : {}) };
+}
+
+/**
+ * Feeds every physics step to the scorer. A class, not a closure made per run: the plant's step
+ * then sees one call target in every run, so its optimised code stays valid from run to run.
+ */
+class StepScoring implements SubstepObserver {
+  constructor(
+    private readonly scorer: Scorer,
+    private readonly plant: Plant,
+    private readonly sample: TickSample,
+  ) {}
+
+  afterSubstep(): void {
+    this.scorer.recordStep(this.plant, this.sample);
+  }
 }
 
 /**

@@ -37,3 +37,33 @@ export class IntervalCounter {
     return this.activeThisTick;
   }
 }
+
+/** IntervalCounters side by side (one per foot and their union), in typed arrays for the step pass. */
+export class IntervalBank {
+  readonly count: Int32Array;
+  readonly time_s: Float64Array;
+  private readonly active: Uint8Array;
+  private readonly activeThisTick: Uint8Array;
+
+  constructor(readonly channels: number) {
+    this.count = new Int32Array(channels);
+    this.time_s = new Float64Array(channels);
+    this.active = new Uint8Array(channels);
+    this.activeThisTick = new Uint8Array(channels);
+  }
+
+  /** Channel k's signal held on this step of weight dt_s (a step it did not hold needs no call). */
+  step(k: number, dt_s: number): void {
+    this.activeThisTick[k] = 1;
+    this.time_s[k] += dt_s;
+  }
+
+  /** Ends the tick on every channel: counts each channel's rising edge of the per-tick signal. */
+  endTick(): void {
+    for (let k = 0; k < this.channels; k++) {
+      if (this.activeThisTick[k] === 1 && this.active[k] === 0) this.count[k]++;
+      this.active[k] = this.activeThisTick[k];
+      this.activeThisTick[k] = 0;
+    }
+  }
+}

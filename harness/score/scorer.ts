@@ -7,14 +7,10 @@
 // Definitions and thresholds: docs/scoring.md.
 
 import type { ResolvedScenario } from '../scenario/types.js';
-import { CommandedViolationTracker } from './commanded.js';
-import { FallDetector } from './fall.js';
-import { FrictionMarginTracker } from './frictionMargin.js';
 import { LoopTimeTracker } from './loopTime.js';
 import type { HeldAction, StepView, TickSample } from './sample.js';
-import { SlipTracker } from './slip.js';
+import { StepPass } from './stepPass.js';
 import { DEFAULT_LOADED_FRACTION, DEFAULT_SLIP_SPEED_mps, loadedThreshold_N, totalMass_kg, TOUCHDOWN_TRANSIENT_s } from './thresholds.js';
-import { TouchdownTracker } from './touchdown.js';
 import { commandedTravel_m, TrackingTracker } from './tracking.js';
 import type { FallReason, RunMetrics, SimInfo, ViolationCounts } from './types.js';
 
@@ -43,108 +39,137 @@ export interface Scorer {
 }
 
 export function createScorer(scenario: ResolvedScenario, options: ScorerOptions = {}): Scorer {
-  const robot = scenario.plant.robot;
-  const footCount = robot.hips_m.length;
-  const loadedFraction = options.loadedFraction ?? DEFAULT_LOADED_FRACTION;
-  const slipSpeed_mps = options.slipSpeed_mps ?? DEFAULT_SLIP_SPEED_mps;
-  if (!(loadedFraction >= 0)) throw new RangeError(`scorer: loadedFraction ${loadedFraction} must be ≥ 0`);
-  if (!(slipSpeed_mps >= 0)) throw new RangeError(`scorer: slipSpeed_mps ${slipSpeed_mps} must be ≥ 0`);
-  const threshold_N = loadedThreshold_N(robot, loadedFraction);
+  return new RunScorer(scenario, options);
+}
 
-  const margin = new FrictionMarginTracker(footCount, threshold_N);
-  const commanded = new CommandedViolationTracker(footCount);
-  const slip = new SlipTracker(footCount, threshold_N, slipSpeed_mps);
-  const fall = new FallDetector(robot.standingHeight_m);
-  const transient_s = options.touchdownTransient_s ?? TOUCHDOWN_TRANSIENT_s;
-  const touchdown = new TouchdownTracker(footCount, threshold_N, transient_s, scenario.duration_s, scenario.plant.initial.start === 'settled');
-  const tracking = new TrackingTracker(commandedTravel_m(scenario.commands, scenario.duration_s));
-  const loop = new LoopTimeTracker(scenario.control.loopBudget_us);
-  const tickAsStep = new TickAsStep();
-  let ticks = 0;
-  let steps = 0;
-  let stepsThisTick = 0;
-  let lastTime_s = 0;
+/**
+ * A class, not an object of closures: its methods are the same functions in every run, so the
+ * episode loop's optimised code inlines them once for all runs (closures made per run were new
+ * call targets each run and deoptimised it, docs/bench.md).
+ */
+class RunScorer implements Scorer {
+  readonly loadedThreshold_N: number;
+  private readonly scenario: ResolvedScenario;
+  private readonly footCount: number;
+  private readonly slipSpeed_mps: number;
+  private readonly pass: StepPass;
+  private readonly tracking: TrackingTracker;
+  private readonly loop: LoopTimeTracker;
+  private readonly tickAsStep = new TickAsStep();
+  private ticks = 0;
+  private steps = 0;
+  private stepsThisTick = 0;
+  /** In an array: a double field written every tick stays unboxed there. */
+  private readonly lastTime_s = new Float64Array(1);
 
-  const recordStep = (step: StepView, held: HeldAction): void => {
-    steps++;
-    stepsThisTick++;
-    margin.recordStep(step);
-    touchdown.recordStep(step, held, margin.margins, margin.marginBins, margin.weight);
-    commanded.recordStep(step, held);
-    slip.recordStep(step);
-    fall.record(step);
-  };
+  constructor(scenario: ResolvedScenario, options: ScorerOptions) {
+    const robot = scenario.plant.robot;
+    const loadedFraction = options.loadedFraction ?? DEFAULT_LOADED_FRACTION;
+    const slipSpeed_mps = options.slipSpeed_mps ?? DEFAULT_SLIP_SPEED_mps;
+    if (!(loadedFraction >= 0)) throw new RangeError(`scorer: loadedFraction ${loadedFraction} must be ≥ 0`);
+    if (!(slipSpeed_mps >= 0)) throw new RangeError(`scorer: slipSpeed_mps ${slipSpeed_mps} must be ≥ 0`);
+    this.scenario = scenario;
+    this.footCount = robot.hips_m.length;
+    this.slipSpeed_mps = slipSpeed_mps;
+    this.loadedThreshold_N = loadedThreshold_N(robot, loadedFraction);
+    this.pass = new StepPass({
+      footCount: this.footCount,
+      loadedThreshold_N: this.loadedThreshold_N,
+      slipSpeed_mps,
+      touchdownTransient_s: options.touchdownTransient_s ?? TOUCHDOWN_TRANSIENT_s,
+      duration_s: scenario.duration_s,
+      settledStart: scenario.plant.initial.start === 'settled',
+      standingHeight_m: robot.standingHeight_m,
+    });
+    this.tracking = new TrackingTracker(commandedTravel_m(scenario.commands, scenario.duration_s));
+    this.loop = new LoopTimeTracker(scenario.control.loopBudget_us);
+  }
 
-  return {
-    recordStep,
-    record(sample: TickSample): void {
-      if (stepsThisTick === 0) recordStep(tickAsStep.view(sample), sample);
-      stepsThisTick = 0;
-      ticks++;
-      lastTime_s = sample.time_s;
-      commanded.endTick();
-      slip.endTick();
-      tracking.record(sample);
-      loop.record(sample.loopTime_us);
-    },
-    get fallen() {
-      return fall.fallen;
-    },
-    get fellAt_s() {
-      return fall.fellAt_s;
-    },
-    get fallReason() {
-      return fall.reason;
-    },
-    loadedThreshold_N: threshold_N,
-    finish(sim: SimInfo): RunMetrics {
-      const duration_s = sim.duration_s ?? lastTime_s;
-      const perFoot: ViolationCounts[] = [];
-      for (let i = 0; i < footCount; i++) {
-        perFoot.push({
-          commanded: commanded.perFoot[i].count,
-          commandedTime_s: commanded.perFoot[i].time_s,
-          slip: slip.perFoot[i].count,
-          slipTime_s: slip.perFoot[i].time_s,
-        });
-      }
-      return {
-        sim: {
-          duration_s,
-          wall_s: sim.wall_s,
-          realTimeFactor: sim.wall_s > 0 ? duration_s / sim.wall_s : null,
-          physicsStep_s: scenario.plant.physics.step_s,
-          controlRate_Hz: scenario.control.rate_Hz,
-          totalMass_kg: totalMass_kg(robot),
+  recordStep(step: StepView, held: HeldAction): void {
+    this.steps++;
+    this.stepsThisTick++;
+    this.pass.recordStep(step, held);
+  }
+
+  record(sample: TickSample): void {
+    if (this.stepsThisTick === 0) this.recordStep(this.tickAsStep.view(sample), sample);
+    this.stepsThisTick = 0;
+    this.ticks++;
+    this.lastTime_s[0] = sample.time_s;
+    this.pass.endTick();
+    this.tracking.record(sample);
+    this.loop.record(sample.loopTime_us);
+  }
+
+  get fallen(): boolean {
+    return this.pass.fall.fallen;
+  }
+
+  get fellAt_s(): number | null {
+    return this.pass.fall.fellAt_s;
+  }
+
+  get fallReason(): FallReason | null {
+    return this.pass.fall.reason;
+  }
+
+  finish(sim: SimInfo): RunMetrics {
+    const { scenario, footCount, pass, tracking } = this;
+    const robot = scenario.plant.robot;
+    const duration_s = sim.duration_s ?? this.lastTime_s[0];
+    const { commanded, slip, fall } = pass;
+    const perFoot: ViolationCounts[] = [];
+    for (let i = 0; i < footCount; i++) {
+      perFoot.push({
+        commanded: commanded.count[i],
+        commandedTime_s: commanded.time_s[i],
+        slip: slip.count[i],
+        slipTime_s: slip.time_s[i],
+      });
+    }
+    return {
+      sim: {
+        duration_s,
+        wall_s: sim.wall_s,
+        realTimeFactor: sim.wall_s > 0 ? duration_s / sim.wall_s : null,
+        physicsStep_s: scenario.plant.physics.step_s,
+        controlRate_Hz: scenario.control.rate_Hz,
+        totalMass_kg: totalMass_kg(robot),
+      },
+      metrics: {
+        ticks: this.ticks,
+        loadedThreshold_N: this.loadedThreshold_N,
+        steps: this.steps,
+        slipSpeed_mps: this.slipSpeed_mps,
+        frictionMargin: pass.margin.result(),
+        stanceMargin: pass.touchdown.stanceMargin(),
+        touchdown: pass.touchdown.result(),
+        violations: {
+          commanded: commanded.count[footCount],
+          commandedTime_s: commanded.time_s[footCount],
+          slip: slip.count[footCount],
+          slipTime_s: slip.time_s[footCount],
+          perFoot,
         },
-        metrics: {
-          ticks,
-          loadedThreshold_N: threshold_N,
-          steps,
-          slipSpeed_mps,
-          frictionMargin: margin.result(),
-          stanceMargin: touchdown.stanceMargin(),
-          touchdown: touchdown.result(),
-          violations: {
-            commanded: commanded.union.count,
-            commandedTime_s: commanded.union.time_s,
-            slip: slip.union.count,
-            slipTime_s: slip.union.time_s,
-            perFoot,
-          },
-          slipDistance_m: slip.totalDistance_m(),
-          slipDistancePerFoot_m: Array.from(slip.distancePerFoot_m),
-          fell: fall.fallen,
-          fellAt_s: fall.fellAt_s,
-          fallReason: fall.reason,
-          trackingRms_m: tracking.rms_m(),
-          commandedTravel_m: tracking.commandedLength_m,
-          progress: tracking.progress(),
-          loopTime_us: loop.result(),
-        },
-      };
-    },
-  };
+        slipDistance_m: totalOf(pass.slipDistance_m),
+        slipDistancePerFoot_m: Array.from(pass.slipDistance_m),
+        fell: fall.fallen,
+        fellAt_s: fall.fellAt_s,
+        fallReason: fall.reason,
+        trackingRms_m: tracking.rms_m(),
+        commandedTravel_m: tracking.commandedLength_m,
+        progress: tracking.progress(),
+        loopTime_us: this.loop.result(),
+      },
+    };
+  }
+}
+
+/** Σ in foot order (the order SlipTracker.totalDistance_m adds in). */
+function totalOf(values: Float64Array): number {
+  let total = 0;
+  for (let i = 0; i < values.length; i++) total += values[i];
+  return total;
 }
 
 /** A tick sample seen as one physics step of the control period (preallocated, fields re-pointed). */

@@ -18,38 +18,38 @@
 
 import { FrictionMarginTracker, marginStats } from './frictionMargin.js';
 import type { Histogram } from './histogram.js';
-import { STANCE } from '../contract/tick.js';
-import type { HeldAction, StepView } from './sample.js';
 import type { FrictionMarginMetrics, Spread, TouchdownMetrics, TouchdownStats } from './types.js';
 
 /** The four values kept per touchdown, in this order. */
-const SLIP = 0;
+export const SLIP = 0;
 const TANGENTIAL = 1;
 const VERTICAL = 2;
-const PEAK = 3;
-const VALUES = 4;
+export const PEAK = 3;
+export const VALUES = 4;
 
+/** Touchdown and stance state per foot, written by the step pass (stepPass.ts), and their metrics. */
 export class TouchdownTracker {
-  private readonly stance: Histogram[] = [];
-  private readonly airborne: Uint8Array;
-  private readonly wasInContact: Uint8Array;
-  private readonly inTransient: Uint8Array;
-  private readonly transientStart_s: Float64Array;
+  /** Per foot, the stance margin's histogram (the margin histograms' bins). */
+  readonly stance: Histogram[] = [];
+  /** 1 after a step out of contact, until the next load. */
+  readonly airborne: Uint8Array;
+  readonly wasInContact: Uint8Array;
+  readonly inTransient: Uint8Array;
+  readonly transientStart_s: Float64Array;
+  /** Per foot: landing speeds at the last contact onset (tangential, vertical). */
+  readonly landing: Float64Array;
   /**
-   * Per foot: landing speeds at the last contact onset (tangential, vertical); and the open
-   * touchdown's slip, peak and landing speeds (latched at its first load, so a bounce inside the
-   * transient does not replace them).
+   * Per foot, the open touchdown's VALUES (slip, landing speeds, peak): the landing speeds are
+   * latched at its first load, so a bounce inside the transient does not replace them.
    */
-  private readonly landing: Float64Array;
-  private readonly open: Float64Array;
+  readonly current: Float64Array;
   private readonly events: Float64Array;
   private readonly eventCount: Int32Array;
   private readonly capacity: number;
 
   constructor(
     private readonly footCount: number,
-    private readonly loadedThreshold_N: number,
-    private readonly transient_s: number,
+    readonly transient_s: number,
     duration_s: number,
     settledStart: boolean,
   ) {
@@ -61,61 +61,19 @@ export class TouchdownTracker {
     this.inTransient = new Uint8Array(footCount);
     this.transientStart_s = new Float64Array(footCount);
     this.landing = new Float64Array(2 * footCount);
-    this.open = new Float64Array(VALUES * footCount);
+    this.current = new Float64Array(VALUES * footCount);
     this.events = new Float64Array(VALUES * this.capacity * footCount);
     this.eventCount = new Int32Array(footCount);
   }
 
-  /**
-   * `margins`, `marginBins`: each loaded foot's friction margin at this step and its histogram bin
-   * (FrictionMarginTracker's, whose histograms have the stance histograms' bins); `weight`: the
-   * step's weight in weight[0] (FrictionMarginTracker.weight).
-   */
-  recordStep(step: StepView, held: HeldAction, margins: Float64Array, marginBins: Int32Array, weight: Float64Array): void {
-    const force = step.footGroundForce_N;
-    const velocity = step.footVelocity_mps;
-    const time_s = step.time_s;
-    const h = step.lastStep_s;
-    // Half a physics step of slack: the transient holds exactly transient_s / step samples.
-    const closeAfter_s = this.transient_s - 0.5 * step.step_s;
-    for (let i = 0; i < this.footCount; i++) {
-      const a = 3 * i;
-      const vx = velocity[a];
-      const vy = velocity[a + 1];
-      const fz = force[a + 2];
-      // In contact exactly when the ground pushes (the plant's own test, plant.ts).
-      if (!(fz > 0)) {
-        this.airborne[i] = 1;
-        this.wasInContact[i] = 0;
-      } else if (this.wasInContact[i] === 0) {
-        this.wasInContact[i] = 1;
-        this.landing[2 * i] = Math.sqrt(vx * vx + vy * vy);
-        this.landing[2 * i + 1] = -velocity[a + 2];
-      }
-      if (this.inTransient[i] === 1 && time_s - this.transientStart_s[i] > closeAfter_s) this.closeTouchdown(i);
-      if (!(fz > this.loadedThreshold_N)) continue;
-      if (this.airborne[i] === 1 && this.inTransient[i] === 1) {
-        // Back down from a bounce: the same touchdown goes on, its transient timed from this load.
-        this.airborne[i] = 0;
-        this.transientStart_s[i] = time_s;
-      } else if (this.airborne[i] === 1) {
-        this.airborne[i] = 0;
-        this.inTransient[i] = 1;
-        this.transientStart_s[i] = time_s;
-        const o = VALUES * i;
-        this.open[o + SLIP] = 0;
-        this.open[o + PEAK] = 0;
-        this.open[o + TANGENTIAL] = this.landing[2 * i];
-        this.open[o + VERTICAL] = this.landing[2 * i + 1];
-      }
-      if (this.inTransient[i] === 1) {
-        const o = VALUES * i;
-        this.open[o + SLIP] += Math.sqrt(vx * vx + vy * vy) * h;
-        if (fz > this.open[o + PEAK]) this.open[o + PEAK] = fz;
-      } else if (held.mode[i] === STANCE) {
-        this.stance[i].addBinnedWeightedFrom(marginBins, margins, i, weight);
-      }
-    }
+  /** A load after time in the air, outside a transient: foot i's touchdown opens. */
+  open(i: number): void {
+    this.inTransient[i] = 1;
+    const o = VALUES * i;
+    this.current[o + SLIP] = 0;
+    this.current[o + PEAK] = 0;
+    this.current[o + TANGENTIAL] = this.landing[2 * i];
+    this.current[o + VERTICAL] = this.landing[2 * i + 1];
   }
 
   stanceMargin(): FrictionMarginMetrics {
@@ -143,12 +101,13 @@ export class TouchdownTracker {
     return { transient_s: this.transient_s, ...touchdownStats(all), perFoot };
   }
 
-  private closeTouchdown(i: number): void {
+  /** Foot i's transient is over: its touchdown is kept. */
+  closeTouchdown(i: number): void {
     this.inTransient[i] = 0;
     const k = this.eventCount[i];
     if (k >= this.capacity) return; // cannot happen: touchdowns are a transient apart
     const base = VALUES * (i * this.capacity + k);
-    for (let v = 0; v < VALUES; v++) this.events[base + v] = this.open[VALUES * i + v];
+    for (let v = 0; v < VALUES; v++) this.events[base + v] = this.current[VALUES * i + v];
     this.eventCount[i] = k + 1;
   }
 }

@@ -22,7 +22,7 @@ function landingRun(build: string, v_mps: number) {
   const base = makeScenario({ id: 'ice-walk' });
   const scenario = makeScenario({ id: 'ice-walk', plant: { ...base.plant, initial: { ...base.plant.initial, start: 'released' } } });
   const scorer = createScorer(scenario);
-  drive(scorer.record, standingSample(), 200, (s, k) => s.footVelocity_mps.set([k < 20 ? v_mps : 0, 0, 0], 0));
+  drive((s) => scorer.record(s), standingSample(), 200, (s, k) => s.footVelocity_mps.set([k < 20 ? v_mps : 0, 0, 0], 0));
   return createRunResult(scenario, build, scorer.finish({ wall_s: 0.2 }));
 }
 

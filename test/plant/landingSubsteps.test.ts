@@ -97,7 +97,7 @@ describe('the plant cuts a landing step into K substeps', () => {
     for (let s = 0; s < 400 && !landed; s++) {
       const above = plant.footPosition_m[2] >= 0;
       seen.length = 0;
-      plant.step(observe);
+      plant.step({ afterSubstep: observe });
       if (above && plant.footPosition_m[2] < 0) {
         landed = true;
         // The approach speed of a free fall from 0.05 m (for a linear spring t_c = π·√(m/k) does
@@ -134,13 +134,15 @@ describe('landing substeps allocate nothing', () => {
     lift.groundForce_N.fill(0, 0, 3);
     plant.applyAction(hold);
     let substeps = 0;
-    const observe = (): void => {
-      substeps++;
+    const observer = {
+      afterSubstep(): void {
+        substeps++;
+      },
     };
     let k = 0;
     const body = (): void => {
       if (++k % 100 === 0) plant.applyAction((k / 100) % 2 === 1 ? lift : hold);
-      plant.step(observe);
+      plant.step(observer);
     };
     const integrationsBefore = plant.integrations;
     const result = await measureSteadyAllocation(200_000, body, (r) => r.collections === 0 && r.bytesPerCall < 1);

@@ -15,7 +15,7 @@ export function scoredRun(
   opts: { fx_N?: number; v_mps?: number; fallAt?: number; loop_us?: number; wantedFx_N?: number } = {},
 ): RunResult {
   const scorer = createScorer(scenario);
-  drive(scorer.record, standingSample(), 1000, (s, k) => {
+  drive((s) => scorer.record(s), standingSample(), 1000, (s, k) => {
     s.footForce_N.set([opts.fx_N ?? 0, 0, 32], 0);
     s.wantedForce_N.set([opts.wantedFx_N ?? 0, 0, 32], 0);
     s.footVelocity_mps.set([opts.v_mps ?? 0, 0, 0], 0);

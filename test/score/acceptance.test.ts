@@ -8,7 +8,7 @@ import { drive, makeScenario, standingSample } from './fixtures.js';
 
 function baseMetrics(): ScoreMetrics {
   const scorer = createScorer(makeScenario());
-  drive(scorer.record, standingSample(), 10);
+  drive((s) => scorer.record(s), standingSample(), 10);
   return scorer.finish({ wall_s: 1 }).metrics;
 }
 

@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { FrictionMarginTracker, frictionMargin } from '../../harness/score/frictionMargin.js';
 import { Histogram } from '../../harness/score/histogram.js';
 import type { StepView } from '../../harness/score/sample.js';
+import { StepPass } from '../../harness/score/stepPass.js';
 
 // Deterministic values without Math.random: a 32-bit linear congruential generator (Numerical
 // Recipes constants 1664525, 1013904223, from memory) mapped to [0, 1).
@@ -71,29 +72,37 @@ describe('Histogram quantiles', () => {
 });
 
 describe('one bin per margin, shared by the margin and stance histograms', () => {
-  it('FrictionMarginTracker bins every loaded margin as Histogram.binOf does, NaN for unloaded feet', () => {
+  it('the step pass bins every loaded margin as frictionMargin() and Histogram.add do, and only loaded feet', () => {
     // 4000 feet-steps of random forces: margins over the whole range, the floor (−1) included.
-    const tracker = new FrictionMarginTracker(4, 5);
-    const histogram = FrictionMarginTracker.marginHistogram();
+    const pass = new StepPass({ footCount: 4, loadedThreshold_N: 5, slipSpeed_mps: 0.02, touchdownTransient_s: 0.02, duration_s: 10, settledStart: true, standingHeight_m: 0.3 });
+    const reference = [0, 1, 2, 3].map(() => FrictionMarginTracker.marginHistogram());
     const force = new Float64Array(12);
     const friction = new Float64Array([0.5, 0.3, 0.9, 0]);
-    const step = { footGroundForce_N: force, footStaticFriction: friction } as unknown as StepView;
+    const step = {
+      time_s: 0, step_s: 0.001, lastStep_s: 0.001, stepWeight: 1, trunkGroundForce_N: 0,
+      trunkPosition_m: new Float64Array([0, 0, 0.3]), trunkQuaternion: new Float64Array([1, 0, 0, 0]),
+      footVelocity_mps: new Float64Array(12), footGroundForce_N: force, footStaticFriction: friction,
+    } satisfies StepView;
+    const held = { mode: new Uint8Array(4), wantedForce_N: new Float64Array(12) };
     const u = uniforms(12_000, 21);
     let loaded = 0;
     for (let k = 0; k < 1000; k++) {
       for (let j = 0; j < 12; j++) force[j] = j % 3 === 2 ? 10 * u[12 * k + j] : 8 * (u[12 * k + j] - 0.5);
-      tracker.recordStep(step);
+      pass.recordStep(step, held);
+      pass.endTick();
       for (let i = 0; i < 4; i++) {
         if (force[3 * i + 2] > 5) {
           loaded++;
-          expect(tracker.margins[i]).toBe(frictionMargin(force[3 * i], force[3 * i + 1], force[3 * i + 2], friction[i]));
-          expect(tracker.marginBins[i]).toBe(histogram.binOf(tracker.margins[i]));
-        } else {
-          expect(tracker.margins[i]).toBeNaN();
+          reference[i].add(frictionMargin(force[3 * i], force[3 * i + 1], force[3 * i + 2], friction[i]));
         }
       }
     }
     expect(loaded).toBeGreaterThan(1000); // about half the samples are loaded (f_n uniform in 0…10 N)
+    for (let i = 0; i < 4; i++) {
+      const histogram = pass.margin.perFoot[i];
+      expect(Array.from(histogram.counts)).toEqual(Array.from(reference[i].counts));
+      expect([histogram.count, histogram.min, histogram.max]).toEqual([reference[i].count, reference[i].min, reference[i].max]);
+    }
   });
 
   it('addBinnedWeightedFrom counts like addWeightedFrom', () => {

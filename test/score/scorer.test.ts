@@ -18,7 +18,7 @@ describe('friction margin', () => {
   it('takes min and p05 over loaded feet only, per foot too', () => {
     const scorer = createScorer(makeScenario());
     const sample = standingSample();
-    drive(scorer.record, sample, 1000, (s, k) => {
+    drive((s) => scorer.record(s), sample, 1000, (s, k) => {
       s.footForce_N.set([3, 4, 50], 0); // foot 0: margin 0.8 throughout
       s.footForce_N.set(k < 100 ? [12, 0, 40] : [0, 0, 40], 3); // foot 1: 0.4 for 10 % of ticks, else 1
       s.footForce_N.set([30, 0, 1], 6); // foot 2: far outside the cone but unloaded (1 N < 6.37 N)
@@ -41,7 +41,7 @@ describe('friction margin', () => {
     expect(loadedThreshold_N(makeScenario().plant.robot)).toBeCloseTo(6.3743225, 6);
     const scorer = createScorer(makeScenario());
     const sample = standingSample();
-    drive(scorer.record, sample, 10, (s) => {
+    drive((s) => scorer.record(s), sample, 10, (s) => {
       for (let i = 0; i < FOOT_COUNT; i++) s.footForce_N.set([1, 0, i < 2 ? 6.37 : 6.38], 3 * i);
     });
     expect(scorer.finish(WALL).metrics.frictionMargin.loadedSamples).toBe(20);
@@ -52,7 +52,7 @@ describe('slip', () => {
   it('integrates the distance of a loaded foot moving at constant speed', () => {
     const scorer = createScorer(makeScenario());
     const sample = standingSample();
-    drive(scorer.record, sample, 1000, (s) => {
+    drive((s) => scorer.record(s), sample, 1000, (s) => {
       s.footVelocity_mps.set([0.06, 0.08, 0.5], 0); // tangential 0.1 m/s (z is ignored)
       s.footVelocity_mps.set([0.01, 0, 0], 3); // below the slip speed: distance, no slip interval
       s.footVelocity_mps.set([1, 0, 0], 6);
@@ -76,7 +76,7 @@ describe('violation intervals', () => {
 
   function commanded(edit: (s: ReturnType<typeof standingSample>, k: number) => void) {
     const scorer = createScorer(makeScenario());
-    drive(scorer.record, standingSample(), ticks, edit);
+    drive((s) => scorer.record(s), standingSample(), ticks, edit);
     return scorer.finish(WALL).metrics.violations;
   }
 
@@ -127,7 +127,7 @@ describe('violation intervals', () => {
 describe('falls', () => {
   function fall(edit: (s: ReturnType<typeof standingSample>, k: number) => void) {
     const scorer = createScorer(makeScenario());
-    drive(scorer.record, standingSample(), 10, edit);
+    drive((s) => scorer.record(s), standingSample(), 10, edit);
     return scorer.finish(WALL).metrics;
   }
   const tilt = (s: ReturnType<typeof standingSample>, deg: number) => {
@@ -168,7 +168,7 @@ describe('falls', () => {
 describe('tracking and progress', () => {
   it('gives the RMS of the horizontal distance to the reference', () => {
     const scorer = createScorer(makeScenario());
-    drive(scorer.record, standingSample(), 100, (s, k) => {
+    drive((s) => scorer.record(s), standingSample(), 100, (s, k) => {
       // Half the ticks 0.03 m off in y, half 0.04 m off in x and 9 m off in z (ignored).
       s.referencePosition_m.set(k % 2 === 0 ? [0, 0.03, 0.3] : [0.04, 0, 9.3]);
     });
@@ -187,7 +187,7 @@ describe('tracking and progress', () => {
     });
     const scorer = createScorer(scenario);
     // The trunk walks 3 m in x and 1 m sideways (ignored by the projection), then stops (fell).
-    drive(scorer.record, standingSample(), 1001, (s, k) => s.trunkPosition_m.set([0.003 * k, 0.001 * k, 0.3]));
+    drive((s) => scorer.record(s), standingSample(), 1001, (s, k) => s.trunkPosition_m.set([0.003 * k, 0.001 * k, 0.3]));
     const { metrics } = scorer.finish(WALL);
     expect(metrics.commandedTravel_m).toBeCloseTo(4, 12);
     expect(metrics.progress).toBeCloseTo(0.75, 12);
@@ -195,7 +195,7 @@ describe('tracking and progress', () => {
 
   it('reports null progress when nothing is commanded', () => {
     const scorer = createScorer(makeScenario());
-    drive(scorer.record, standingSample(), 10);
+    drive((s) => scorer.record(s), standingSample(), 10);
     expect(scorer.finish(WALL).metrics.progress).toBeNull();
   });
 });
@@ -203,7 +203,7 @@ describe('tracking and progress', () => {
 describe('loop time and sim', () => {
   it('counts overruns, keeps the exact max and reports the budget', () => {
     const scorer = createScorer(makeScenario());
-    drive(scorer.record, standingSample(), 1000, (s, k) => (s.loopTime_us = k % 100 === 0 ? 1500 + k : 200));
+    drive((s) => scorer.record(s), standingSample(), 1000, (s, k) => (s.loopTime_us = k % 100 === 0 ? 1500 + k : 200));
     const { metrics, sim } = scorer.finish({ wall_s: 0.25 });
     expect(metrics.loopTime_us.overruns).toBe(10);
     expect(metrics.loopTime_us.max).toBe(2400);
