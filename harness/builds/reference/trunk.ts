@@ -189,7 +189,8 @@ export class TrunkPD {
     b[4] = iw[3] * alphaX + iw[4] * alphaY + (w[2] * hx - w[0] * hz);
     b[5] = iw[6] * alphaX + iw[7] * alphaY + (w[0] * hy - w[1] * hx);
     const c = this.inputWrench;
-    c.fill(0);
+    // A loop, not c.fill(0): the builtin call costs more than the 18 stores.
+    for (let e = 0; e < c.length; e++) c[e] = 0;
     c[0] = m;
     c[7] = m;
     c[15] = iw[2];
