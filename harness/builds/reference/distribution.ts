@@ -11,7 +11,7 @@
 // regularisation puts on any achievable component, so a full-rank stance reproduces w to
 // rounding while the unachievable moment stays the Λ⁻¹-weighted least-squares compromise.
 
-import { choleskyInPlace, choleskySolve6Reciprocal } from './linalg.js';
+import { choleskyInPlace, choleskySolve6ReciprocalMany } from './linalg.js';
 
 /** Right-hand sides solved side by side by solveMany (the controller has 1 + 3). */
 const BATCH = 4;
@@ -105,7 +105,7 @@ export class ForceDistributor {
     const legs = this.legCount, stride = 3 * legs;
     const factor = this.factor, dual = this.duals, correction = this.corrections, residual = this.residuals;
     const arms = this.arms, stance = this.stance, steps = this.refinementSteps;
-    for (let r = 0; r < size; r++) choleskySolve6Reciprocal(dual, 6 * r, factor, this.inverseDiagonal, wrenches, 6 * (first + r));
+    choleskySolve6ReciprocalMany(dual, 0, factor, this.inverseDiagonal, wrenches, 6 * first, size);
     for (let r = 0; r < size; r++) this.applyTransposeAt(forces, (first + r) * stride, dual, 6 * r);
     for (let pass = 0; pass < steps; pass++) {
       for (let r = 0; r < size; r++) {
@@ -128,7 +128,7 @@ export class ForceDistributor {
         residual[ro + 4] = wrenches[wo + 4] - ty;
         residual[ro + 5] = wrenches[wo + 5] - tz;
       }
-      for (let r = 0; r < size; r++) choleskySolve6Reciprocal(correction, 6 * r, factor, this.inverseDiagonal, residual, 6 * r);
+      choleskySolve6ReciprocalMany(correction, 0, factor, this.inverseDiagonal, residual, 0, size);
       for (let r = 0; r < size; r++) {
         const ro = 6 * r;
         for (let k = 0; k < 6; k++) dual[ro + k] += correction[ro + k];

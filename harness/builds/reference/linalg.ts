@@ -102,3 +102,33 @@ export function rotateTransposed(out: Float64Array, o: number, r: Float64Array, 
   out[o + 1] = r[1] * x + r[4] * y + r[7] * z;
   out[o + 2] = r[2] * x + r[5] * y + r[8] * z;
 }
+
+/**
+ * choleskySolve6Reciprocal for `count` right-hand sides packed 6 apiece (b from bo on, x from xo
+ * on): the factor and its reciprocals are read once for all of them rather than once per
+ * right-hand side. Per right-hand side the same operations in the same order, so the same bits.
+ */
+export function choleskySolve6ReciprocalMany(
+  x: Float64Array, xo: number, l: Float64Array, inverse: Float64Array, b: Float64Array, bo: number, count: number,
+): void {
+  const d0 = inverse[0], d1 = inverse[1], d2 = inverse[2], d3 = inverse[3], d4 = inverse[4], d5 = inverse[5];
+  const l6 = l[6], l12 = l[12], l13 = l[13], l18 = l[18], l19 = l[19], l20 = l[20];
+  const l24 = l[24], l25 = l[25], l26 = l[26], l27 = l[27];
+  const l30 = l[30], l31 = l[31], l32 = l[32], l33 = l[33], l34 = l[34];
+  for (let r = 0; r < count; r++) {
+    const i = bo + 6 * r, o = xo + 6 * r;
+    const y0 = b[i] * d0;
+    const y1 = (b[i + 1] - l6 * y0) * d1;
+    const y2 = (b[i + 2] - l12 * y0 - l13 * y1) * d2;
+    const y3 = (b[i + 3] - l18 * y0 - l19 * y1 - l20 * y2) * d3;
+    const y4 = (b[i + 4] - l24 * y0 - l25 * y1 - l26 * y2 - l27 * y3) * d4;
+    const y5 = (b[i + 5] - l30 * y0 - l31 * y1 - l32 * y2 - l33 * y3 - l34 * y4) * d5;
+    const x5 = y5 * d5;
+    const x4 = (y4 - l34 * x5) * d4;
+    const x3 = (y3 - l27 * x4 - l33 * x5) * d3;
+    const x2 = (y2 - l20 * x3 - l26 * x4 - l32 * x5) * d2;
+    const x1 = (y1 - l13 * x2 - l19 * x3 - l25 * x4 - l31 * x5) * d1;
+    const x0 = (y0 - l6 * x1 - l12 * x2 - l18 * x3 - l24 * x4 - l30 * x5) * d0;
+    x[o] = x0; x[o + 1] = x1; x[o + 2] = x2; x[o + 3] = x3; x[o + 4] = x4; x[o + 5] = x5;
+  }
+}
