@@ -41,7 +41,7 @@ export function choleskySolve(x: Float64Array, l: Float64Array, b: Float64Array,
 /**
  * choleskySolve for n = 6, written out (the loop version's bounds checks and index arithmetic
  * were most of its cost). Same operations in the same order as choleskySolve, so the same bits.
- * x may alias b. The force distribution's hot path uses choleskySolve6Reciprocal below.
+ * x may alias b. The force distribution uses choleskySolve6ReciprocalMany below.
  */
 export function choleskySolve6(x: Float64Array, l: Float64Array, b: Float64Array): Float64Array {
   const y0 = b[0] / l[0];
@@ -58,30 +58,6 @@ export function choleskySolve6(x: Float64Array, l: Float64Array, b: Float64Array
   const x0 = (y0 - l[6] * x1 - l[12] * x2 - l[18] * x3 - l[24] * x4 - l[30] * x5) / l[0];
   x[0] = x0; x[1] = x1; x[2] = x2; x[3] = x3; x[4] = x4; x[5] = x5;
   return x;
-}
-
-/**
- * choleskySolve6 reading b from b[bo..bo+6) and writing x to x[xo..xo+6) (several right-hand
- * sides packed in one array share the factor without copies), with the reciprocals of L's diagonal (inverse[k] = 1/L_kk) multiplied in
- * instead of divided by: a division is several times the latency of a multiplication, and the
- * twelve of them sit on the solve's dependency chain. Differs from the divided form only by
- * rounding (one extra rounding per step).
- */
-export function choleskySolve6Reciprocal(x: Float64Array, xo: number, l: Float64Array, inverse: Float64Array, b: Float64Array, bo: number): void {
-  const d0 = inverse[0], d1 = inverse[1], d2 = inverse[2], d3 = inverse[3], d4 = inverse[4], d5 = inverse[5];
-  const y0 = b[bo] * d0;
-  const y1 = (b[bo + 1] - l[6] * y0) * d1;
-  const y2 = (b[bo + 2] - l[12] * y0 - l[13] * y1) * d2;
-  const y3 = (b[bo + 3] - l[18] * y0 - l[19] * y1 - l[20] * y2) * d3;
-  const y4 = (b[bo + 4] - l[24] * y0 - l[25] * y1 - l[26] * y2 - l[27] * y3) * d4;
-  const y5 = (b[bo + 5] - l[30] * y0 - l[31] * y1 - l[32] * y2 - l[33] * y3 - l[34] * y4) * d5;
-  const x5 = y5 * d5;
-  const x4 = (y4 - l[34] * x5) * d4;
-  const x3 = (y3 - l[27] * x4 - l[33] * x5) * d3;
-  const x2 = (y2 - l[20] * x3 - l[26] * x4 - l[32] * x5) * d2;
-  const x1 = (y1 - l[13] * x2 - l[19] * x3 - l[25] * x4 - l[31] * x5) * d1;
-  const x0 = (y0 - l[6] * x1 - l[12] * x2 - l[18] * x3 - l[24] * x4 - l[30] * x5) * d0;
-  x[xo] = x0; x[xo + 1] = x1; x[xo + 2] = x2; x[xo + 3] = x3; x[xo + 4] = x4; x[xo + 5] = x5;
 }
 
 /** Rotation matrix (row-major 3×3, trunk → world) from a unit quaternion: the plant's helper. */
@@ -104,9 +80,13 @@ export function rotateTransposed(out: Float64Array, o: number, r: Float64Array, 
 }
 
 /**
- * choleskySolve6Reciprocal for `count` right-hand sides packed 6 apiece (b from bo on, x from xo
- * on): the factor and its reciprocals are read once for all of them rather than once per
- * right-hand side. Per right-hand side the same operations in the same order, so the same bits.
+ * choleskySolve6 for `count` right-hand sides packed 6 apiece, b read from b[bo..) and x written
+ * to x[xo..) (the distribution's wrenches share one factor without copies), with the reciprocals
+ * of L's diagonal (inverse[k] = 1/L_kk) multiplied in instead of divided by: a division is
+ * several times the latency of a multiplication, and the twelve of them sit on the solve's
+ * dependency chain. Differs from the divided form only by rounding (one extra rounding per step).
+ * The factor and its reciprocals are read once for all right-hand sides (profiled: re-reading
+ * them per right-hand side was a few per cent of a governed tick).
  */
 export function choleskySolve6ReciprocalMany(
   x: Float64Array, xo: number, l: Float64Array, inverse: Float64Array, b: Float64Array, bo: number, count: number,
