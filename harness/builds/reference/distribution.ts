@@ -11,7 +11,7 @@
 // regularisation puts on any achievable component, so a full-rank stance reproduces w to
 // rounding while the unachievable moment stays the Λ⁻¹-weighted least-squares compromise.
 
-import { choleskyInPlace, choleskySolve6ReciprocalMany } from './linalg.js';
+import { choleskyInPlace6, choleskySolve6ReciprocalMany } from './linalg.js';
 
 /** Right-hand sides solved side by side by solveMany (the controller has 1 + 3). */
 const BATCH = 4;
@@ -66,7 +66,7 @@ export class ForceDistributor {
     a[18] = 0; a[19] = -sz; a[20] = sy; a[21] = yy + zz + lt; a[22] = -xy; a[23] = -xz;
     a[24] = sz; a[25] = 0; a[26] = -sx; a[27] = -xy; a[28] = xx + zz + lt; a[29] = -yz;
     a[30] = -sy; a[31] = sx; a[32] = 0; a[33] = -xz; a[34] = -yz; a[35] = xx + yy + lt;
-    if (!choleskyInPlace(a, 6)) return false;
+    if (!choleskyInPlace6(a)) return false;
     for (let k = 0; k < 6; k++) this.inverseDiagonal[k] = 1 / a[7 * k];
     return true;
   }

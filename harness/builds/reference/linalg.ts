@@ -23,6 +23,70 @@ export function choleskyInPlace(a: Float64Array, n: number): boolean {
   return true;
 }
 
+/**
+ * choleskyInPlace for n = 6, written out: the same operations in the same order (so the same
+ * bits, and on a failed pivot the same partly overwritten matrix), with L's entries kept in
+ * locals instead of read back (profiled: the loop version's index arithmetic and bounds checks
+ * were most of the distribution's set-up).
+ */
+export function choleskyInPlace6(a: Float64Array): boolean {
+  const d0 = a[0];
+  if (!(d0 > 0)) return false;
+  const l00 = Math.sqrt(d0);
+  a[0] = l00;
+  const l10 = a[6] / l00;
+  a[6] = l10;
+  const l20 = a[12] / l00;
+  a[12] = l20;
+  const l30 = a[18] / l00;
+  a[18] = l30;
+  const l40 = a[24] / l00;
+  a[24] = l40;
+  const l50 = a[30] / l00;
+  a[30] = l50;
+  const d1 = a[7] - l10 * l10;
+  if (!(d1 > 0)) return false;
+  const l11 = Math.sqrt(d1);
+  a[7] = l11;
+  const l21 = (a[13] - l20 * l10) / l11;
+  a[13] = l21;
+  const l31 = (a[19] - l30 * l10) / l11;
+  a[19] = l31;
+  const l41 = (a[25] - l40 * l10) / l11;
+  a[25] = l41;
+  const l51 = (a[31] - l50 * l10) / l11;
+  a[31] = l51;
+  const d2 = a[14] - l20 * l20 - l21 * l21;
+  if (!(d2 > 0)) return false;
+  const l22 = Math.sqrt(d2);
+  a[14] = l22;
+  const l32 = (a[20] - l30 * l20 - l31 * l21) / l22;
+  a[20] = l32;
+  const l42 = (a[26] - l40 * l20 - l41 * l21) / l22;
+  a[26] = l42;
+  const l52 = (a[32] - l50 * l20 - l51 * l21) / l22;
+  a[32] = l52;
+  const d3 = a[21] - l30 * l30 - l31 * l31 - l32 * l32;
+  if (!(d3 > 0)) return false;
+  const l33 = Math.sqrt(d3);
+  a[21] = l33;
+  const l43 = (a[27] - l40 * l30 - l41 * l31 - l42 * l32) / l33;
+  a[27] = l43;
+  const l53 = (a[33] - l50 * l30 - l51 * l31 - l52 * l32) / l33;
+  a[33] = l53;
+  const d4 = a[28] - l40 * l40 - l41 * l41 - l42 * l42 - l43 * l43;
+  if (!(d4 > 0)) return false;
+  const l44 = Math.sqrt(d4);
+  a[28] = l44;
+  const l54 = (a[34] - l50 * l40 - l51 * l41 - l52 * l42 - l53 * l43) / l44;
+  a[34] = l54;
+  const d5 = a[35] - l50 * l50 - l51 * l51 - l52 * l52 - l53 * l53 - l54 * l54;
+  if (!(d5 > 0)) return false;
+  const l55 = Math.sqrt(d5);
+  a[35] = l55;
+  return true;
+}
+
 /** Solves L·Lᵀ·x = b with the factor from choleskyInPlace; x may alias b. */
 export function choleskySolve(x: Float64Array, l: Float64Array, b: Float64Array, n: number): Float64Array {
   for (let i = 0; i < n; i++) {
