@@ -150,10 +150,12 @@ export function rotateTransposed(out: Float64Array, o: number, r: Float64Array, 
  * several times the latency of a multiplication, and the twelve of them sit on the solve's
  * dependency chain. Differs from the divided form only by rounding (one extra rounding per step).
  * The factor and its reciprocals are read once for all right-hand sides (profiled: re-reading
- * them per right-hand side was a few per cent of a governed tick).
+ * them per right-hand side was a few per cent of a governed tick). accumulate: x += the solution
+ * (an iterative refinement's correction) instead of x = it; x must then not alias b.
  */
 export function choleskySolve6ReciprocalMany(
   x: Float64Array, xo: number, l: Float64Array, inverse: Float64Array, b: Float64Array, bo: number, count: number,
+  accumulate: boolean,
 ): void {
   const d0 = inverse[0], d1 = inverse[1], d2 = inverse[2], d3 = inverse[3], d4 = inverse[4], d5 = inverse[5];
   const l6 = l[6], l12 = l[12], l13 = l[13], l18 = l[18], l19 = l[19], l20 = l[20];
@@ -173,6 +175,10 @@ export function choleskySolve6ReciprocalMany(
     const x2 = (y2 - l20 * x3 - l26 * x4 - l32 * x5) * d2;
     const x1 = (y1 - l13 * x2 - l19 * x3 - l25 * x4 - l31 * x5) * d1;
     const x0 = (y0 - l6 * x1 - l12 * x2 - l18 * x3 - l24 * x4 - l30 * x5) * d0;
-    x[o] = x0; x[o + 1] = x1; x[o + 2] = x2; x[o + 3] = x3; x[o + 4] = x4; x[o + 5] = x5;
+    if (accumulate) {
+      x[o] += x0; x[o + 1] += x1; x[o + 2] += x2; x[o + 3] += x3; x[o + 4] += x4; x[o + 5] += x5;
+    } else {
+      x[o] = x0; x[o + 1] = x1; x[o + 2] = x2; x[o + 3] = x3; x[o + 4] = x4; x[o + 5] = x5;
+    }
   }
 }
