@@ -253,8 +253,9 @@ export class ReferenceController implements Controller {
 
   private composeForces(): void {
     const f = this.forces, u = this.pd.input, stride = 3 * this.legCount;
+    const base = this.baseForces, input = this.inputForces, u0 = u[0], u1 = u[1], u2 = u[2];
     for (let k = 0; k < stride; k++) {
-      f[k] = this.baseForces[k] + this.inputForces[k] * u[0] + this.inputForces[stride + k] * u[1] + this.inputForces[2 * stride + k] * u[2];
+      f[k] = base[k] + input[k] * u0 + input[stride + k] * u1 + input[2 * stride + k] * u2;
     }
     const mode = this.scheduler.mode;
     if (this.variant.post === 'clamp') {

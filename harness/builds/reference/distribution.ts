@@ -11,7 +11,7 @@
 // regularisation puts on any achievable component, so a full-rank stance reproduces w to
 // rounding while the unachievable moment stays the Λ⁻¹-weighted least-squares compromise.
 
-import { choleskyInPlace, choleskySolve6Reciprocal } from './linalg.js';
+import { choleskyInPlace6, choleskySolve6ReciprocalMany } from './linalg.js';
 
 /** Right-hand sides solved side by side by solveMany (the controller has 1 + 3). */
 const BATCH = 4;
@@ -25,10 +25,11 @@ export class ForceDistributor {
   readonly arms: Float64Array;
   readonly stance: Uint8Array;
   stanceCount = 0;
+  /** The stance legs in ascending order (the first stanceCount entries), for branch-free loops. */
+  private readonly stanceLegs: Int32Array;
   private readonly factor = new Float64Array(36);
   private readonly inverseDiagonal = new Float64Array(6);
   private readonly duals = new Float64Array(6 * BATCH);
-  private readonly corrections = new Float64Array(6 * BATCH);
   private readonly residuals = new Float64Array(6 * BATCH);
 
   constructor(legCount: number, forceRegularisation: number, momentRegularisation_m2: number, refinementSteps: number) {
@@ -38,18 +39,21 @@ export class ForceDistributor {
     this.refinementSteps = refinementSteps;
     this.arms = new Float64Array(3 * legCount);
     this.stance = new Uint8Array(legCount);
+    this.stanceLegs = new Int32Array(legCount);
   }
 
   /** Builds and factorises A·Aᵀ + Λ for this stance set. Returns false if the factorisation failed. */
   prepare(stance: Uint8Array, arms: Float64Array): boolean {
     let n = 0, sx = 0, sy = 0, sz = 0, xx = 0, yy = 0, zz = 0, xy = 0, xz = 0, yz = 0;
+    const ownStance = this.stance, ownArms = this.arms, stanceLegs = this.stanceLegs;
     for (let i = 0; i < this.legCount; i++) {
-      this.stance[i] = stance[i];
+      ownStance[i] = stance[i];
       const x = arms[3 * i], y = arms[3 * i + 1], z = arms[3 * i + 2];
-      this.arms[3 * i] = x;
-      this.arms[3 * i + 1] = y;
-      this.arms[3 * i + 2] = z;
+      ownArms[3 * i] = x;
+      ownArms[3 * i + 1] = y;
+      ownArms[3 * i + 2] = z;
       if (stance[i] === 0) continue;
+      stanceLegs[n] = i;
       n++;
       sx += x; sy += y; sz += z;
       xx += x * x; yy += y * y; zz += z * z;
@@ -66,7 +70,7 @@ export class ForceDistributor {
     a[18] = 0; a[19] = -sz; a[20] = sy; a[21] = yy + zz + lt; a[22] = -xy; a[23] = -xz;
     a[24] = sz; a[25] = 0; a[26] = -sx; a[27] = -xy; a[28] = xx + zz + lt; a[29] = -yz;
     a[30] = -sy; a[31] = sx; a[32] = 0; a[33] = -xz; a[34] = -yz; a[35] = xx + yy + lt;
-    if (!choleskyInPlace(a, 6)) return false;
+    if (!choleskyInPlace6(a)) return false;
     for (let k = 0; k < 6; k++) this.inverseDiagonal[k] = 1 / a[7 * k];
     return true;
   }
@@ -99,21 +103,24 @@ export class ForceDistributor {
    * Right-hand sides first … first + size − 1, phase by phase: the solves of different
    * right-hand sides are independent, so issuing them back to back lets the processor overlap
    * their (latency-bound) dependency chains, where one right-hand side after the other
-   * serialised them.
+   * serialised them. Loops run over the stance legs only (swing legs' forces are zeroed once);
+   * each refinement's correction is added to the dual as it is solved (the same sum y + δy).
    */
   private solveBatch(forces: Float64Array, wrenches: Float64Array, first: number, size: number): void {
-    const legs = this.legCount, stride = 3 * legs;
-    const factor = this.factor, dual = this.duals, correction = this.corrections, residual = this.residuals;
-    const arms = this.arms, stance = this.stance, steps = this.refinementSteps;
-    for (let r = 0; r < size; r++) choleskySolve6Reciprocal(dual, 6 * r, factor, this.inverseDiagonal, wrenches, 6 * (first + r));
-    for (let r = 0; r < size; r++) this.applyTransposeAt(forces, (first + r) * stride, dual, 6 * r);
+    const stride = 3 * this.legCount, feet = this.stanceCount, stanceLegs = this.stanceLegs;
+    const factor = this.factor, inverse = this.inverseDiagonal, dual = this.duals, residual = this.residuals;
+    const arms = this.arms, steps = this.refinementSteps;
+    choleskySolve6ReciprocalMany(dual, 0, factor, inverse, wrenches, 6 * first, size, false);
+    for (let r = 0; r < size; r++) {
+      this.zeroSwingForces(forces, (first + r) * stride);
+      this.applyTransposeAt(forces, (first + r) * stride, dual, 6 * r);
+    }
     for (let pass = 0; pass < steps; pass++) {
       for (let r = 0; r < size; r++) {
         const fo = (first + r) * stride, wo = 6 * (first + r), ro = 6 * r;
         let fx = 0, fy = 0, fz = 0, tx = 0, ty = 0, tz = 0;
-        for (let i = 0; i < legs; i++) {
-          if (stance[i] === 0) continue;
-          const o = 3 * i, p = fo + o;
+        for (let a = 0; a < feet; a++) {
+          const o = 3 * stanceLegs[a], p = fo + o;
           const x = arms[o], y = arms[o + 1], z = arms[o + 2];
           const px = forces[p], py = forces[p + 1], pz = forces[p + 2];
           fx += px; fy += py; fz += pz;
@@ -128,25 +135,27 @@ export class ForceDistributor {
         residual[ro + 4] = wrenches[wo + 4] - ty;
         residual[ro + 5] = wrenches[wo + 5] - tz;
       }
-      for (let r = 0; r < size; r++) choleskySolve6Reciprocal(correction, 6 * r, factor, this.inverseDiagonal, residual, 6 * r);
-      for (let r = 0; r < size; r++) {
-        const ro = 6 * r;
-        for (let k = 0; k < 6; k++) dual[ro + k] += correction[ro + k];
-        this.applyTransposeAt(forces, (first + r) * stride, dual, ro);
-      }
+      choleskySolve6ReciprocalMany(dual, 0, factor, inverse, residual, 0, size, true);
+      for (let r = 0; r < size; r++) this.applyTransposeAt(forces, (first + r) * stride, dual, 6 * r);
     }
   }
 
-  /** f_i = y_F + y_τ × r_i for stance legs (this is Aᵀ·y), y from y[yo], f written from forces[fo] on. */
+  /** Zero forces for the swing legs of the right-hand side whose forces start at forces[fo]. */
+  private zeroSwingForces(forces: Float64Array, fo: number): void {
+    const stance = this.stance;
+    for (let i = 0; i < this.legCount; i++) {
+      if (stance[i] !== 0) continue;
+      const p = fo + 3 * i;
+      forces[p] = 0; forces[p + 1] = 0; forces[p + 2] = 0;
+    }
+  }
+
+  /** f_i = y_F + y_τ × r_i for the stance legs (this is Aᵀ·y), y from y[yo], f written from forces[fo] on. */
   private applyTransposeAt(forces: Float64Array, fo: number, y: Float64Array, yo: number): void {
     const fx = y[yo], fy = y[yo + 1], fz = y[yo + 2], tx = y[yo + 3], ty = y[yo + 4], tz = y[yo + 5];
-    const arms = this.arms, stance = this.stance;
-    for (let i = 0; i < this.legCount; i++) {
-      const o = 3 * i, p = fo + o;
-      if (stance[i] === 0) {
-        forces[p] = 0; forces[p + 1] = 0; forces[p + 2] = 0;
-        continue;
-      }
+    const arms = this.arms, stanceLegs = this.stanceLegs, feet = this.stanceCount;
+    for (let a = 0; a < feet; a++) {
+      const o = 3 * stanceLegs[a], p = fo + o;
       const x = arms[o], yy = arms[o + 1], z = arms[o + 2];
       forces[p] = fx + (ty * z - tz * yy);
       forces[p + 1] = fy + (tz * x - tx * z);

@@ -88,7 +88,8 @@ export class ExplicitReferenceGovernor {
   }
   private readonly jumpNorm: Float64Array;
   private readonly field: Float64Array;
-  // Nonzero patterns (compressed rows) of P, P⁻¹ and the columns of S, fixed at construction.
+  // Nonzero patterns (compressed rows) of P, P⁻¹ and the columns of S, fixed at construction
+  // (P⁻¹'s and S's are read by a caller that refreshes its constraints itself: governor.ts).
   // The trunk's P is block-diagonal and S has one entry per column, so the per-constraint
   // quadratic forms touch a third of the n×n entries; skipping exact zeros changes no sum
   // (x + 0 = x), so the results are those of the dense loops (profiled: the dense
@@ -98,10 +99,10 @@ export class ExplicitReferenceGovernor {
   private readonly pValue: Float64Array;
   private readonly piStart: Int32Array;
   private readonly piIndex: Int32Array;
-  private readonly piValue: Float64Array;
+  readonly piValue: Float64Array;
   private readonly sStart: Int32Array;
-  private readonly sIndex: Int32Array;
-  private readonly sValue: Float64Array;
+  readonly sIndex: Int32Array;
+  readonly sValue: Float64Array;
 
   constructor(config: GovernorConfig) {
     const m = config.referenceDimension, n = config.stateDimension, k = config.maxConstraints;
@@ -150,28 +151,14 @@ export class ExplicitReferenceGovernor {
    * True when m = 3, n = 6, P⁻¹ is block-diagonal in three full 2×2 blocks and each column of S
    * has exactly one nonzero: the trunk governor's shape, for which refreshConstraint is written out.
    */
-  private readonly blockPattern: boolean;
+  readonly blockPattern: boolean;
   /** 1 where scale[j] === 1. */
-  private readonly unitScale: Uint8Array;
+  readonly unitScale: Uint8Array;
 
   /** Recomputes the cached denominator, Sᵀc and repulsion normal of constraint k (set kinds[k] first). */
   refreshConstraint(k: number): void {
     if (this.blockPattern) this.refreshBlockConstraint(k);
     else this.refreshGenericConstraint(k);
-  }
-
-  /**
-   * refreshConstraint(k) for k = first … first + count − 1 (a foot's six sides): one call instead
-   * of six, the same arithmetic per constraint (profiled: the per-constraint calls were not
-   * inlined and their overhead was a third of the refresh).
-   */
-  refreshConstraints(first: number, count: number): void {
-    const end = first + count;
-    if (this.blockPattern) {
-      for (let k = first; k < end; k++) this.refreshBlockConstraint(k);
-    } else {
-      for (let k = first; k < end; k++) this.refreshGenericConstraint(k);
-    }
   }
 
   /**

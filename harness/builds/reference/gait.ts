@@ -60,13 +60,16 @@ export class GaitScheduler {
 
   /** Advance by one control period under the commanded gait and refresh every per-leg field. */
   update(gait: GaitName): void {
-    this.liftOff.fill(0);
-    this.touchDown.fill(0);
+    const legs = this.legCount;
+    // Element loops, not TypedArray.fill: for four legs the builtin call costs more than the
+    // stores (profiled, a few per cent of a tick).
+    for (let i = 0; i < legs; i++) {
+      this.liftOff[i] = 0;
+      this.touchDown[i] = 0;
+    }
     if (!this.trotting) {
       if (gait !== 'trot') {
-        this.mode.fill(STANCE);
-        this.swingProgress.fill(0);
-        this.swingRemaining_s.fill(0);
+        this.standStill();
         return;
       }
       this.trotting = true;
@@ -106,10 +109,17 @@ export class GaitScheduler {
     for (let i = 0; i < this.legCount; i++) justLifted += this.liftOff[i];
     if (swinging !== 0 && !(touchedDown > 0 && justLifted === swinging)) return;
     this.trotting = false;
-    this.mode.fill(STANCE);
-    this.liftOff.fill(0);
-    this.swingProgress.fill(0);
-    this.swingRemaining_s.fill(0);
+    for (let i = 0; i < this.legCount; i++) this.liftOff[i] = 0;
+    this.standStill();
+  }
+
+  /** Every leg in stance with no swing progress (stand, and the tick a trot stops). */
+  private standStill(): void {
+    for (let i = 0; i < this.legCount; i++) {
+      this.mode[i] = STANCE;
+      this.swingProgress[i] = 0;
+      this.swingRemaining_s[i] = 0;
+    }
   }
 
   /** Number of legs in stance this tick. */

@@ -75,6 +75,12 @@ export class TrunkGovernor {
       period_s: config.period_s,
     });
     this.applied = this.erg.applied;
+    // linearise() refreshes the stance constraints itself for this shape: P⁻¹ in three full 2×2
+    // blocks, column j of S nonzero in row 2j + 1 only (the velocity error of axis j).
+    const sIndex = this.erg.sIndex;
+    if (!this.erg.blockPattern || sIndex[0] !== 1 || sIndex[1] !== 3 || sIndex[2] !== 5) {
+      throw new Error('trunk governor: P⁻¹ or S lost its block pattern');
+    }
     this.maxSpeed_mps = config.maxSpeed_mps;
     this.maxYawRate_radps = config.maxYawRate_radps;
     // The speed bounds do not depend on the state: built (and refreshed) once here, copied into
@@ -135,6 +141,16 @@ export class TrunkGovernor {
     const erg = this.erg, legs = this.legCount, stride = 3 * legs;
     const rows = erg.rows, referenceRows = erg.referenceRows, bounds = erg.bounds, kinds = erg.kinds;
     const kp = this.kp, kd = this.kd, sens = this.sensitivity, heldSpeedBound = this.heldSpeedBound;
+    const kp0 = kp[0], kp1 = kp[1], kp2 = kp[2], kd0 = kd[0], kd1 = kd[1], kd2 = kd[2];
+    const weights = erg.inverseSqrtDenominator, jumpRows = erg.jumpRows, normals = erg.repulsionNormal;
+    const inverseNorms = erg.repulsionInverseNorm;
+    // P⁻¹'s three 2×2 blocks and S's one entry per column (checked in the constructor).
+    const pv = erg.piValue, sValue = erg.sValue, scale = erg.scale, unit = erg.unitScale;
+    const p0 = pv[0], p1 = pv[1], p2 = pv[2], p3 = pv[3], p4 = pv[4], p5 = pv[5];
+    const p6 = pv[6], p7 = pv[7], p8 = pv[8], p9 = pv[9], p10 = pv[10], p11 = pv[11];
+    const sv0 = sValue[0], sv1 = sValue[1], sv2 = sValue[2];
+    const scale0 = scale[0], scale1 = scale[1], scale2 = scale[2];
+    const unit0 = unit[0] === 1, unit1 = unit[1] === 1, unit2 = unit[2] === 1;
     let k = 0;
     for (let i = 0; i < legs; i++) {
       if (stance[i] === 0) continue;
@@ -161,20 +177,58 @@ export class TrunkGovernor {
         sens[so + 5] = 0 * gx + 0 * gy + 1 * gz;
       }
       for (let side = 0; side < CONSTRAINTS_PER_FOOT; side++) {
-        const rowOffset = k * 6;
-        for (let axis = 0; axis < GOVERNED_AXES; axis++) {
-          const sensitivity = sens[6 * axis + side];
-          rows[rowOffset + 2 * axis] = -sensitivity * kp[axis];
-          rows[rowOffset + 2 * axis + 1] = -sensitivity * kd[axis];
-        }
+        const rowOffset = k * 6, mo = k * GOVERNED_AXES;
+        const sx = sens[side], sy = sens[6 + side], sw = sens[12 + side];
+        const c0 = -sx * kp0, c1 = -sx * kd0, c2 = -sy * kp1, c3 = -sy * kd1, c4 = -sw * kp2, c5 = -sw * kd2;
+        rows[rowOffset] = c0;
+        rows[rowOffset + 1] = c1;
+        rows[rowOffset + 2] = c2;
+        rows[rowOffset + 3] = c3;
+        rows[rowOffset + 4] = c4;
+        rows[rowOffset + 5] = c5;
         if (heldSpeedBound[k] === 1) {
-          for (let axis = 0; axis < GOVERNED_AXES; axis++) referenceRows[k * GOVERNED_AXES + axis] = 0;
+          for (let axis = 0; axis < GOVERNED_AXES; axis++) referenceRows[mo + axis] = 0;
           kinds[k] = INSTANT;
           heldSpeedBound[k] = 0;
         }
+        // erg.refreshConstraint(k) written out for this entry (INSTANT, zero reference row), on
+        // the row still in registers: the same products summed in the same order, so the same
+        // bits (profiled: writing the rows and reading them back in a separate pass per foot was
+        // a tenth of a governed tick).
+        let s = 0;
+        s += c0 * p0 * c0;
+        s += c0 * p1 * c1;
+        s += c1 * p2 * c0;
+        s += c1 * p3 * c1;
+        s += c2 * p4 * c2;
+        s += c2 * p5 * c3;
+        s += c3 * p6 * c2;
+        s += c3 * p7 * c3;
+        s += c4 * p8 * c4;
+        s += c4 * p9 * c5;
+        s += c5 * p10 * c4;
+        s += c5 * p11 * c5;
+        weights[k] = s > 1e-300 ? 1 / Math.sqrt(s) : 0;
+        const t0 = 0 + sv0 * c1, t1 = 0 + sv1 * c3, t2 = 0 + sv2 * c5;
+        jumpRows[mo] = t0;
+        jumpRows[mo + 1] = t1;
+        jumpRows[mo + 2] = t2;
+        // The reference row is zero (+0), so n = 0 + Sᵀc; x/1 = x, so unit axes skip the division.
+        let n0 = 0 + t0, n1 = 0 + t1, n2 = 0 + t2;
+        if (!unit0) n0 /= scale0;
+        if (!unit1) n1 /= scale1;
+        if (!unit2) n2 /= scale2;
+        let norm2 = 0;
+        norm2 += n0 * n0;
+        norm2 += n1 * n1;
+        norm2 += n2 * n2;
+        const inverseNorm = norm2 > 0 ? 1 / Math.sqrt(norm2) : 0;
+        inverseNorms[k] = inverseNorm;
+        normals[mo] = n0 * inverseNorm;
+        normals[mo + 1] = n1 * inverseNorm;
+        normals[mo + 2] = n2 * inverseNorm;
         k++;
       }
-      erg.refreshConstraints(k - CONSTRAINTS_PER_FOOT, CONSTRAINTS_PER_FOOT);
     }
     // Unchanged since they were copied unless the stance count moved them (nothing else writes
     // past the stance constraints), so the table holds what copying every tick would give.

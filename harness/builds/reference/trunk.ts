@@ -25,7 +25,6 @@ export class TrunkState {
   /** Hip positions relative to the centre of mass, world frame (3 per leg). */
   readonly hipArms: Float64Array;
   private readonly inertiaBody = new Float64Array(9);
-  private readonly scratch = new Float64Array(9);
 
   constructor(robot: RobotParams) {
     this.hipArms = new Float64Array(3 * robot.hips_m.length);
@@ -43,18 +42,29 @@ export class TrunkState {
     rotate(this.angularVelocityWorld, 0, rot, obs.trunkAngularVelocity_radps, 0);
     const legs = hipsBody.length / 3;
     for (let i = 0; i < legs; i++) rotate(this.hipArms, 3 * i, rot, hipsBody, 3 * i);
-    // I_w = R·I·Rᵀ, via scratch = I·Rᵀ.
-    const ib = this.inertiaBody, s = this.scratch, iw = this.inertiaWorld;
-    for (let r = 0; r < 3; r++) {
-      for (let c = 0; c < 3; c++) {
-        s[3 * r + c] = ib[3 * r] * rot[3 * c] + ib[3 * r + 1] * rot[3 * c + 1] + ib[3 * r + 2] * rot[3 * c + 2];
-      }
-    }
-    for (let r = 0; r < 3; r++) {
-      for (let c = 0; c < 3; c++) {
-        iw[3 * r + c] = rot[3 * r] * s[c] + rot[3 * r + 1] * s[3 + c] + rot[3 * r + 2] * s[6 + c];
-      }
-    }
+    // I_w = R·I·Rᵀ, via S = I·Rᵀ, written out in locals (the same products and sums as the
+    // 3×3 loops, so the same bits; profiled: the loops' index arithmetic cost more than the sums).
+    const ib = this.inertiaBody, iw = this.inertiaWorld;
+    const r0 = rot[0], r1 = rot[1], r2 = rot[2], r3 = rot[3], r4 = rot[4], r5 = rot[5], r6 = rot[6], r7 = rot[7], r8 = rot[8];
+    const i0 = ib[0], i1 = ib[1], i2 = ib[2], i3 = ib[3], i4 = ib[4], i5 = ib[5], i6 = ib[6], i7 = ib[7], i8 = ib[8];
+    const s0 = i0 * r0 + i1 * r1 + i2 * r2;
+    const s1 = i0 * r3 + i1 * r4 + i2 * r5;
+    const s2 = i0 * r6 + i1 * r7 + i2 * r8;
+    const s3 = i3 * r0 + i4 * r1 + i5 * r2;
+    const s4 = i3 * r3 + i4 * r4 + i5 * r5;
+    const s5 = i3 * r6 + i4 * r7 + i5 * r8;
+    const s6 = i6 * r0 + i7 * r1 + i8 * r2;
+    const s7 = i6 * r3 + i7 * r4 + i8 * r5;
+    const s8 = i6 * r6 + i7 * r7 + i8 * r8;
+    iw[0] = r0 * s0 + r1 * s3 + r2 * s6;
+    iw[1] = r0 * s1 + r1 * s4 + r2 * s7;
+    iw[2] = r0 * s2 + r1 * s5 + r2 * s8;
+    iw[3] = r3 * s0 + r4 * s3 + r5 * s6;
+    iw[4] = r3 * s1 + r4 * s4 + r5 * s7;
+    iw[5] = r3 * s2 + r4 * s5 + r5 * s8;
+    iw[6] = r6 * s0 + r7 * s3 + r8 * s6;
+    iw[7] = r6 * s1 + r7 * s4 + r8 * s7;
+    iw[8] = r6 * s2 + r7 * s5 + r8 * s8;
   }
 }
 
@@ -189,7 +199,8 @@ export class TrunkPD {
     b[4] = iw[3] * alphaX + iw[4] * alphaY + (w[2] * hx - w[0] * hz);
     b[5] = iw[6] * alphaX + iw[7] * alphaY + (w[0] * hy - w[1] * hx);
     const c = this.inputWrench;
-    c.fill(0);
+    // A loop, not c.fill(0): the builtin call costs more than the 18 stores.
+    for (let e = 0; e < c.length; e++) c[e] = 0;
     c[0] = m;
     c[7] = m;
     c[15] = iw[2];
