@@ -17,12 +17,18 @@ export function frictionMargin(fx_N: number, fy_N: number, fz_N: number, staticF
   return margin < MARGIN_FLOOR ? MARGIN_FLOOR : margin;
 }
 
-/** The per-foot histograms of loaded margins (filled by the step pass, stepPass.ts). */
+/**
+ * The per-foot histograms of loaded margins outside stance (touchdown transients, loaded legs in
+ * swing mode), filled by the step pass (stepPass.ts); the stance samples are in the touchdown
+ * tracker's stance histograms. Each sample is added once, to one of the two, and the margin's
+ * statistics merge both: exactly, since every weight is 1 or 1/2^k (a landing's K is a power of
+ * two), so every bin's sum is exact in any order.
+ */
 export class FrictionMarginTracker {
-  readonly perFoot: Histogram[] = [];
+  readonly outsideStance: Histogram[] = [];
 
   constructor(footCount: number) {
-    for (let i = 0; i < footCount; i++) this.perFoot.push(FrictionMarginTracker.marginHistogram());
+    for (let i = 0; i < footCount; i++) this.outsideStance.push(FrictionMarginTracker.marginHistogram());
   }
 
   /** A histogram with the margin bins (the stance histograms share them, so one bin index serves both). */
@@ -30,11 +36,17 @@ export class FrictionMarginTracker {
     return Histogram.linear(MARGIN_FLOOR, 1, MARGIN_BIN_WIDTH);
   }
 
-  /** The overall statistics merge the per-foot histograms (same bins), so each sample is added once. */
-  result(): FrictionMarginMetrics {
+  /** Per foot: these samples and `stance[i]`'s; overall: every foot's (same bins throughout). */
+  result(stance: readonly Histogram[]): FrictionMarginMetrics {
+    const perFoot = this.outsideStance.map((outside, i) => {
+      const foot = outside.emptyCopy();
+      foot.addAll(outside);
+      foot.addAll(stance[i]);
+      return foot;
+    });
     const all = FrictionMarginTracker.marginHistogram();
-    for (const foot of this.perFoot) all.addAll(foot);
-    return { ...marginStats(all), perFoot: this.perFoot.map(marginStats) };
+    for (const foot of perFoot) all.addAll(foot);
+    return { ...marginStats(all), perFoot: perFoot.map(marginStats) };
   }
 }
 

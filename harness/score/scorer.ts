@@ -141,7 +141,7 @@ class RunScorer implements Scorer {
         loadedThreshold_N: this.loadedThreshold_N,
         steps: this.steps,
         slipSpeed_mps: this.slipSpeed_mps,
-        frictionMargin: pass.margin.result(),
+        frictionMargin: pass.margin.result(pass.touchdown.stance),
         stanceMargin: pass.touchdown.stanceMargin(),
         touchdown: pass.touchdown.result(),
         violations: {

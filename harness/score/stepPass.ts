@@ -27,7 +27,7 @@ export interface StepPassOptions {
 }
 
 export class StepPass {
-  /** Friction margin of every loaded sample, per foot. */
+  /** Friction margin of the loaded samples outside stance, per foot (with the stance ones: the margin). */
   readonly margin: FrictionMarginTracker;
   readonly touchdown: TouchdownTracker;
   /** Commanded violations: channel i is foot i, channel footCount the union over feet. */
@@ -41,7 +41,7 @@ export class StepPass {
   private readonly footCount: number;
   private readonly loadedThreshold_N: number;
   private readonly slipSpeed_mps: number;
-  private readonly marginHistograms: Histogram[];
+  private readonly outsideStanceHistograms: Histogram[];
   private readonly stanceHistograms: Histogram[];
   private readonly lastBin: number;
   /** Constants read once: an imported binding read in the loop cost a heap number per foot (measured). */
@@ -67,9 +67,9 @@ export class StepPass {
     this.slip = new IntervalBank(n + 1);
     this.slipDistance_m = new Float64Array(n);
     this.fall = new FallDetector(options.standingHeight_m);
-    this.marginHistograms = this.margin.perFoot;
+    this.outsideStanceHistograms = this.margin.outsideStance;
     this.stanceHistograms = this.touchdown.stance;
-    this.lastBin = this.marginHistograms[0].counts.length - 1;
+    this.lastBin = this.stanceHistograms[0].counts.length - 1;
     this.margins = new Float64Array(n);
     this.bins = new Int32Array(n);
     this.wantedTangential_N = new Float64Array(n);
@@ -144,7 +144,6 @@ export class StepPass {
       const rawBin = Math.floor((margin - floor) / this.binWidth);
       this.margins[i] = margin;
       this.bins[i] = rawBin < 0 ? 0 : rawBin > this.lastBin ? this.lastBin : rawBin;
-      this.marginHistograms[i].addBinnedWeightedFrom(this.bins, this.margins, i, this.weight);
 
       // Slip of a loaded foot: distance ∫|v_t| dt, sliding when |v_t| exceeds the slip speed.
       const speed_mps = Math.sqrt(vx * vx + vy * vy);
@@ -155,7 +154,8 @@ export class StepPass {
       }
 
       // Touchdown or stance: a load after time in the air opens a touchdown (or, inside a
-      // transient, times it again after a bounce); stance samples feed the stance margin.
+      // transient, times it again after a bounce); stance samples feed the stance margin, the
+      // others the margin outside stance (the friction margin is both, merged at the end).
       if (td.airborne[i] === 1) {
         td.airborne[i] = 0;
         if (td.inTransient[i] === 0) td.open(i);
@@ -166,9 +166,9 @@ export class StepPass {
         const o = VALUES * i;
         td.current[o + SLIP] += speed_mps * h;
         if (fz > td.current[o + PEAK]) td.current[o + PEAK] = fz;
-      } else if (mode[i] === STANCE) {
-        this.stanceHistograms[i].addBinnedWeightedFrom(this.bins, this.margins, i, this.weight);
       }
+      if (td.inTransient[i] === 0 && mode[i] === STANCE) this.stanceHistograms[i].addBinnedWeightedFrom(this.bins, this.margins, i, this.weight);
+      else this.outsideStanceHistograms[i].addBinnedWeightedFrom(this.bins, this.margins, i, this.weight);
     }
     if (anyCommanded) this.commanded.step(n, h);
     if (anySlip) this.slip.step(n, h);
