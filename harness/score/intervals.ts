@@ -31,11 +31,6 @@ export class IntervalCounter {
     this.step(active, dt_s);
     this.endTick();
   }
-
-  /** Whether the tick being recorded has been active so far (the tick's worst case). */
-  get tickActive(): boolean {
-    return this.activeThisTick;
-  }
 }
 
 /** IntervalCounters side by side (one per foot and their union), in typed arrays for the step pass. */

@@ -165,7 +165,7 @@ class RunScorer implements Scorer {
   }
 }
 
-/** Σ in foot order (the order SlipTracker.totalDistance_m adds in). */
+/** Σ in foot order. */
 function totalOf(values: Float64Array): number {
   let total = 0;
   for (let i = 0; i < values.length; i++) total += values[i];

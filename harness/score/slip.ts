@@ -4,7 +4,7 @@
 // v_t is the foot velocity's (x, y) part, tangential to the ground plane z = 0.
 
 import { IntervalCounter } from './intervals.js';
-import type { StepView, TickSample } from './sample.js';
+import type { TickSample } from './sample.js';
 
 export class SlipTracker {
   readonly union = new IntervalCounter();
@@ -24,11 +24,6 @@ export class SlipTracker {
     this.loaded = new Uint8Array(footCount);
     this.sliding = new Uint8Array(footCount);
     for (let i = 0; i < footCount; i++) this.perFoot.push(new IntervalCounter());
-  }
-
-  /** One physics step; call endTick() after the tick's last step. */
-  recordStep(step: StepView): void {
-    this.add(step.footGroundForce_N, step.footVelocity_mps, step.lastStep_s);
   }
 
   /** One control tick fed as a single sample (the plot-series recorder's per-tick view). */
@@ -60,11 +55,5 @@ export class SlipTracker {
       if (slipping) any = true;
     }
     this.union.step(any, dt_s);
-  }
-
-  totalDistance_m(): number {
-    let total = 0;
-    for (let i = 0; i < this.footCount; i++) total += this.distancePerFoot_m[i];
-    return total;
   }
 }

@@ -52,7 +52,8 @@ export function createSeriesRecorder(scenario: ResolvedScenario, build: string, 
   const bucketCount = Math.ceil(expectedTicks / bucketTicks);
   const slipSpeed_mps = options.slipSpeed_mps ?? DEFAULT_SLIP_SPEED_mps;
   let threshold_N = loadedThreshold_N(scenario.plant.robot);
-  // The scorer's slip law itself (score/slip.ts): loaded feet, distance and the slip-speed test.
+  // The scorer's slip law per tick (score/slip.ts; stepPass.ts applies the same per step): loaded
+  // feet, distance and the slip-speed test.
   let slip = new SlipTracker(n, threshold_N, slipSpeed_mps);
 
   const use = Array.from({ length: n }, () => new MinMaxBuckets(bucketCount));
