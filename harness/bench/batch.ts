@@ -4,14 +4,9 @@
 // tinybench's own docs suggest for sub-microsecond work). Slow calls (an episode) use batch 1.
 
 import { Bench, type Fn, type FnOptions, type Statistics } from 'tinybench';
-import type { RateFigure, TimingStats } from './types.js';
+import type { RateFigure, TaskBudget, TimingStats } from './types.js';
 
-export interface TaskBudget {
-  /** tinybench `time` per task, milliseconds. */
-  time_ms: number;
-  /** tinybench minimum iterations per task. */
-  iterations: number;
-}
+export type { TaskBudget } from './types.js';
 
 /** Runs one tinybench task and returns its latency statistics in microseconds per call. */
 export async function measureTask(name: string, fn: Fn, batch: number, budget: TaskBudget, hooks: FnOptions = {}): Promise<TimingStats> {

@@ -165,6 +165,36 @@ async function benchClosedLoop(scenario: ResolvedScenario, spec: BuildSpec, open
   return { ...stats, simulated_s, realTimeFactor: simulated_s / (stats.mean_us / 1e6), ...(endedEarly ? { endedEarly } : {}) };
 }
 
+/**
+ * A build's steady closed loop: whole episodes with a freshly opened build each, the median
+ * episode after tinybench's warm-up (the first episodes of a process run while the JIT compiles:
+ * 5× and 2.5× the steady time measured). The bench runs it in threads of its own (ownThread.ts).
+ */
+export async function steadyClosedLoop(scenario: ResolvedScenario, spec: BuildSpec, budget: TaskBudget): Promise<SteadyClosedLoop> {
+  let simulated_s = scenario.duration_s;
+  const setup = controllerSetup(scenario);
+  const stats = await measureTask(`${spec.name}.steadyClosedLoop`, async () => {
+    const build = await openBuild(spec, setup, {});
+    try {
+      const start = performance.now();
+      const outcome = await runEpisode(scenario, build);
+      const elapsed_ms = performance.now() - start;
+      simulated_s = outcome.scored.sim.duration_s;
+      return { overriddenDuration: elapsed_ms };
+    } finally {
+      await build.close();
+    }
+  }, 1, { time_ms: budget.time_ms, iterations: Math.max(8, Math.min(budget.iterations, 16)) }, { async: true });
+  return { episode_ms: stats.p50_us / 1000, simulated_s, realTimeFactor: simulated_s / (stats.p50_us / 1e6) };
+}
+
+export interface SteadyClosedLoop {
+  /** Median episode wall time after the warm-up. */
+  episode_ms: number;
+  simulated_s: number;
+  realTimeFactor: number;
+}
+
 export async function benchBuild(scenario: ResolvedScenario, spec: BuildSpec, budget: TaskBudget, openOptions: OpenBuildOptions = {}): Promise<BuildBench> {
   const controlRate_Hz = scenario.control.rate_Hz;
   const ring = await recordObservations(scenario, spec, openOptions);

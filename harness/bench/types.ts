@@ -2,7 +2,9 @@
 // the one place its version lives). Rates are per second of wall time; every figure comes from a
 // tinybench task whose statistics are kept as tinybench reports them, converted to one call.
 
+import type { BuildSpec } from '../builds/spec.js';
 import type { MachineInfo } from '../results/types.js';
+import type { ResolvedScenario } from '../scenario/types.js';
 
 export const BENCH_FORMAT = 'footing-bench';
 export const BENCH_FORMAT_VERSION = 1;
@@ -96,4 +98,16 @@ export interface BenchReport {
   builds: BuildBench[];
   /** Builds that could not be measured (open failed, errored run). */
   failures: BenchFailure[];
+}
+
+/** What a bench thread of its own (ownThread.ts) measures. */
+export type OwnThreadTask =
+  | { task: 'overhead'; scenario: ResolvedScenario; budget: TaskBudget }
+  | { task: 'closedLoop'; scenario: ResolvedScenario; budget: TaskBudget; spec: BuildSpec };
+
+export interface TaskBudget {
+  /** tinybench `time` per task, milliseconds. */
+  time_ms: number;
+  /** tinybench minimum iterations per task. */
+  iterations: number;
 }
