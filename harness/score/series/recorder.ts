@@ -45,192 +45,255 @@ export interface SeriesRecorderOptions {
 }
 
 export function createSeriesRecorder(scenario: ResolvedScenario, build: string, options: SeriesRecorderOptions = {}): SeriesRecorder {
-  const n = scenario.plant.robot.hips_m.length;
-  const rate_Hz = scenario.control.rate_Hz;
-  const expectedTicks = Math.ceil(scenario.duration_s * rate_Hz) + 1;
-  const bucketTicks = ticksPerBucket(expectedTicks, options.maxBuckets ?? MAX_SERIES_BUCKETS);
-  const bucketCount = Math.ceil(expectedTicks / bucketTicks);
-  const slipSpeed_mps = options.slipSpeed_mps ?? DEFAULT_SLIP_SPEED_mps;
-  let threshold_N = loadedThreshold_N(scenario.plant.robot);
+  return new BucketSeriesRecorder(scenario, build, options);
+}
+
+/**
+ * A class, not an object of closures made per run: the episode loop's call to onTick then sees
+ * one call target in every run, so its optimised code stays valid from run to run (as for the
+ * scorer, score/scorer.ts; docs/bench.md, "The harness hot loop, second pass").
+ */
+class BucketSeriesRecorder implements SeriesRecorder {
+  private readonly n: number;
+  private readonly rate_Hz: number;
+  private readonly bucketTicks: number;
+  private readonly bucketCount: number;
+  private readonly slipSpeed_mps: number;
+  private threshold_N: number;
   // The scorer's slip law per tick (score/slip.ts; stepPass.ts applies the same per step): loaded
   // feet, distance and the slip-speed test.
-  let slip = new SlipTracker(n, threshold_N, slipSpeed_mps);
-
-  const use = Array.from({ length: n }, () => new MinMaxBuckets(bucketCount));
-  const normal = Array.from({ length: n }, () => new MinMaxBuckets(bucketCount));
-  const stanceTicks = new Uint32Array(n * bucketCount);
-  const slipping = new Uint8Array(n * bucketCount);
-  const slipDistance = new Float64Array(n * bucketCount);
-  const bucketTicksSeen = new Uint32Array(bucketCount);
-  const t = new Float64Array(bucketCount);
-  const trunk = new Float64Array(4 * bucketCount);
-  const wasLoaded = new Uint8Array(n);
-  const slipStart = new Float64Array(3 * n); // t, x, y
-  const slipFrom = new Float64Array(n);
-  const inSlip = new Uint8Array(n);
-  const loopBins = new Uint32Array(LOOP_BIN_COUNT);
-  const footholds: Foothold[] = [];
-  const slips: SlipSegment[] = [];
-  const dropped = { footholds: 0, slips: 0 };
-  let governorPairs: { axis: string; target: number; applied: number; targetBuckets: MinMaxBuckets; appliedBuckets: MinMaxBuckets }[] = [];
+  private slip: SlipTracker;
+  private readonly use: MinMaxBuckets[];
+  private readonly normal: MinMaxBuckets[];
+  private readonly stanceTicks: Uint32Array;
+  private readonly slipping: Uint8Array;
+  private readonly slipDistance: Float64Array;
+  private readonly bucketTicksSeen: Uint32Array;
+  private readonly t: Float64Array;
+  private readonly trunk: Float64Array;
+  private readonly wasLoaded: Uint8Array;
+  private readonly slipStart: Float64Array; // t, x, y per foot
+  private readonly slipFrom: Float64Array;
+  private readonly inSlip: Uint8Array;
+  private readonly loopBins = new Uint32Array(LOOP_BIN_COUNT);
+  private readonly footholds: Foothold[] = [];
+  private readonly slips: SlipSegment[] = [];
+  private readonly dropped = { footholds: 0, slips: 0 };
+  private governorPairs: GovernorPair[] = [];
   // Every telemetry scalar: per-bucket extremes for the plots, exact run extremes for results.json.
-  let telemetryNames: readonly string[] = [];
-  let telemetryBuckets: MinMaxBuckets[] = [];
-  let telemetryMin = new Float64Array(0);
-  let telemetryMax = new Float64Array(0);
-  let allTelemetryNames: readonly string[] = [];
-  let tick = 0;
-  let loopTicks = 0;
-  let lastTime_s = 0;
-  let lastBucket = -1;
-  const lastFoot = new Float64Array(2 * n);
+  private telemetryNames: readonly string[] = [];
+  private telemetryBuckets: MinMaxBuckets[] = [];
+  private telemetryMin = new Float64Array(0);
+  private telemetryMax = new Float64Array(0);
+  private allTelemetryNames: readonly string[] = [];
+  private tick = 0;
+  private loopTicks = 0;
+  private lastTime_s = 0;
+  private lastBucket = -1;
+  private readonly lastFoot: Float64Array;
 
-  const closeSlip = (i: number, end_s: number): void => {
-    inSlip[i] = 0;
-    if (slips.length >= MAX_SLIP_SEGMENTS) {
-      dropped.slips++;
+  constructor(
+    private readonly scenario: ResolvedScenario,
+    private readonly build: string,
+    options: SeriesRecorderOptions,
+  ) {
+    const n = scenario.plant.robot.hips_m.length;
+    this.n = n;
+    this.rate_Hz = scenario.control.rate_Hz;
+    const expectedTicks = Math.ceil(scenario.duration_s * this.rate_Hz) + 1;
+    this.bucketTicks = ticksPerBucket(expectedTicks, options.maxBuckets ?? MAX_SERIES_BUCKETS);
+    const bucketCount = Math.ceil(expectedTicks / this.bucketTicks);
+    this.bucketCount = bucketCount;
+    this.slipSpeed_mps = options.slipSpeed_mps ?? DEFAULT_SLIP_SPEED_mps;
+    this.threshold_N = loadedThreshold_N(scenario.plant.robot);
+    this.slip = new SlipTracker(n, this.threshold_N, this.slipSpeed_mps);
+    this.use = Array.from({ length: n }, () => new MinMaxBuckets(bucketCount));
+    this.normal = Array.from({ length: n }, () => new MinMaxBuckets(bucketCount));
+    this.stanceTicks = new Uint32Array(n * bucketCount);
+    this.slipping = new Uint8Array(n * bucketCount);
+    this.slipDistance = new Float64Array(n * bucketCount);
+    this.bucketTicksSeen = new Uint32Array(bucketCount);
+    this.t = new Float64Array(bucketCount);
+    this.trunk = new Float64Array(4 * bucketCount);
+    this.wasLoaded = new Uint8Array(n);
+    this.slipStart = new Float64Array(3 * n);
+    this.slipFrom = new Float64Array(n);
+    this.inSlip = new Uint8Array(n);
+    this.lastFoot = new Float64Array(2 * n);
+  }
+
+  private closeSlip(i: number, end_s: number): void {
+    this.inSlip[i] = 0;
+    if (this.slips.length >= MAX_SLIP_SEGMENTS) {
+      this.dropped.slips++;
       return;
     }
-    slips.push({
+    const slipStart = this.slipStart, lastFoot = this.lastFoot;
+    this.slips.push({
       foot: i,
       start_s: round(slipStart[3 * i], DIGITS + 1),
       end_s: round(end_s, DIGITS + 1),
       from_m: [round(slipStart[3 * i + 1], DIGITS), round(slipStart[3 * i + 2], DIGITS)],
       to_m: [round(lastFoot[2 * i], DIGITS), round(lastFoot[2 * i + 1], DIGITS)],
-      distance_m: round(slip.distancePerFoot_m[i] - slipFrom[i], DIGITS),
+      distance_m: round(this.slip.distancePerFoot_m[i] - this.slipFrom[i], DIGITS),
     });
-  };
+  }
 
-  const range = (k: number) => ({
-    min: Number.isFinite(telemetryMin[k]) ? telemetryMin[k] : null,
-    max: Number.isFinite(telemetryMax[k]) ? telemetryMax[k] : null,
-  });
+  private range(k: number): { min: number | null; max: number | null } {
+    return {
+      min: Number.isFinite(this.telemetryMin[k]) ? this.telemetryMin[k] : null,
+      max: Number.isFinite(this.telemetryMax[k]) ? this.telemetryMax[k] : null,
+    };
+  }
 
-  return {
-    telemetryRanges: () => allTelemetryNames.map((name, k) => ({ name, ...range(k) })),
-    onStart(info: EpisodeStart): void {
-      threshold_N = info.loadedThreshold_N;
-      slip = new SlipTracker(n, threshold_N, slipSpeed_mps);
-      governorPairs = [];
-      const names = info.telemetryNames;
-      allTelemetryNames = names;
-      telemetryNames = names.slice(0, MAX_TELEMETRY_SERIES);
-      telemetryBuckets = telemetryNames.map(() => new MinMaxBuckets(bucketCount));
-      telemetryMin = new Float64Array(names.length).fill(Number.POSITIVE_INFINITY);
-      telemetryMax = new Float64Array(names.length).fill(Number.NEGATIVE_INFINITY);
-      names.forEach((name, index) => {
-        if (!name.startsWith('governor.target.')) return;
-        const axis = name.slice('governor.target.'.length);
-        const applied = names.indexOf(`governor.applied.${axis}`);
-        if (applied < 0) return;
-        governorPairs.push({ axis, target: index, applied, targetBuckets: new MinMaxBuckets(bucketCount), appliedBuckets: new MinMaxBuckets(bucketCount) });
-      });
-    },
-    onTick(s: TickSample, action: Action): void {
-      const b = Math.min(bucketCount - 1, Math.floor(tick / bucketTicks));
-      tick++;
-      lastBucket = b;
-      lastTime_s = s.time_s;
-      t[b] = s.time_s;
-      bucketTicksSeen[b]++;
-      trunk[4 * b] = s.trunkPosition_m[0];
-      trunk[4 * b + 1] = s.trunkPosition_m[1];
-      trunk[4 * b + 2] = s.referencePosition_m[0];
-      trunk[4 * b + 3] = s.referencePosition_m[1];
-      const f = s.footForce_N;
-      const p = s.footPosition_m;
-      slip.record(s);
-      for (let i = 0; i < n; i++) {
-        const fz = f[3 * i + 2];
-        const loaded = slip.loaded[i] === 1;
-        const x = p[3 * i];
-        const y = p[3 * i + 1];
-        lastFoot[2 * i] = x;
-        lastFoot[2 * i + 1] = y;
-        normal[i].add(b, fz);
-        if (s.mode[i] === STANCE) stanceTicks[i * bucketCount + b]++;
-        const slidingNow = slip.sliding[i] === 1;
-        if (loaded) {
-          use[i].add(b, 1 - frictionMargin(f[3 * i], f[3 * i + 1], fz, s.footStaticFriction[i]));
-          if (!wasLoaded[i]) {
-            if (footholds.length < MAX_FOOTHOLDS) footholds.push({ foot: i, t_s: round(s.time_s, DIGITS + 1), x_m: round(x, DIGITS), y_m: round(y, DIGITS) });
-            else dropped.footholds++;
-          }
+  telemetryRanges(): { name: string; min: number | null; max: number | null }[] {
+    return this.allTelemetryNames.map((name, k) => ({ name, ...this.range(k) }));
+  }
+
+  onStart(info: EpisodeStart): void {
+    const bucketCount = this.bucketCount;
+    this.threshold_N = info.loadedThreshold_N;
+    this.slip = new SlipTracker(this.n, this.threshold_N, this.slipSpeed_mps);
+    const pairs: GovernorPair[] = [];
+    const names = info.telemetryNames;
+    this.allTelemetryNames = names;
+    this.telemetryNames = names.slice(0, MAX_TELEMETRY_SERIES);
+    this.telemetryBuckets = this.telemetryNames.map(() => new MinMaxBuckets(bucketCount));
+    this.telemetryMin = new Float64Array(names.length).fill(Number.POSITIVE_INFINITY);
+    this.telemetryMax = new Float64Array(names.length).fill(Number.NEGATIVE_INFINITY);
+    names.forEach((name, index) => {
+      if (!name.startsWith('governor.target.')) return;
+      const axis = name.slice('governor.target.'.length);
+      const applied = names.indexOf(`governor.applied.${axis}`);
+      if (applied < 0) return;
+      pairs.push({ axis, target: index, applied, targetBuckets: new MinMaxBuckets(bucketCount), appliedBuckets: new MinMaxBuckets(bucketCount) });
+    });
+    this.governorPairs = pairs;
+  }
+
+  onTick(s: TickSample, action: Action): void {
+    const n = this.n, bucketCount = this.bucketCount;
+    const b = Math.min(bucketCount - 1, Math.floor(this.tick / this.bucketTicks));
+    this.tick++;
+    this.lastBucket = b;
+    this.lastTime_s = s.time_s;
+    this.t[b] = s.time_s;
+    this.bucketTicksSeen[b]++;
+    const trunk = this.trunk;
+    trunk[4 * b] = s.trunkPosition_m[0];
+    trunk[4 * b + 1] = s.trunkPosition_m[1];
+    trunk[4 * b + 2] = s.referencePosition_m[0];
+    trunk[4 * b + 3] = s.referencePosition_m[1];
+    const f = s.footForce_N;
+    const p = s.footPosition_m;
+    const slip = this.slip;
+    slip.record(s);
+    const use = this.use, normal = this.normal, lastFoot = this.lastFoot, wasLoaded = this.wasLoaded;
+    const inSlip = this.inSlip, slipStart = this.slipStart, slipping = this.slipping;
+    for (let i = 0; i < n; i++) {
+      const fz = f[3 * i + 2];
+      const loaded = slip.loaded[i] === 1;
+      const x = p[3 * i];
+      const y = p[3 * i + 1];
+      lastFoot[2 * i] = x;
+      lastFoot[2 * i + 1] = y;
+      normal[i].add(b, fz);
+      if (s.mode[i] === STANCE) this.stanceTicks[i * bucketCount + b]++;
+      const slidingNow = slip.sliding[i] === 1;
+      if (loaded) {
+        use[i].add(b, 1 - frictionMargin(f[3 * i], f[3 * i + 1], fz, s.footStaticFriction[i]));
+        if (!wasLoaded[i]) {
+          if (this.footholds.length < MAX_FOOTHOLDS) this.footholds.push({ foot: i, t_s: round(s.time_s, DIGITS + 1), x_m: round(x, DIGITS), y_m: round(y, DIGITS) });
+          else this.dropped.footholds++;
         }
-        wasLoaded[i] = loaded ? 1 : 0;
-        if (slidingNow) {
-          slipping[i * bucketCount + b] = 1;
-          if (!inSlip[i]) {
-            inSlip[i] = 1;
-            slipStart[3 * i] = s.time_s;
-            slipStart[3 * i + 1] = x;
-            slipStart[3 * i + 2] = y;
-            slipFrom[i] = slip.distancePerFoot_m[i];
-          }
-        } else if (inSlip[i]) {
-          closeSlip(i, s.time_s);
+      }
+      wasLoaded[i] = loaded ? 1 : 0;
+      if (slidingNow) {
+        slipping[i * bucketCount + b] = 1;
+        if (!inSlip[i]) {
+          inSlip[i] = 1;
+          slipStart[3 * i] = s.time_s;
+          slipStart[3 * i + 1] = x;
+          slipStart[3 * i + 2] = y;
+          this.slipFrom[i] = slip.distancePerFoot_m[i];
         }
-        slipDistance[i * bucketCount + b] = slip.distancePerFoot_m[i];
+      } else if (inSlip[i]) {
+        this.closeSlip(i, s.time_s);
       }
-      for (let k = 0; k < governorPairs.length; k++) {
-        const g = governorPairs[k];
-        g.targetBuckets.add(b, action.telemetry[g.target]);
-        g.appliedBuckets.add(b, action.telemetry[g.applied]);
-      }
-      const telemetry = action.telemetry;
-      for (let k = 0; k < telemetryBuckets.length; k++) telemetryBuckets[k].add(b, telemetry[k]);
-      for (let k = 0; k < allTelemetryNames.length; k++) {
-        const value = telemetry[k];
-        if (value < telemetryMin[k]) telemetryMin[k] = value;
-        if (value > telemetryMax[k]) telemetryMax[k] = value;
-      }
-      const loop_us = s.loopTime_us;
-      if (Number.isFinite(loop_us) && loop_us >= 0) {
-        const k = loop_us <= LOOP_BIN_START_us ? 0 : Math.floor(Math.log(loop_us / LOOP_BIN_START_us) / Math.log(LOOP_BIN_RATIO));
-        loopBins[Math.min(LOOP_BIN_COUNT - 1, k)]++;
-        loopTicks++;
-      }
-    },
-    finish(): RunSeries {
-      for (let i = 0; i < n; i++) if (inSlip[i]) closeSlip(i, lastTime_s);
-      const used = lastBucket + 1;
-      const pick = (array: Float64Array, stride: number, offset: number, digits: number) =>
-        Array.from({ length: used }, (_, k) => round(array[stride * k + offset], digits));
-      const bins: [number, number][] = [];
-      loopBins.forEach((count, k) => {
-        if (count > 0) bins.push([k, count]);
-      });
-      return {
-        format: SERIES_FORMAT,
-        formatVersion: SERIES_FORMAT_VERSION,
-        scenario: { id: scenario.id, hash: scenario.hash },
-        build,
-        footCount: n,
-        loadedThreshold_N: round(threshold_N, 8),
-        slipSpeed_mps,
-        controlPeriod_s: 1 / rate_Hz,
-        bucketTicks,
-        t_s: pick(t, 1, 0, DIGITS + 2),
-        feet: Array.from({ length: n }, (_, i) => ({
-          frictionUse: use[i].toSeries(used, 4),
-          normalForce_N: normal[i].toSeries(used, 4),
-          stance: Array.from({ length: used }, (_, k) => round(stanceTicks[i * bucketCount + k] / Math.max(1, bucketTicksSeen[k]), 3)),
-          slipping: Array.from({ length: used }, (_, k) => (slipping[i * bucketCount + k] ? 1 : 0) as 0 | 1),
-          slipDistance_m: Array.from({ length: used }, (_, k) => round(slipDistance[i * bucketCount + k], 4)),
-        })),
-        trunk: { x_m: pick(trunk, 4, 0, DIGITS), y_m: pick(trunk, 4, 1, DIGITS), referenceX_m: pick(trunk, 4, 2, DIGITS), referenceY_m: pick(trunk, 4, 3, DIGITS) },
-        footholds,
-        slips,
-        dropped: { ...dropped, telemetry: allTelemetryNames.length - telemetryNames.length },
-        telemetry: telemetryNames.map((name, k): TelemetrySeries => ({ name, values: telemetrySeries(telemetryBuckets[k], used), ...range(k) })),
-        governor: governorPairs.map((g) => ({ axis: g.axis, target: g.targetBuckets.toSeries(used, 4), applied: g.appliedBuckets.toSeries(used, 4) })),
-        loopTime: { start_us: LOOP_BIN_START_us, ratio: LOOP_BIN_RATIO, bins, ticks: loopTicks, budget_us: scenario.control.loopBudget_us },
-        friction: compactFrictionMap(scenario.plant.ground.friction),
-        events: scenarioEvents(scenario).slice(0, MAX_SERIES_EVENTS),
-        ...(scenario.plant.robot.legNames ? { legNames: [...scenario.plant.robot.legNames] } : {}),
-      };
-    },
-  };
+      this.slipDistance[i * bucketCount + b] = slip.distancePerFoot_m[i];
+    }
+    const telemetry = action.telemetry;
+    const pairs = this.governorPairs;
+    for (let k = 0; k < pairs.length; k++) {
+      const g = pairs[k];
+      g.targetBuckets.add(b, telemetry[g.target]);
+      g.appliedBuckets.add(b, telemetry[g.applied]);
+    }
+    const buckets = this.telemetryBuckets;
+    for (let k = 0; k < buckets.length; k++) buckets[k].add(b, telemetry[k]);
+    const telemetryMin = this.telemetryMin, telemetryMax = this.telemetryMax;
+    for (let k = 0; k < this.allTelemetryNames.length; k++) {
+      const value = telemetry[k];
+      if (value < telemetryMin[k]) telemetryMin[k] = value;
+      if (value > telemetryMax[k]) telemetryMax[k] = value;
+    }
+    const loop_us = s.loopTime_us;
+    if (Number.isFinite(loop_us) && loop_us >= 0) {
+      const k = loop_us <= LOOP_BIN_START_us ? 0 : Math.floor(Math.log(loop_us / LOOP_BIN_START_us) / Math.log(LOOP_BIN_RATIO));
+      this.loopBins[Math.min(LOOP_BIN_COUNT - 1, k)]++;
+      this.loopTicks++;
+    }
+  }
+
+  finish(): RunSeries {
+    const n = this.n, bucketCount = this.bucketCount, scenario = this.scenario;
+    for (let i = 0; i < n; i++) if (this.inSlip[i]) this.closeSlip(i, this.lastTime_s);
+    const used = this.lastBucket + 1;
+    const pick = (array: Float64Array, stride: number, offset: number, digits: number) =>
+      Array.from({ length: used }, (_, k) => round(array[stride * k + offset], digits));
+    const bins: [number, number][] = [];
+    this.loopBins.forEach((count, k) => {
+      if (count > 0) bins.push([k, count]);
+    });
+    const { stanceTicks, bucketTicksSeen, slipping, slipDistance, trunk } = this;
+    return {
+      format: SERIES_FORMAT,
+      formatVersion: SERIES_FORMAT_VERSION,
+      scenario: { id: scenario.id, hash: scenario.hash },
+      build: this.build,
+      footCount: n,
+      loadedThreshold_N: round(this.threshold_N, 8),
+      slipSpeed_mps: this.slipSpeed_mps,
+      controlPeriod_s: 1 / this.rate_Hz,
+      bucketTicks: this.bucketTicks,
+      t_s: pick(this.t, 1, 0, DIGITS + 2),
+      feet: Array.from({ length: n }, (_, i) => ({
+        frictionUse: this.use[i].toSeries(used, 4),
+        normalForce_N: this.normal[i].toSeries(used, 4),
+        stance: Array.from({ length: used }, (_, k) => round(stanceTicks[i * bucketCount + k] / Math.max(1, bucketTicksSeen[k]), 3)),
+        slipping: Array.from({ length: used }, (_, k) => (slipping[i * bucketCount + k] ? 1 : 0) as 0 | 1),
+        slipDistance_m: Array.from({ length: used }, (_, k) => round(slipDistance[i * bucketCount + k], 4)),
+      })),
+      trunk: { x_m: pick(trunk, 4, 0, DIGITS), y_m: pick(trunk, 4, 1, DIGITS), referenceX_m: pick(trunk, 4, 2, DIGITS), referenceY_m: pick(trunk, 4, 3, DIGITS) },
+      footholds: this.footholds,
+      slips: this.slips,
+      dropped: { ...this.dropped, telemetry: this.allTelemetryNames.length - this.telemetryNames.length },
+      telemetry: this.telemetryNames.map((name, k): TelemetrySeries => ({ name, values: telemetrySeries(this.telemetryBuckets[k], used), ...this.range(k) })),
+      governor: this.governorPairs.map((g) => ({ axis: g.axis, target: g.targetBuckets.toSeries(used, 4), applied: g.appliedBuckets.toSeries(used, 4) })),
+      loopTime: { start_us: LOOP_BIN_START_us, ratio: LOOP_BIN_RATIO, bins, ticks: this.loopTicks, budget_us: scenario.control.loopBudget_us },
+      friction: compactFrictionMap(scenario.plant.ground.friction),
+      events: scenarioEvents(scenario).slice(0, MAX_SERIES_EVENTS),
+      ...(scenario.plant.robot.legNames ? { legNames: [...scenario.plant.robot.legNames] } : {}),
+    };
+  }
+}
+
+interface GovernorPair {
+  axis: string;
+  target: number;
+  applied: number;
+  targetBuckets: MinMaxBuckets;
+  appliedBuckets: MinMaxBuckets;
 }
 
 /** A telemetry scalar's buckets for the plots: 6 significant digits, clipped to the series bound. */
