@@ -5,7 +5,8 @@
 import { createHash } from 'node:crypto';
 import path from 'node:path';
 import { attachBench } from '../bench/attach.js';
-import { measurePairedLoopTime, observationRequest, recordStreams, timedScenarios } from '../bench/pairedLoopTime.js';
+import { observationRequest, timedScenarios } from '../bench/pairedLoopTime.js';
+import { measureSuiteLoopTimes, measureSuiteLoopTimesInThread, timeableInThread, warmLoopTimeThread } from '../bench/suiteLoopTime.js';
 import type { PackedObservations } from '../contract/packed.js';
 import { DEFAULT_BENCH_SCENARIO } from '../bench/defaults.js';
 import { runBench } from '../bench/run.js';
@@ -22,7 +23,7 @@ import type { PairedLoopTimeRecord } from '../results/loopTime.js';
 import { createResultsFile, firstReason } from '../results/runResult.js';
 import type { ResultsFile, RunResult, ShardRecord } from '../results/types.js';
 import type { ResolvedScenario } from '../scenario/types.js';
-import type { RunTimeout } from '../run/pool.js';
+import { defaultJobs, warmRunThreads, type RunTimeout } from '../run/pool.js';
 import { buildManifests, type PreparedBuild } from '../run/prepare.js';
 import { resolveShard, ShardSpecError, type ShardSpec } from '../run/shard.js';
 import { SIGNAL_EXIT } from '../run/interrupt.js';
@@ -34,6 +35,7 @@ import { resolveForCommand } from './config.js';
 import { prepareConfiguredBuilds } from './gitBuilds.js';
 import { EXIT, exitCodeOfRuns, type ExitCode } from './exit.js';
 import { aheadLine, OUTPUT_FILES, writeOutputs } from './outputs.js';
+import { prepareScenarioPlots, type PreparedPlots } from '../report/model.js';
 import { isOutcome, prepareBuildSpecs, prepareScenarioList, startCommand, type CommandOutcome, type SuiteCommandOptions } from './skeleton.js';
 
 export type { PreparedBuild } from '../run/prepare.js';
@@ -100,6 +102,7 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
     }
   }
 
+  warmThreads(specs, options, policy);
   const scenarios = await prepareScenarioList(out, 'run', options.paths, cwd, options.selection);
   if (isOutcome(scenarios)) return scenarios;
   if (options.loopBudget_us !== undefined) {
@@ -155,13 +158,17 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   let resultsFile = createResultsFile({ toolVersion: TOOL_VERSION, builds: manifests, startedAt, runs });
   if (shard) resultsFile = { ...resultsFile, shard: shardRecord(shard, scenarios, specs) };
   if (options.bench) resultsFile = await benchSuiteBuilds(resultsFile, specs.filter((spec) => !prepared.get(spec.name)?.failure), log);
+  let preparedPlots: PreparedPlots | undefined;
   if (options.baseline !== undefined && timesLoop) {
-    const loopTime = await pairedLoopTimes(scenarios, specs, prepared, options.baseline, log, observed);
+    const started = await startLoopTimes(scenarios, specs, prepared, options.baseline, options.jobs ?? defaultJobs(), log, observed);
+    // The plots do not depend on the gate: drawn while the loop time is being timed (if in a thread).
+    preparedPlots = prepareScenarioPlots(resultsFile, { baseline: options.baseline, outDir, scenarios, writtenSeries });
+    const loopTime = await started.records;
     if (loopTime.length > 0) resultsFile = { ...resultsFile, loopTime };
   }
   // The gate runs first so that the report shows the gate's own regression list.
   const gateOutcome = options.baseline !== undefined ? gateWithinResults(resultsFile, options.baseline, policy, undefined, resultsFile.loopTime) : undefined;
-  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy, scenarios, writtenSeries });
+  writeOutputs(outDir, resultsFile, { baseline: options.baseline, gate: gateOutcome, policy, scenarios, writtenSeries, preparedPlots });
 
   // With a baseline the gate decides: a run failing on both sides is inherited, not a block.
   const exitCode: ExitCode = gateOutcome ? (gateOutcome.verdict === 'block' ? EXIT.fail : EXIT.pass) : exitCodeOfRuns(runs);
@@ -217,43 +224,44 @@ function failingSummary(runs: readonly RunResult[]): string[] {
   return [`not passing (${failing.length}):`, ...lines];
 }
 
+/**
+ * Starts the run threads (and the loop-time thread) before the scenarios load, when the suite is
+ * sure to use them: more than one job and more than one build, so more than one pair (a single
+ * pair runs in this thread). Their start-up then overlaps the loading instead of following it.
+ */
+function warmThreads(specs: readonly BuildSpec[], options: SuiteRunOptions, policy: GatePolicy): void {
+  const jobs = options.jobs ?? defaultJobs();
+  if (jobs < 2 || specs.length < 2 || options.resume) return;
+  warmRunThreads(Math.min(jobs, specs.length * 2));
+  const inThread = specs.every((spec) => spec.kind !== 'process');
+  if (options.baseline !== undefined && loopTimeJudged(policy) && inThread) warmLoopTimeThread();
+}
+
 function loopTimeJudged(policy: GatePolicy): boolean {
   return policy.rules.loopTimeSlowdownFraction !== null || policy.rules.allowLoopTimeOverBudget === false;
 }
 
 /**
- * The gate's loop-time measurement (docs/scoring.md): the baseline's observations recorded once,
- * then each candidate timed against the baseline on them in interleaved rounds. A build that
- * cannot be opened (it failed to build) is skipped: its runs are error runs already.
+ * The gate's loop-time measurement (bench/suiteLoopTime.ts) of the usable builds, started: in a
+ * thread of its own when there is more than one job and every build runs in-process, so that this
+ * thread can draw the report's plots meanwhile; else here, finished before it returns.
  */
-async function pairedLoopTimes(
+async function startLoopTimes(
   scenarios: readonly ResolvedScenario[],
   specs: readonly BuildSpec[],
   prepared: Map<string, PreparedBuild>,
   baselineName: string,
+  jobs: number,
   log: (line: string) => void,
-  observed: ReadonlyMap<string, PackedObservations> = new Map(),
-): Promise<PairedLoopTimeRecord[]> {
+  observed: ReadonlyMap<string, PackedObservations>,
+): Promise<{ records: Promise<PairedLoopTimeRecord[]> }> {
   const usable = specs.filter((spec) => !prepared.get(spec.name)?.failure);
   const baseline = usable.find((spec) => spec.name === baselineName);
-  const candidates = usable.filter((spec) => spec.name !== baselineName);
-  if (baseline === undefined || candidates.length === 0) return [];
-  const records: PairedLoopTimeRecord[] = [];
-  try {
-    const recordings = await recordStreams(scenarios, baseline, {}, observed);
-    log(`loop time: ${candidates.length} build${candidates.length === 1 ? '' : 's'} timed against ${baselineName} in interleaved rounds on ${recordings.length} recorded scenario${recordings.length === 1 ? '' : 's'}`);
-    for (const candidate of candidates) {
-      try {
-        const timing = await measurePairedLoopTime(recordings, baseline, candidate);
-        records.push({ baselineBuild: baselineName, candidateBuild: candidate.name, ...timing });
-      } catch (error) {
-        log(`loop time: ${candidate.name} not timed (${(error as Error).message})`);
-      }
-    }
-  } catch (error) {
-    log(`loop time: not judged, the baseline's observations could not be recorded (${(error as Error).message})`);
-  }
-  return records;
+  if (baseline === undefined) return { records: Promise.resolve([]) };
+  const input = { scenarios, baseline, candidates: usable.filter((spec) => spec.name !== baselineName), observed };
+  if (jobs > 1 && timeableInThread(input)) return { records: measureSuiteLoopTimesInThread(input, log) };
+  const records = await measureSuiteLoopTimes(input, log);
+  return { records: Promise.resolve(records) };
 }
 
 /** `run --bench`: the bench figures of every build on the standard bench scenario, attached to the results. */

@@ -51,6 +51,24 @@ export interface ReportOptions {
    * them the plots say "foot i" and mark falls only.
    */
   scenarios?: readonly ResolvedScenario[];
+  /**
+   * The scenarios' series and plots read and drawn ahead (prepareScenarioPlots), e.g. while the
+   * gate's loop time was being timed in another thread; used when made for the same results,
+   * baseline and folders, else drawn here.
+   */
+  preparedPlots?: PreparedPlots;
+}
+
+/** The gate-independent part of a scenario's view: everything but the gate's cells, counts and divergences. */
+interface ScenarioPlots {
+  view: ScenarioView;
+  traces: { href: string; name: string }[];
+}
+
+/** Scenario plots drawn ahead of the gate (prepareScenarioPlots), with what they were drawn for. */
+export interface PreparedPlots {
+  readonly signature: string;
+  readonly scenarios: ReadonlyMap<string, ScenarioPlots>;
 }
 
 const STATUS_GLYPH: Record<RunStatus, string> = { pass: '✓', fail: '✗', error: '!' };
@@ -173,10 +191,10 @@ export interface ReportModel {
 }
 
 export function buildReportModel(results: ResultsFile, options: ReportOptions): ReportModel {
-  const sourceDirs = options.sourceDirs && options.sourceDirs.length > 0 ? options.sourceDirs : [options.outDir];
+  const sourceDirs = sourceDirsOf(options);
   const buildNames = orderedBuilds(results);
   const explicitBaseline = options.baseline ?? options.gate?.buildPairs[0]?.[0];
-  const baselineName = explicitBaseline !== undefined && buildNames.includes(explicitBaseline) ? explicitBaseline : buildNames.length > 1 ? buildNames[0] : null;
+  const baselineName = baselineOf(buildNames, explicitBaseline);
 
   // The gate: the caller's outcome, else the same within-results gate `footing run --baseline` runs.
   let gate: GateOutcome | null = options.gate ?? null;
@@ -210,25 +228,20 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
   });
   const buildIndex = new Map(buildNames.map((n, i) => [n, i]));
 
-  // Scenarios in the order of the runs (the suite's deterministic order).
-  const groups = new Map<string, RunResult[]>();
-  for (const run of results.runs) {
-    const key = `${run.scenario.id}\u0000${run.scenario.hash}`;
-    if (!groups.has(key)) groups.set(key, []);
-    (groups.get(key) as RunResult[]).push(run);
-  }
+  const groups = scenarioGroups(results);
   const anchors = new Map<string, string>();
   const anchorByKey = new Map<string, string>();
   const scenarios: ScenarioView[] = [];
   const traces: { href: string; name: string }[] = [];
+  const prepared = options.preparedPlots?.signature === plotSignature(groups, buildNames, baselineName, sourceDirs, options) ? options.preparedPlots.scenarios : null;
   let index = 0;
-  for (const runs of groups.values()) {
+  for (const [key, runs] of groups) {
     const ref = runs[0].scenario;
-    const anchor = `scenario-${index + 1}-${ref.id.replace(/[^A-Za-z0-9_-]/g, '-')}`;
+    const anchor = scenarioAnchor(index, ref.id);
     if (!anchors.has(ref.id)) anchors.set(ref.id, anchor);
-    anchorByKey.set(`${ref.id}\u0000${ref.hash}`, anchor);
-    const resolved = options.scenarios?.find((s) => s.id === ref.id && s.hash === ref.hash) ?? null;
-    scenarios.push(scenarioView(runs, index, anchor, { buildNames, buildIndex, baselineName, gate, sourceDirs, writtenSeries: options.writtenSeries, outDir: options.outDir, traces, resolved }));
+    anchorByKey.set(key, anchor);
+    const ctx: ScenarioContext = { buildNames, buildIndex, baselineName, gate, sourceDirs, writtenSeries: options.writtenSeries, outDir: options.outDir, traces, resolved: resolvedFor(options, ref) };
+    scenarios.push(scenarioView(runs, prepared?.get(key) ?? scenarioPlots(runs, index, anchor, ctx), ctx));
     index++;
   }
 
@@ -301,6 +314,62 @@ export function buildReportModel(results: ResultsFile, options: ReportOptions): 
   };
 }
 
+function sourceDirsOf(options: ReportOptions): string[] {
+  return options.sourceDirs && options.sourceDirs.length > 0 ? options.sourceDirs : [options.outDir];
+}
+
+function baselineOf(buildNames: readonly string[], explicit: string | undefined): string | null {
+  return explicit !== undefined && buildNames.includes(explicit) ? explicit : buildNames.length > 1 ? buildNames[0] : null;
+}
+
+/** Scenarios in the order of the runs (the suite's deterministic order), keyed by id and hash. */
+function scenarioGroups(results: ResultsFile): Map<string, RunResult[]> {
+  const groups = new Map<string, RunResult[]>();
+  for (const run of results.runs) {
+    const key = `${run.scenario.id}\u0000${run.scenario.hash}`;
+    if (!groups.has(key)) groups.set(key, []);
+    (groups.get(key) as RunResult[]).push(run);
+  }
+  return groups;
+}
+
+function scenarioAnchor(index: number, id: string): string {
+  return `scenario-${index + 1}-${id.replace(/[^A-Za-z0-9_-]/g, '-')}`;
+}
+
+function resolvedFor(options: ReportOptions, ref: RunResult['scenario']): ResolvedScenario | null {
+  return options.scenarios?.find((s) => s.id === ref.id && s.hash === ref.hash) ?? null;
+}
+
+/** What the plots depend on besides the series files: the runs in order, the builds, the baseline, the folders. */
+function plotSignature(groups: Map<string, RunResult[]>, buildNames: readonly string[], baselineName: string | null, sourceDirs: readonly string[], options: ReportOptions): string {
+  const runs = [...groups.values()].map((rs) => rs.map((r) => [r.scenario.id, r.scenario.hash, r.build, r.status, r.trace ?? null]));
+  return JSON.stringify([runs, buildNames, baselineName, sourceDirs, options.outDir, options.scenarios?.length ?? 0]);
+}
+
+/**
+ * Reads the series and draws every scenario's plots (the bulk of a report's cost) without the
+ * gate, for buildReportModel to use later (ReportOptions.preparedPlots): the caller can do this
+ * while the gate's inputs are still being measured. `options.baseline` must name the baseline
+ * the report will have (the gate's otherwise), or the plots are drawn again.
+ */
+export function prepareScenarioPlots(results: ResultsFile, options: Omit<ReportOptions, 'gate' | 'preparedPlots'>): PreparedPlots {
+  const sourceDirs = sourceDirsOf(options);
+  const buildNames = orderedBuilds(results);
+  const baselineName = baselineOf(buildNames, options.baseline);
+  const buildIndex = new Map(buildNames.map((n, i) => [n, i]));
+  const groups = scenarioGroups(results);
+  const scenarios = new Map<string, ScenarioPlots>();
+  let index = 0;
+  for (const [key, runs] of groups) {
+    const ref = runs[0].scenario;
+    const ctx: ScenarioContext = { buildNames, buildIndex, baselineName, gate: null, sourceDirs, writtenSeries: options.writtenSeries, outDir: options.outDir, traces: [], resolved: resolvedFor(options, ref) };
+    scenarios.set(key, scenarioPlots(runs, index, scenarioAnchor(index, ref.id), ctx));
+    index++;
+  }
+  return { signature: plotSignature(groups, buildNames, baselineName, sourceDirs, options), scenarios };
+}
+
 interface ScenarioContext {
   buildNames: string[];
   buildIndex: Map<string, number>;
@@ -341,9 +410,28 @@ function scenarioDivergences(runs: RunResult[], ctx: ScenarioContext): string[] 
   return lines;
 }
 
-function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: ScenarioContext): ScenarioView {
+/** A scenario's view from its plots and the gate: the gate's cells per run, its regression count, the traces' divergences. */
+function scenarioView(runs: RunResult[], plots: ScenarioPlots, ctx: ScenarioContext): ScenarioView {
   const ref = runs[0].scenario;
   const baselineRun = runs.find((r) => r.build === ctx.baselineName) ?? null;
+  for (const trace of plots.traces) ctx.traces.push(trace);
+  const regressionCount = ctx.gate?.rows.filter((r) => r.broken && r.scenario === ref.id).length ?? 0;
+  const views = plots.view.runs.map((view, k) => ({ ...view, cells: metricCells(runs[k], baselineRun, ctx.gate) }));
+  const byBuild = new Map(views.map((v) => [v.build, v]));
+  return {
+    ...plots.view,
+    open: regressionCount > 0,
+    regressionCount,
+    runs: views,
+    row: ctx.buildNames.map((name) => byBuild.get(name) ?? null),
+    divergences: scenarioDivergences(runs, ctx),
+  };
+}
+
+/** Everything of a scenario's view that the gate does not decide: the series read, the plots drawn. */
+function scenarioPlots(runs: RunResult[], index: number, anchor: string, ctx: ScenarioContext): ScenarioPlots {
+  const ref = runs[0].scenario;
+  const traces: { href: string; name: string }[] = [];
   const legNames = ctx.resolved?.plant.robot.legNames;
   const fixed = ctx.resolved ? scenarioEvents(ctx.resolved) : [];
   const loaded = runs.map((run) => {
@@ -360,7 +448,6 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
   const extent = floorExtent(withSeries.map((w) => w.series));
   const definitionId = `floor-${index + 1}`;
   const friction = withSeries[0]?.series.friction ?? null;
-  const regressionCount = ctx.gate?.rows.filter((r) => r.broken && r.scenario === ref.id).length ?? 0;
 
   const views: RunView[] = loaded.map(({ run, lookup }) => {
     const b = ctx.buildIndex.get(run.build) ?? 0;
@@ -368,7 +455,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     let floor: ReturnType<typeof floorPlot> | null = null;
     if (series) floor = floorPlot(series, extent, definitionId, `${definitionId}-clip-${b}`, run.metrics?.fell ?? false);
     const traceHref = traceLink(run, ctx);
-    if (traceHref) ctx.traces.push({ href: traceHref, name: `${ref.id} × ${run.build}` });
+    if (traceHref) traces.push({ href: traceHref, name: `${ref.id} × ${run.build}` });
     const overBudget = series ? loopOver(series) : 0;
     // The series file carries the scenario's events too (a re-render has no scenario): once each.
     const events = series ? sharedEvents([fixed, runEvents(run, series)]) : [];
@@ -398,7 +485,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
       loopTime: series && series.loopTime.ticks > 0 ? loopTimePlot(series) : null,
       loopCaption: series ? `${series.loopTime.ticks} ticks, ${overBudget} over the ${label(series.loopTime.budget_us, 0)} µs budget` : '',
       traceHref,
-      cells: metricCells(run, baselineRun, ctx.gate),
+      cells: [],
       isBaseline: run.build === ctx.baselineName,
       fidelity: run.fidelity ? fidelityView(run.fidelity, buildStyle(run.build, run.build === ctx.baselineName)) : null,
     };
@@ -411,7 +498,7 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
       const r = runs.find((run) => run.build === name);
       return { value: r?.metrics ? value(r) : null, style: buildStyle(name, name === ctx.baselineName), passed: r?.status === 'pass' };
     });
-  return {
+  const view: ScenarioView = {
     anchor,
     index,
     id: ref.id,
@@ -420,8 +507,8 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     hash: ref.hash,
     hashShort: ref.hash.slice(0, 12),
     file: ref.file,
-    open: regressionCount > 0,
-    regressionCount,
+    open: false,
+    regressionCount: 0,
     runs: views,
     row: ctx.buildNames.map((name) => byBuild.get(name) ?? null),
     floorDefinition: friction ? floorDefinition(friction, definitionId) : null,
@@ -433,8 +520,9 @@ function scenarioView(runs: RunResult[], index: number, anchor: string, ctx: Sce
     hasTelemetry: views.some((v) => v.telemetry.length > 0),
     tMax_ms: Math.round(tMax_s * 1000),
     duration: `${label(tMax_s, 2)} s`,
-    divergences: scenarioDivergences(runs, ctx),
+    divergences: [],
   };
+  return { view, traces };
 }
 
 /**

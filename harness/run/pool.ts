@@ -48,6 +48,48 @@ const THREAD_URL = new URL(import.meta.url.endsWith('.ts') ? './runThread.mjs' :
 /** A thread that has not even started its run after this long is stuck in start-up. */
 const START_LIMIT_ms = 120_000;
 
+/**
+ * Threads started ahead of the pool (warmRunThreads), parked until a pool takes one: their start-up
+ * (the harness modules) overlaps the command's own (loading the scenarios) instead of following it.
+ * Unreferenced while parked, so an unused one never keeps the process alive.
+ */
+const parked: { url: string; worker: Worker }[] = [];
+
+/** Starts threads until `count` are parked for the thread entry `threadUrl` (a later pool takes them). */
+export function warmRunThreads(count: number, threadUrl: URL = THREAD_URL): void {
+  const url = threadUrl.href;
+  let have = parked.filter((p) => p.url === url).length;
+  for (; have < count; have++) {
+    const worker = new Worker(threadUrl, { workerData: { warm: true } });
+    worker.unref();
+    const entry = { url, worker };
+    const drop = () => {
+      const at = parked.indexOf(entry);
+      if (at >= 0) parked.splice(at, 1);
+    };
+    // A parked thread that fails is only dropped; the pool starts a new one instead.
+    worker.once('error', drop);
+    worker.once('exit', drop);
+    parked.push(entry);
+  }
+}
+
+/** How many started threads wait for a pool (for the tests). */
+export function parkedRunThreads(): number {
+  return parked.length;
+}
+
+/** A parked thread for `threadUrl`, referenced again, or undefined. */
+function takeParked(threadUrl: URL): Worker | undefined {
+  const at = parked.findIndex((p) => p.url === threadUrl.href);
+  if (at < 0) return undefined;
+  const { worker } = parked.splice(at, 1)[0];
+  worker.removeAllListeners('error');
+  worker.removeAllListeners('exit');
+  worker.ref();
+  return worker;
+}
+
 export interface RunPool {
   run(task: RunTask, timeout_s: number): Promise<RunResult>;
   /** Stops everything at once (a signal): queued runs and running ones reject with RunInterruptedError. */
@@ -137,7 +179,9 @@ export function createRunPool(jobs: number, options: RunPoolOptions = {}): RunPo
     let settled = false;
     let allowance: NodeJS.Timeout | undefined;
     let startLimit: NodeJS.Timeout | undefined;
-    const worker = new Worker(threadUrl, { workerData: { task: postedTask(item.task) } });
+    const warm = takeParked(threadUrl);
+    warm?.postMessage({ task: postedTask(item.task) });
+    const worker = warm ?? new Worker(threadUrl, { workerData: { task: postedTask(item.task) } });
     const entry: Running = { stop: (error) => finish(error) };
     running.add(entry);
     const awaitStart = () => {

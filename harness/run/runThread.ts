@@ -5,7 +5,7 @@
 //   { kind: 'started' }                 a task arrived; the run's wall-clock allowance starts now
 //   { kind: 'group', pgid, alive }      a process build's group started / is gone (pool kills leftovers)
 //   { kind: 'result', result }          the RunResult
-// Messages from the parent: { task } (the next run, same build). An uncaught error or unhandled
+// Messages from the parent: { task } (the next run, same build; a warm thread's first run). An uncaught error or unhandled
 // rejection (Node's default: it throws) ends the thread; the parent turns that into an error
 // result for the pair in progress and never reuses the thread.
 
@@ -42,12 +42,13 @@ export async function serveOneRun(task: RunTask, post: (message: RunThreadMessag
   }
 }
 
-if (parentPort !== null && workerData?.task !== undefined) {
+if (parentPort !== null && (workerData?.task !== undefined || workerData?.warm === true)) {
   const port = parentPort;
   const post = (message: RunThreadMessage, transfer?: ArrayBuffer[]) => port.postMessage(message, transfer);
   // Runs are served strictly one after another: the pool posts the next only after a result.
-  // A raster's grids arrive in shared memory (sharedRaster.ts), posted once per raster.
-  let chain = serveOneRun(receivedTask(workerData.task as PostedTask), post);
+  // A raster's grids arrive in shared memory (sharedRaster.ts), posted once per raster. A warm
+  // thread (pool.ts warmRunThreads) starts with no task and gets its first one posted.
+  let chain = workerData.task !== undefined ? serveOneRun(receivedTask(workerData.task as PostedTask), post) : Promise.resolve();
   port.on('message', (message: { task: PostedTask }) => {
     chain = chain.then(() => serveOneRun(receivedTask(message.task), post));
   });

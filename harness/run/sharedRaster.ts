@@ -6,6 +6,7 @@
 // grids from it: the same values, read from memory both sides already share.
 
 import type { Raster } from '../plant/types.js';
+import type { ResolvedScenario } from '../scenario/types.js';
 import type { RunTask } from './runOne.js';
 
 /** μs then μk, each nx × ny, indexed i·ny + j (the raster's [i][j]). */
@@ -39,24 +40,26 @@ function pack(raster: Raster): SharedRasterGrids {
   return grids;
 }
 
-/** The task to post: unchanged without a raster; else its grids moved to shared memory (once per raster). */
-export function postedTask(task: RunTask): PostedTask {
+/** A scenario as posted to a thread: its raster's grids, when it has one, in `sharedRaster`. */
+export type PostedScenario = { scenario: ResolvedScenario; sharedRaster?: SharedRasterGrids };
+
+/** The scenario to post: unchanged without a raster; else its grids moved to shared memory (once per raster). */
+export function postedScenario(scenario: ResolvedScenario): PostedScenario {
   // Optional chaining: test doubles of the pool post tasks without a scenario.
-  const friction = task.scenario?.plant?.ground?.friction;
+  const friction = scenario?.plant?.ground?.friction;
   const raster = friction?.raster;
-  if (!friction || !raster) return task;
+  if (!friction || !raster) return { scenario };
   const sharedRaster = pack(raster);
   const lean: Raster = { ...raster, staticFriction: [], kineticFriction: [] };
-  const plant = task.scenario.plant;
-  return { ...task, scenario: { ...task.scenario, plant: { ...plant, ground: { ...plant.ground, friction: { ...friction, raster: lean } } } }, sharedRaster };
+  const plant = scenario.plant;
+  return { scenario: { ...scenario, plant: { ...plant, ground: { ...plant.ground, friction: { ...friction, raster: lean } } } }, sharedRaster };
 }
 
-/** The thread's side: the task with its raster grids rebuilt from shared memory. */
-export function receivedTask(posted: PostedTask): RunTask {
-  if (!posted.sharedRaster) return posted;
-  const { sharedRaster, ...task } = posted;
-  const raster = task.scenario.plant.ground.friction.raster;
-  if (!raster) return task;
+/** The thread's side: the scenario with its raster grids rebuilt from shared memory. */
+export function receivedScenario(posted: PostedScenario): ResolvedScenario {
+  const { scenario, sharedRaster } = posted;
+  const raster = scenario.plant.ground.friction.raster;
+  if (!sharedRaster || !raster) return scenario;
   const { nx, ny, cells } = sharedRaster;
   const staticFriction: number[][] = [];
   const kineticFriction: number[][] = [];
@@ -66,5 +69,18 @@ export function receivedTask(posted: PostedTask): RunTask {
   }
   raster.staticFriction = staticFriction;
   raster.kineticFriction = kineticFriction;
-  return task;
+  return scenario;
+}
+
+/** The task to post: unchanged without a raster; else its grids moved to shared memory (once per raster). */
+export function postedTask(task: RunTask): PostedTask {
+  const { scenario, sharedRaster } = postedScenario(task.scenario);
+  return sharedRaster ? { ...task, scenario, sharedRaster } : task;
+}
+
+/** The thread's side: the task with its raster grids rebuilt from shared memory. */
+export function receivedTask(posted: PostedTask): RunTask {
+  if (!posted.sharedRaster) return posted;
+  const { sharedRaster, ...task } = posted;
+  return { ...task, scenario: receivedScenario({ scenario: task.scenario, sharedRaster }) };
 }
