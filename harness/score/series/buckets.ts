@@ -35,6 +35,50 @@ export class MinMaxBuckets {
   }
 }
 
+/**
+ * MinMaxBuckets for several channels in one flat store (channel c's bucket b at c·buckets + b):
+ * the recorder folds a tick's whole telemetry vector in one loop, without a call per channel.
+ */
+export class MinMaxBank {
+  readonly min: Float64Array;
+  readonly max: Float64Array;
+  readonly count: Uint32Array;
+
+  constructor(
+    readonly channels: number,
+    readonly bucketCount: number,
+  ) {
+    this.min = new Float64Array(channels * bucketCount).fill(Number.POSITIVE_INFINITY);
+    this.max = new Float64Array(channels * bucketCount).fill(Number.NEGATIVE_INFINITY);
+    this.count = new Uint32Array(channels * bucketCount);
+  }
+
+  /** values[0 … channels − 1] into bucket b (NaN skipped), as MinMaxBuckets.add per channel. */
+  addAll(bucket: number, values: ArrayLike<number>): void {
+    const min = this.min, max = this.max, count = this.count, stride = this.bucketCount;
+    for (let c = 0, at = bucket; c < this.channels; c++, at += stride) {
+      const value = values[c];
+      if (value !== value) continue; // NaN
+      if (value < min[at]) min[at] = value;
+      if (value > max[at]) max[at] = value;
+      count[at]++;
+    }
+  }
+
+  /** MinMaxBuckets.toSeries of one channel. */
+  toSeries(channel: number, used: number, digits: number): { min: (number | null)[]; max: (number | null)[] } {
+    const min: (number | null)[] = [];
+    const max: (number | null)[] = [];
+    const o = channel * this.bucketCount;
+    for (let b = 0; b < used; b++) {
+      const has = this.count[o + b] > 0;
+      min.push(has ? round(this.min[o + b], digits) : null);
+      max.push(has ? round(this.max[o + b], digits) : null);
+    }
+    return { min, max };
+  }
+}
+
 /** Ticks per bucket so that `expectedTicks` fill at most `maxBuckets` buckets. */
 export function ticksPerBucket(expectedTicks: number, maxBuckets: number): number {
   if (!(maxBuckets >= 1)) throw new RangeError(`buckets: maxBuckets ${maxBuckets} must be ≥ 1`);

@@ -9,7 +9,7 @@ import { frictionMargin } from '../frictionMargin.js';
 import type { EpisodeStart, TickObserver, TickSample } from '../sample.js';
 import { SlipTracker } from '../slip.js';
 import { DEFAULT_SLIP_SPEED_mps, loadedThreshold_N } from '../thresholds.js';
-import { MinMaxBuckets, round, ticksPerBucket } from './buckets.js';
+import { MinMaxBank, MinMaxBuckets, round, ticksPerBucket } from './buckets.js';
 import { compactFrictionMap } from './frictionMapData.js';
 import {
   MAX_FOOTHOLDS,
@@ -76,13 +76,16 @@ class BucketSeriesRecorder implements SeriesRecorder {
   private readonly slipFrom: Float64Array;
   private readonly inSlip: Uint8Array;
   private readonly loopBins = new Uint32Array(LOOP_BIN_COUNT);
+  /** Math.log(LOOP_BIN_RATIO), the same double, computed once instead of every tick. */
+  private readonly logBinRatio = Math.log(LOOP_BIN_RATIO);
   private readonly footholds: Foothold[] = [];
   private readonly slips: SlipSegment[] = [];
   private readonly dropped = { footholds: 0, slips: 0 };
   private governorPairs: GovernorPair[] = [];
-  // Every telemetry scalar: per-bucket extremes for the plots, exact run extremes for results.json.
+  // Every telemetry scalar: per-bucket extremes for the plots (the plotted scalars and the governor
+  // pairs' channels, the first `telemetryBank.channels`), exact run extremes for results.json.
   private telemetryNames: readonly string[] = [];
-  private telemetryBuckets: MinMaxBuckets[] = [];
+  private telemetryBank = new MinMaxBank(0, 1);
   private telemetryMin = new Float64Array(0);
   private telemetryMax = new Float64Array(0);
   private allTelemetryNames: readonly string[] = [];
@@ -158,7 +161,6 @@ class BucketSeriesRecorder implements SeriesRecorder {
     const names = info.telemetryNames;
     this.allTelemetryNames = names;
     this.telemetryNames = names.slice(0, MAX_TELEMETRY_SERIES);
-    this.telemetryBuckets = this.telemetryNames.map(() => new MinMaxBuckets(bucketCount));
     this.telemetryMin = new Float64Array(names.length).fill(Number.POSITIVE_INFINITY);
     this.telemetryMax = new Float64Array(names.length).fill(Number.NEGATIVE_INFINITY);
     names.forEach((name, index) => {
@@ -166,9 +168,13 @@ class BucketSeriesRecorder implements SeriesRecorder {
       const axis = name.slice('governor.target.'.length);
       const applied = names.indexOf(`governor.applied.${axis}`);
       if (applied < 0) return;
-      pairs.push({ axis, target: index, applied, targetBuckets: new MinMaxBuckets(bucketCount), appliedBuckets: new MinMaxBuckets(bucketCount) });
+      pairs.push({ axis, target: index, applied });
     });
     this.governorPairs = pairs;
+    // The governor pairs' buckets are their channels' buckets (the same values folded the same way).
+    let channels = this.telemetryNames.length;
+    for (const g of pairs) channels = Math.max(channels, g.target + 1, g.applied + 1);
+    this.telemetryBank = new MinMaxBank(channels, bucketCount);
   }
 
   onTick(s: TickSample, action: Action): void {
@@ -223,14 +229,7 @@ class BucketSeriesRecorder implements SeriesRecorder {
       this.slipDistance[i * bucketCount + b] = slip.distancePerFoot_m[i];
     }
     const telemetry = action.telemetry;
-    const pairs = this.governorPairs;
-    for (let k = 0; k < pairs.length; k++) {
-      const g = pairs[k];
-      g.targetBuckets.add(b, telemetry[g.target]);
-      g.appliedBuckets.add(b, telemetry[g.applied]);
-    }
-    const buckets = this.telemetryBuckets;
-    for (let k = 0; k < buckets.length; k++) buckets[k].add(b, telemetry[k]);
+    this.telemetryBank.addAll(b, telemetry);
     const telemetryMin = this.telemetryMin, telemetryMax = this.telemetryMax;
     for (let k = 0; k < this.allTelemetryNames.length; k++) {
       const value = telemetry[k];
@@ -239,7 +238,7 @@ class BucketSeriesRecorder implements SeriesRecorder {
     }
     const loop_us = s.loopTime_us;
     if (Number.isFinite(loop_us) && loop_us >= 0) {
-      const k = loop_us <= LOOP_BIN_START_us ? 0 : Math.floor(Math.log(loop_us / LOOP_BIN_START_us) / Math.log(LOOP_BIN_RATIO));
+      const k = loop_us <= LOOP_BIN_START_us ? 0 : Math.floor(Math.log(loop_us / LOOP_BIN_START_us) / this.logBinRatio);
       this.loopBins[Math.min(LOOP_BIN_COUNT - 1, k)]++;
       this.loopTicks++;
     }
@@ -278,8 +277,8 @@ class BucketSeriesRecorder implements SeriesRecorder {
       footholds: this.footholds,
       slips: this.slips,
       dropped: { ...this.dropped, telemetry: this.allTelemetryNames.length - this.telemetryNames.length },
-      telemetry: this.telemetryNames.map((name, k): TelemetrySeries => ({ name, values: telemetrySeries(this.telemetryBuckets[k], used), ...this.range(k) })),
-      governor: this.governorPairs.map((g) => ({ axis: g.axis, target: g.targetBuckets.toSeries(used, 4), applied: g.appliedBuckets.toSeries(used, 4) })),
+      telemetry: this.telemetryNames.map((name, k): TelemetrySeries => ({ name, values: telemetrySeries(this.telemetryBank, k, used), ...this.range(k) })),
+      governor: this.governorPairs.map((g) => ({ axis: g.axis, target: this.telemetryBank.toSeries(g.target, used, 4), applied: this.telemetryBank.toSeries(g.applied, used, 4) })),
       loopTime: { start_us: LOOP_BIN_START_us, ratio: LOOP_BIN_RATIO, bins, ticks: this.loopTicks, budget_us: scenario.control.loopBudget_us },
       friction: compactFrictionMap(scenario.plant.ground.friction),
       events: scenarioEvents(scenario).slice(0, MAX_SERIES_EVENTS),
@@ -292,13 +291,11 @@ interface GovernorPair {
   axis: string;
   target: number;
   applied: number;
-  targetBuckets: MinMaxBuckets;
-  appliedBuckets: MinMaxBuckets;
 }
 
 /** A telemetry scalar's buckets for the plots: 6 significant digits, clipped to the series bound. */
-function telemetrySeries(buckets: MinMaxBuckets, used: number): { min: (number | null)[]; max: (number | null)[] } {
-  const raw = buckets.toSeries(used, 6);
+function telemetrySeries(bank: MinMaxBank, channel: number, used: number): { min: (number | null)[]; max: (number | null)[] } {
+  const raw = bank.toSeries(channel, used, 6);
   const clip = (v: number | null) => (v === null ? null : Math.max(-TELEMETRY_PLOT_LIMIT, Math.min(TELEMETRY_PLOT_LIMIT, v)));
   return { min: raw.min.map(clip), max: raw.max.map(clip) };
 }
