@@ -8,22 +8,15 @@ import { runGate } from '../../harness/commands/gate.js';
 import { isAtomicTempName } from '../../harness/files/atomic.js';
 import { mergeResults } from '../../harness/commands/merge.js';
 import { validateResults } from '../../harness/results/validate.js';
-import type { ResultsFile, RunResult } from '../../harness/results/types.js';
+import type { ResultsFile } from '../../harness/results/types.js';
 import { EXIT } from '../../harness/commands/exit.js';
 import { runSuite } from '../../harness/commands/run.js';
 import { expectStrictJunit } from '../support/junit.js';
+import { deterministicPart } from '../support/deterministicRun.js';
 
 const MINI = 'test/run/fixtures/mini';
 const fresh = (name: string) => mkdtempSync(path.join(tmpdir(), `footing-${name}-`));
 const readResults = (dir: string) => JSON.parse(readFileSync(path.join(dir, 'results.json'), 'utf8')) as ResultsFile;
-
-/** Everything of a run that must be bit-identical however it was scheduled (wall times excluded). */
-function deterministicPart(run: RunResult): unknown {
-  const { metrics, sim, ...rest } = run;
-  const { loopTime_us: _loop, ...scored } = (metrics ?? {}) as Record<string, unknown>;
-  const { wall_s: _wall, realTimeFactor: _rtf, steadyRealTimeFactor: _steady, ...simRest } = (sim ?? {}) as Record<string, unknown>;
-  return { ...rest, scored, simRest };
-}
 
 describe('footing run, end to end', () => {
   it('writes every result file, valid and parseable, and the gate blocks the over-trusting build on friction margin', async () => {

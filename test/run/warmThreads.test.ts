@@ -9,21 +9,13 @@ import { describe, expect, it } from 'vitest';
 import { measureSuiteLoopTimesInThread, warmLoopTimeThread } from '../../harness/bench/suiteLoopTime.js';
 import { parseBuildSpec } from '../../harness/builds/spec.js';
 import { runSuite } from '../../harness/commands/run.js';
-import type { RunResult } from '../../harness/results/types.js';
 import { parkedRunThreads, warmRunThreads } from '../../harness/run/pool.js';
 import { loadScenarioFile } from '../../harness/scenario/index.js';
+import { deterministicPart } from '../support/deterministicRun.js';
 
 const MINI = 'test/run/fixtures/mini';
 const ROOT = new URL('../../', import.meta.url).pathname;
 const fresh = (name: string) => mkdtempSync(path.join(tmpdir(), `footing-warm-${name}-`));
-
-/** A run without its wall-clock figures (loop time, wall, real-time factors). */
-function deterministicPart(run: RunResult): unknown {
-  const { metrics, sim, ...rest } = run;
-  const { loopTime_us: _loop, ...scored } = (metrics ?? {}) as Record<string, unknown>;
-  const { wall_s: _wall, realTimeFactor: _rtf, steadyRealTimeFactor: _steady, ...simRest } = (sim ?? {}) as Record<string, unknown>;
-  return { ...rest, scored, simRest };
-}
 
 describe('threads started ahead', () => {
   it('a pool takes the parked run threads, and their runs score as runs in this thread do', async () => {
