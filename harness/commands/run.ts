@@ -1,6 +1,7 @@
 // `footing run`: every (scenario × build) pair of a suite through the suite runner (run/suite.ts),
 // then (runTail.ts, loaded while the runs run) the results folder: results.json, junit.xml,
-// summary.md, report.html, and gate.md when a baseline build is named. Exit 0 every run passes (and the gate holds), 1 otherwise, 2 bad input.
+// summary.md, report.html, and gate.md when a baseline build is named. Exit 0 every run passes
+// (and the gate holds), 1 otherwise, 2 bad input.
 
 import path from 'node:path';
 import { observationRequest, timedScenarios } from '../bench/pairedLoopTime.js';
@@ -112,6 +113,8 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
   });
   // What follows the runs (gate, loop time, report) loads while they run: off the start's path.
   const tail = import('./runTail.js');
+  // Runs that throw (a signal) leave the import unawaited: its failure must not surface later.
+  tail.catch(() => undefined);
   const runs = await running;
 
   const { finishSuite } = await tail;
@@ -133,13 +136,14 @@ export async function runSuite(options: SuiteRunOptions): Promise<SuiteRunOutcom
 
 /**
  * Starts the run threads (and the loop-time thread) before the scenarios load, when the suite is
- * sure to use them: more than one job and more than one build, so more than one pair (a single
- * pair runs in this thread). Their start-up then overlaps the loading instead of following it.
+ * sure to use them: more than one job and more than one build, so at least one pair per build (a
+ * single pair runs in this thread); not for a resumed or sharded suite, which may run fewer.
+ * Their start-up then overlaps the loading instead of following it.
  */
 function warmThreads(specs: readonly BuildSpec[], options: SuiteRunOptions, policy: GatePolicy): void {
   const jobs = options.jobs ?? defaultJobs();
-  if (jobs < 2 || specs.length < 2 || options.resume) return;
-  warmRunThreads(Math.min(jobs, specs.length * 2));
+  if (jobs < 2 || specs.length < 2 || options.resume || options.shard) return;
+  warmRunThreads(Math.min(jobs, specs.length));
   const inThread = specs.every((spec) => spec.kind !== 'process');
   if (options.baseline !== undefined && loopTimeJudged(policy) && inThread) warmLoopTimeThread();
 }
